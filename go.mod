@@ -1,0 +1,3 @@
+module pasval
+
+go 1.26

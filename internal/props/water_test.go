@@ -1,0 +1,74 @@
+package props
+
+import (
+	"math"
+	"testing"
+)
+
+func TestIF97Region1Table5(t *testing.T) {
+	// Expected values: IAPWS R7-97(2012), Table 5 (verification values for region 1).
+	tests := []struct {
+		name         string
+		T, p         float64 // K, Pa
+		v, h, cp     float64 // m³/kg, J/kg, J/(kg·K); 0 = not tabulated here
+	}{
+		{"300 K 3 MPa", 300, 3e6, 0.100215168e-2, 115.331273e3, 4.17301218e3},
+		{"300 K 80 MPa", 300, 80e6, 0.971180894e-3, 184.142828e3, 4.01008987e3},
+		{"500 K 3 MPa", 500, 3e6, 0.120241800e-2, 975.542239e3, 4.65580682e3},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			w, err := IF97Region1(tc.T, tc.p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			// Table 5 prints nine significant digits.
+			for _, c := range []struct {
+				what      string
+				got, want float64
+			}{{"v", w.SpecificVolume, tc.v}, {"h", w.Enthalpy, tc.h}, {"cp", w.Cp, tc.cp}} {
+				if math.Abs(c.got-c.want) > 1e-8*math.Abs(c.want) {
+					t.Errorf("%s = %.10g, want %.10g", c.what, c.got, c.want)
+				}
+			}
+		})
+	}
+}
+
+func TestSaturationPressure(t *testing.T) {
+	// IAPWS R7-97(2012), Table 35: p_s(300 K) = 0.353658941e-2 MPa,
+	// p_s(500 K) = 0.263889776e1 MPa, p_s(600 K) = 0.123443146e2 MPa.
+	for _, c := range []struct{ T, want float64 }{{300, 0.353658941e4}, {500, 0.263889776e7}, {600, 0.123443146e8}} {
+		if got := SaturationPressure(c.T); math.Abs(got-c.want) > 1e-8*c.want {
+			t.Errorf("p_s(%g K) = %.10g Pa, want %.10g", c.T, got, c.want)
+		}
+	}
+}
+
+func TestWaterAtMediumConditions(t *testing.T) {
+	// Computed with Debian's python3-iapws 1.5.2:
+	//   from iapws.iapws97 import _Region1; r = _Region1(T, P)
+	// at 0.101325 MPa for 20 °C and 80 °C, and at 1.01·p_sat for 120 °C.
+	tests := []struct {
+		tempC, rho, cp float64
+	}{
+		{20, 998.2060925, 4184.794095},
+		{80, 971.8028996, 4195.515554},
+		{120, 943.1066716, 4246.365635},
+	}
+	for _, tc := range tests {
+		w, err := Water(tc.tempC)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(w.Density-tc.rho) > 1e-6*tc.rho || math.Abs(w.Cp-tc.cp) > 1e-6*tc.cp {
+			t.Errorf("%g °C: rho %.7f cp %.6f, want %.7f %.6f", tc.tempC, w.Density, w.Cp, tc.rho, tc.cp)
+		}
+	}
+	if _, err := IF97Region1(200, 1e5); err == nil {
+		t.Error("ice accepted")
+	}
+	if _, err := IF97Region1(450, 1e5); err == nil {
+		t.Error("steam at 1 bar accepted as liquid")
+	}
+}
