@@ -1,0 +1,85 @@
+package regen
+
+import (
+	"fmt"
+	"math"
+
+	"pasval/internal/props"
+)
+
+// Medium is a heating or cooling medium.
+type Medium struct {
+	Name         string
+	Water        bool    // properties from IAPWS-IF97 region 1; Density and SpecificHeat unused
+	Density      float64 // kg/m³, > 0, for a medium that is not water
+	SpecificHeat float64 // J/(kg·K), > 0, for a medium that is not water
+}
+
+// Flow is a medium's rate: exactly one of the two is positive.
+type Flow struct {
+	Volumetric float64 // m³/s
+	Mass       float64 // kg/s
+}
+
+// capacity is the medium's stream: mass flow, mean cp and C = ṁ·cp.
+type capacity struct {
+	mass, cp, c float64
+}
+
+// massFlow converts the medium's rate to kg/s, volumetric rates at the
+// medium's inlet temperature.
+func (m Medium) massFlow(f Flow, inletC float64) (float64, error) {
+	if f.Mass > 0 {
+		return f.Mass, nil
+	}
+	if m.Water {
+		w, err := props.Water(inletC)
+		if err != nil {
+			return 0, err
+		}
+		return f.Volumetric * w.Density, nil
+	}
+	return f.Volumetric * m.Density, nil
+}
+
+func (m Medium) cp(meanC float64) (float64, error) {
+	if !m.Water {
+		return m.SpecificHeat, nil
+	}
+	w, err := props.Water(meanC)
+	if err != nil {
+		return 0, err
+	}
+	return w.Cp, nil
+}
+
+const (
+	maxIterations = 200
+	tempTolerance = 1e-11 // K
+)
+
+// ErrNoConvergence is returned when a fixed-point solve does not settle.
+var ErrNoConvergence = fmt.Errorf("solution did not converge in %d iterations", maxIterations)
+
+// outletForDuty finds the medium outlet for a duty q (W, positive when the
+// medium gives heat): T_out = T_in − q / (ṁ cp(T̄)), with cp at the mean of
+// T_in and T_out, iterated until T_out settles.
+func (m Medium) outletForDuty(f Flow, inletC, q float64) (float64, capacity, error) {
+	mass, err := m.massFlow(f, inletC)
+	if err != nil {
+		return 0, capacity{}, err
+	}
+	out := inletC
+	for range maxIterations {
+		cp, err := m.cp((inletC + out) / 2)
+		if err != nil {
+			return 0, capacity{}, err
+		}
+		next := inletC - q/(mass*cp)
+		if math.Abs(next-out) < tempTolerance {
+			return next, capacity{mass, cp, mass * cp}, nil
+		}
+		out = next
+	}
+	return 0, capacity{}, ErrNoConvergence
+}
