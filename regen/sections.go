@@ -117,7 +117,7 @@ func Regeneration(spec RegenSpec, c, rawIn, hotIn float64) (Section, error) {
 	sec := Section{Name: "regeneration"}
 	span := hotIn - rawIn
 	if !(span > 0) {
-		return sec, fmt.Errorf("regeneration: the pasteurized product (%.2f °C) must be hotter than the raw product (%.2f °C)", hotIn, rawIn)
+		return sec, sectionErrorf("regeneration", "the pasteurized product (%.2f °C) must be hotter than the raw product (%.2f °C)", hotIn, rawIn)
 	}
 	var ratio float64
 	if spec.Mode() == Rating {
@@ -125,7 +125,7 @@ func Regeneration(spec RegenSpec, c, rawIn, hotIn float64) (Section, error) {
 	} else {
 		ratio = spec.Ratio
 		if _, err := NTU(spec.Arrangement, ratio, 1); err != nil {
-			return sec, fmt.Errorf("regeneration: a ratio of %.4f is impossible: %w", ratio, err)
+			return sec, sectionErrorf("regeneration", "a ratio of %.4f is impossible: %w", ratio, err)
 		}
 	}
 	sec.ProductIn, sec.ProductOut = rawIn, rawIn+ratio*span
@@ -158,7 +158,7 @@ func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error)
 	sec := Section{Name: "heating", ProductIn: productIn, ProductOut: productOut, ProductCapacity: c}
 	q := c * (productOut - productIn)
 	if !(q > 0) {
-		return sec, fmt.Errorf("heating: the product leaves regeneration at %.2f °C, already at or above the %.2f °C it must reach; there is nothing to heat",
+		return sec, sectionErrorf("heating", "the product leaves regeneration at %.2f °C, already at or above the %.2f °C it must reach; there is nothing to heat",
 			productIn, productOut)
 	}
 	mediumIn := spec.Inlet
@@ -172,13 +172,13 @@ func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error)
 		for range maxIterations {
 			mediumOut, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
 			if err != nil {
-				return sec, fmt.Errorf("heating: %w", err)
+				return sec, sectionErrorf("heating", "%w", err)
 			}
 			cmin := math.Min(c, cap.c)
 			eps := Effectiveness(spec.Arrangement, spec.U*area/cmin, cmin/math.Max(c, cap.c))
 			next := productIn + q/(eps*cmin)
 			if math.IsInf(next, 0) || math.IsNaN(next) || next > 1000 {
-				return sec, fmt.Errorf("heating: %d plates cannot bring the product to %.2f °C with any medium temperature: %w",
+				return sec, sectionErrorf("heating", "%d plates cannot bring the product to %.2f °C with any medium temperature: %w",
 					spec.Plates, productOut, ErrInfeasible)
 			}
 			if math.Abs(next-mediumIn) < tempTolerance {
@@ -189,12 +189,12 @@ func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error)
 			mediumIn = next
 		}
 		if !converged {
-			return sec, fmt.Errorf("heating: %w", ErrNoConvergence)
+			return sec, sectionErrorf("heating", "%w", ErrNoConvergence)
 		}
 	}
 	mediumOut, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
 	if err != nil {
-		return sec, fmt.Errorf("heating: %w", err)
+		return sec, sectionErrorf("heating", "%w", err)
 	}
 	sec.OtherIn, sec.OtherOut = mediumIn, mediumOut
 	sec.OtherCapacity, sec.MediumMassFlow, sec.MediumSpecificHeat = cap.c, cap.mass, cap.cp
@@ -218,22 +218,22 @@ type CoolingSpec struct {
 func Cooling(spec CoolingSpec, c, productIn float64) (Section, error) {
 	sec := Section{Name: "cooling", Stage: spec.Stage, ProductIn: productIn, ProductCapacity: c}
 	if !(spec.Inlet < productIn) {
-		return sec, fmt.Errorf("%s: the medium enters at %.2f °C, not below the product entering at %.2f °C; it cannot cool it",
-			sec.Label(), spec.Inlet, productIn)
+		return sec, sectionErrorf(sec.Label(), "the medium enters at %.2f °C, not below the product entering at %.2f °C; it cannot cool it",
+			spec.Inlet, productIn)
 	}
 	var q float64
 	if spec.Mode() == Rating {
 		area := float64(spec.Plates) * spec.PlateArea
 		mass, err := spec.Medium.massFlow(spec.Flow, spec.Inlet)
 		if err != nil {
-			return sec, fmt.Errorf("%s: %w", sec.Label(), err)
+			return sec, sectionErrorf(sec.Label(), "%w", err)
 		}
 		mediumOut := spec.Inlet
 		converged := false
 		for range maxIterations {
 			cp, err := spec.Medium.cp((spec.Inlet + mediumOut) / 2)
 			if err != nil {
-				return sec, fmt.Errorf("%s: %w", sec.Label(), err)
+				return sec, sectionErrorf(sec.Label(), "%w", err)
 			}
 			q = rate(spec.Surface, area, c, mass*cp, productIn, spec.Inlet)
 			next := spec.Inlet + q/(mass*cp)
@@ -244,23 +244,23 @@ func Cooling(spec CoolingSpec, c, productIn float64) (Section, error) {
 			mediumOut = next
 		}
 		if !converged {
-			return sec, fmt.Errorf("%s: %w", sec.Label(), ErrNoConvergence)
+			return sec, sectionErrorf(sec.Label(), "%w", ErrNoConvergence)
 		}
 		sec.ProductOut = productIn - q/c
 	} else {
 		if math.IsNaN(spec.ProductOut) {
-			return sec, fmt.Errorf("%s: a sizing stage needs the product outlet it must reach", sec.Label())
+			return sec, sectionErrorf(sec.Label(), "a sizing stage needs the product outlet it must reach")
 		}
 		sec.ProductOut = spec.ProductOut
 		q = c * (productIn - spec.ProductOut)
 		if !(q > 0) {
-			return sec, fmt.Errorf("%s: the product enters at %.2f °C, already at or below its %.2f °C outlet; there is nothing to cool",
-				sec.Label(), productIn, spec.ProductOut)
+			return sec, sectionErrorf(sec.Label(), "the product enters at %.2f °C, already at or below its %.2f °C outlet; there is nothing to cool",
+				productIn, spec.ProductOut)
 		}
 	}
 	mediumOut, cap, err := spec.Medium.outletForDuty(spec.Flow, spec.Inlet, -q)
 	if err != nil {
-		return sec, fmt.Errorf("%s: %w", sec.Label(), err)
+		return sec, sectionErrorf(sec.Label(), "%w", err)
 	}
 	sec.OtherIn, sec.OtherOut = spec.Inlet, mediumOut
 	sec.OtherCapacity, sec.MediumMassFlow, sec.MediumSpecificHeat = cap.c, cap.mass, cap.cp
@@ -271,6 +271,19 @@ func Cooling(spec CoolingSpec, c, productIn float64) (Section, error) {
 		sec.Duty = c * (productIn - sec.ProductOut)
 	}
 	return sec, err
+}
+
+// SectionError is an error in one section's calculation.
+type SectionError struct {
+	Section string // the section's label: "regeneration", "heating", "cooling stage \"chilled water\""
+	Err     error
+}
+
+func (e *SectionError) Error() string { return e.Section + ": " + e.Err.Error() }
+func (e *SectionError) Unwrap() error { return e.Err }
+
+func sectionErrorf(section, format string, args ...any) error {
+	return &SectionError{Section: section, Err: fmt.Errorf(format, args...)}
 }
 
 // IsInfeasible reports whether err says a duty cannot be met by any area.

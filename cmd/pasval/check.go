@@ -1,0 +1,246 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"pasval/internal/assess"
+	"pasval/internal/plantfile"
+	"pasval/internal/units"
+)
+
+type checkOptions struct {
+	file  string
+	units string // "", "si" or "us"
+	json  bool
+}
+
+func newCheckCmd(stdout io.Writer) *cobra.Command {
+	var opts checkOptions
+	cmd := &cobra.Command{
+		Use:   "check PLANT.yaml",
+		Short: "Compute every section and judge every check in a plant file",
+		Long: `check reads a plant file, sizes or rates each heat-exchange section
+(regeneration, heating, cooling stages) and prints the duty, LMTD, NTU,
+effectiveness, area, plates and temperatures of each, the regeneration ratio,
+and each check with PASS or FAIL, the required and actual values and the margin.`,
+		Example: `  pasval check testdata/demo/htst-milk-si.yaml
+  pasval check cider.yaml --units si
+  pasval check line2.yaml --json > line2.json`,
+		Args: argsFile,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.file = args[0]
+			return runCheck(opts, stdout)
+		},
+	}
+	cmd.Long += "\n" + exitStatusHelp
+	cmd.Flags().StringVar(&opts.units, "units", "", "units for printed values: si or us (default: us when the hold setpoint is in °F)")
+	cmd.Flags().BoolVar(&opts.json, "json", false, "print the results as JSON (SI units, every key names its unit)")
+	return cmd
+}
+
+func parseSystem(s string, p *plantfile.Plant) (units.System, error) {
+	switch strings.ToLower(s) {
+	case "":
+		return p.System, nil
+	case "si":
+		return units.SI, nil
+	case "us":
+		return units.US, nil
+	}
+	return units.SI, usagef("--units must be si or us, not %q", s)
+}
+
+func runCheck(opts checkOptions, out io.Writer) error {
+	if opts.units != "" && opts.units != "si" && opts.units != "us" {
+		return usagef("--units must be si or us, not %q", opts.units)
+	}
+	p, err := plantfile.Load(opts.file)
+	if err != nil {
+		return err
+	}
+	sys, err := parseSystem(opts.units, p)
+	if err != nil {
+		return err
+	}
+	res, err := assess.Run(p)
+	if err != nil {
+		return err
+	}
+	if opts.json {
+		enc := json.NewEncoder(out)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(res); err != nil {
+			return err
+		}
+	} else {
+		writeCheck(out, res, display{sys})
+	}
+	if !res.Pass {
+		return errChecksFailed
+	}
+	return nil
+}
+
+func writeCheck(w io.Writer, res *assess.Result, d display) {
+	p := res.Plant
+	fmt.Fprintf(w, "pasval %s · check of %s\n", res.Version, p.File)
+	var ids []string
+	for _, k := range []string{"site", "line", "product", "schedule"} {
+		if v := p.RecordValue(k); v != "" {
+			ids = append(ids, v)
+		}
+	}
+	if len(ids) > 0 {
+		fmt.Fprintln(w, strings.Join(ids, " · "))
+	}
+	fmt.Fprintf(w, "input sha256 %s\n\n", res.InputSHA256)
+
+	pp := res.Product
+	fmt.Fprintf(w, "Product  %s: density %s, specific heat %s%s\n", p.Product.Name,
+		d.with(pp.Density, units.Density, 1), d.with(pp.SpecificHeat, units.SpecificHeat, 3), map[bool]string{true: " (from composition)"}[pp.FromComposition])
+	fmt.Fprintf(w, "Flow     %s normal, %s sealed maximum\n",
+		d.with(pp.MassFlow/pp.Density, units.VolumeFlow, 0), d.with(pp.MaxMassFlow/pp.Density, units.VolumeFlow, 0))
+	pr := p.Process
+	fmt.Fprintf(w, "Process  raw %s → hold setpoint %s", d.with(pr.RawInlet.SI, units.Temperature, 1), d.with(pr.HoldSetpoint.SI, units.Temperature, 1))
+	if pr.OutletTarget.Set {
+		fmt.Fprintf(w, " → outlet target %s", d.with(pr.OutletTarget.SI, units.Temperature, 1))
+	}
+	fmt.Fprintln(w)
+
+	if len(res.Sections) > 0 {
+		writeSections(w, res, d)
+	}
+	writeChecks(w, res, d)
+	if len(res.Warnings) > 0 {
+		fmt.Fprintln(w, "\nWarnings")
+		for _, m := range res.Warnings {
+			fmt.Fprintf(w, "  ! %s\n", m)
+		}
+	}
+	fmt.Fprint(w, "\n"+wrap(res.Caution, "Caution:", 88))
+}
+
+func writeSections(w io.Writer, res *assess.Result, d display) {
+	area := d.unit(units.Area)
+	duty := "kW"
+	if d.sys == units.US {
+		duty = "Btu/h"
+	}
+	fmt.Fprintf(w, "\nHeat-exchange sections (normal rate)\n")
+	t := newTable("section", "mode", "arrangement", ">duty "+duty, ">LMTD "+d.unit(units.TemperatureDifference),
+		">NTU", ">ε", ">required "+area, ">installed "+area, ">plates")
+	for _, s := range res.Sections {
+		t.add(sectionLabel(s), s.Mode, s.Arrangement, d.power(s.DutyKW*1e3), d.num(s.LMTDK, units.TemperatureDifference, 2),
+			fmt.Sprintf("%.2f", s.NTU), fmt.Sprintf("%.3f", s.Effectiveness),
+			d.num(s.RequiredAreaM2, units.Area, 2), d.num(s.InstalledAreaM2, units.Area, 2), fmt.Sprintf("%d", s.Plates))
+	}
+	t.write(w)
+
+	tu := d.unit(units.Temperature)
+	fmt.Fprintf(w, "\nTemperatures (%s)\n", tu)
+	t = newTable("section", ">product in", ">product out", ">other in", ">other out", "other stream")
+	for _, s := range res.Sections {
+		other := "pasteurized product"
+		if s.Name != "regeneration" {
+			other = mediumName(res.Plant, s)
+		}
+		otherIn := d.num(s.OtherInC, units.Temperature, 2)
+		if s.MediumAvailableC != nil {
+			other += fmt.Sprintf(" (in: required; %s available)", d.with(*s.MediumAvailableC, units.Temperature, 2))
+		}
+		t.add(sectionLabel(s), d.num(s.ProductInC, units.Temperature, 2), d.num(s.ProductOutC, units.Temperature, 2),
+			otherIn, d.num(s.OtherOutC, units.Temperature, 2), other)
+	}
+	t.write(w)
+	if res.RegenerationRatio != nil {
+		fmt.Fprintf(w, "\nRegeneration ratio  %.1f %%\n", *res.RegenerationRatio*100)
+	}
+}
+
+func sectionLabel(s assess.Section) string {
+	if s.Stage != "" {
+		return s.Name + ": " + s.Stage
+	}
+	return s.Name
+}
+
+func mediumName(p *plantfile.Plant, s assess.Section) string {
+	if s.Name == "heating" && p.Heating != nil {
+		return p.Heating.Medium.Name
+	}
+	for _, c := range p.Cooling {
+		if c.Name == s.Stage {
+			return c.Medium.Name
+		}
+	}
+	return ""
+}
+
+// checkValue formats a check's required or actual value in display units.
+func checkValue(v float64, unit string, d display) string {
+	switch unit {
+	case "°C":
+		return d.with(v, units.Temperature, 2)
+	case "s":
+		return fmt.Sprintf("%.2f s", v)
+	case "m":
+		return d.with(v, units.Length, 2)
+	case "Pa":
+		return d.with(v, units.Pressure, 1)
+	case "":
+		return fmt.Sprintf("%.3g", v)
+	}
+	return fmt.Sprintf("%.4g %s", v, unit)
+}
+
+func checkMargin(c assess.Check, d display) string {
+	switch c.MarginUnit {
+	case "K":
+		return signed(d.num(c.Margin, units.TemperatureDifference, 2)) + " " + d.unit(units.TemperatureDifference)
+	case "Pa":
+		return signed(d.num(c.Margin, units.Pressure, 1)) + " " + d.unit(units.Pressure)
+	case "m":
+		return signed(d.num(c.Margin, units.Length, 2)) + " " + d.unit(units.Length)
+	case "%":
+		return signed(fmt.Sprintf("%.1f", c.Margin)) + " %"
+	}
+	return signed(fmt.Sprintf("%.3g", c.Margin)) + " " + c.MarginUnit
+}
+
+func writeChecks(w io.Writer, res *assess.Result, d display) {
+	fmt.Fprintln(w, "\nChecks")
+	if len(res.Checks) == 0 {
+		fmt.Fprintln(w, "  none apply: every section is in sizing mode and no holding tube or kinetics are described")
+		fmt.Fprintln(w, "\nResult: no check failed (nothing was judged)")
+		return
+	}
+	t := newTable("check", "result", ">required", ">actual", ">margin", "note")
+	failed := 0
+	for _, c := range res.Checks {
+		verdict := "PASS"
+		if !c.Pass {
+			verdict = "FAIL"
+			failed++
+		}
+		op := "≥ "
+		if c.Limit == "max" {
+			op = "≤ "
+		}
+		id := c.ID
+		if c.Organism != "" {
+			id += " (" + c.Organism + ")"
+		}
+		t.add(id, verdict, op+checkValue(c.Required, c.Unit, d), checkValue(c.Actual, c.Unit, d), checkMargin(c, d), c.Note)
+	}
+	t.write(w)
+	if failed == 0 {
+		fmt.Fprintf(w, "\nResult: PASS, all %d checks pass\n", len(res.Checks))
+	} else {
+		fmt.Fprintf(w, "\nResult: FAIL, %d of %d checks fail\n", failed, len(res.Checks))
+	}
+}

@@ -1,0 +1,99 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"pasval/internal/plantfile"
+	"pasval/internal/version"
+)
+
+// Exit codes, the same for every command.
+const (
+	exitPass  = 0 // every check passes
+	exitFail  = 1 // some check fails (or a verification mismatch)
+	exitInput = 2 // bad input or usage
+)
+
+// errChecksFailed reports that the command ran and some check failed; its
+// results are already printed.
+var errChecksFailed = errors.New("some checks fail")
+
+// usageError is a command-line mistake.
+type usageError struct{ msg string }
+
+func (e *usageError) Error() string { return e.msg }
+
+func usagef(format string, args ...any) error { return &usageError{fmt.Sprintf(format, args...)} }
+
+const exitStatusHelp = `
+Exit status:
+  0  every check passes
+  1  some check fails
+  2  bad input or usage (the message names the file, line and field)`
+
+func newRootCmd(stdout, stderr io.Writer) *cobra.Command {
+	root := &cobra.Command{
+		Use:   "pasval",
+		Short: "Validate continuous pasteurizers from a plant file",
+		Long: `pasval computes a continuous plate pasteurizer from a plant file (YAML, every
+quantity with its unit): regeneration, heating and cooling sections by LMTD and
+effectiveness–NTU, the regeneration ratio, plates and areas, and the checks
+that a process authority signs off.
+
+It supports, and never replaces, the regulatory acceptance tests, the process
+authority and the local regulator.`,
+		Version:       version.Version + " (" + version.Build() + ")",
+		SilenceErrors: true,
+		SilenceUsage:  true,
+	}
+	root.SetOut(stdout)
+	root.SetErr(stderr)
+	root.SetVersionTemplate("pasval {{.Version}}\n")
+	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
+		return usagef("%v (see '%s --help')", err, c.CommandPath())
+	})
+	root.AddCommand(newCheckCmd(stdout), newInitCmd(stdout))
+	return root
+}
+
+// run executes the command line and maps the outcome to an exit code; it is
+// the one place that prints errors.
+func run(args []string, stdout, stderr io.Writer) int {
+	root := newRootCmd(stdout, stderr)
+	root.SetArgs(args)
+	err := root.Execute()
+	return exitCode(err, stderr)
+}
+
+func exitCode(err error, stderr io.Writer) int {
+	if err == nil {
+		return exitPass
+	}
+	if errors.Is(err, errChecksFailed) {
+		return exitFail
+	}
+	var list plantfile.ErrorList
+	if errors.As(err, &list) {
+		for _, e := range list {
+			fmt.Fprintf(stderr, "pasval: %v\n", e)
+		}
+		return exitInput
+	}
+	msg := err.Error()
+	// cobra's own argument and command errors are usage errors too.
+	fmt.Fprintf(stderr, "pasval: %s\n", strings.TrimSpace(msg))
+	return exitInput
+}
+
+// argsFile requires exactly one plant-file argument.
+func argsFile(cmd *cobra.Command, args []string) error {
+	if len(args) != 1 {
+		return usagef("%s needs exactly one plant file, got %d arguments (see '%s --help')", cmd.Name(), len(args), cmd.CommandPath())
+	}
+	return nil
+}

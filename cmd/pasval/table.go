@@ -1,0 +1,121 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strings"
+	"unicode/utf8"
+
+	"pasval/internal/units"
+)
+
+// table prints aligned columns; numbers right-aligned, text left-aligned.
+type table struct {
+	headers []string
+	right   []bool
+	rows    [][]string
+}
+
+func newTable(headers ...string) *table {
+	t := &table{right: make([]bool, len(headers))}
+	for i, h := range headers {
+		// a leading '>' marks a right-aligned column
+		if strings.HasPrefix(h, ">") {
+			t.right[i] = true
+			h = h[1:]
+		}
+		t.headers = append(t.headers, h)
+	}
+	return t
+}
+
+func (t *table) add(cells ...string) { t.rows = append(t.rows, cells) }
+
+func (t *table) write(w io.Writer) {
+	width := make([]int, len(t.headers))
+	for i, h := range t.headers {
+		width[i] = utf8.RuneCountInString(h)
+	}
+	for _, r := range t.rows {
+		for i, c := range r {
+			if i < len(width) {
+				width[i] = max(width[i], utf8.RuneCountInString(c))
+			}
+		}
+	}
+	line := func(cells []string) {
+		var b strings.Builder
+		b.WriteString("  ")
+		for i := range t.headers {
+			c := ""
+			if i < len(cells) {
+				c = cells[i]
+			}
+			pad := strings.Repeat(" ", width[i]-utf8.RuneCountInString(c))
+			last := i == len(t.headers)-1
+			switch {
+			case t.right[i]:
+				b.WriteString(pad + c)
+			case last:
+				b.WriteString(c)
+			default:
+				b.WriteString(c + pad)
+			}
+			if !last {
+				b.WriteString("  ")
+			}
+		}
+		fmt.Fprintln(w, strings.TrimRight(b.String(), " "))
+	}
+	line(t.headers)
+	for _, r := range t.rows {
+		line(r)
+	}
+}
+
+// display formats SI values in the chosen unit system.
+type display struct{ sys units.System }
+
+func (d display) unit(k units.Kind) string { return units.DisplayUnit(k, d.sys) }
+
+func (d display) num(v float64, k units.Kind, prec int) string {
+	return fmt.Sprintf("%.*f", prec, units.FromSI(v, k, d.unit(k)))
+}
+
+// with formats a value followed by its unit.
+func (d display) with(v float64, k units.Kind, prec int) string {
+	return d.num(v, k, prec) + " " + d.unit(k)
+}
+
+// power prints a duty: kW in SI, Btu/h (no decimals) in US units.
+func (d display) power(w float64) string {
+	if d.sys == units.US {
+		return fmt.Sprintf("%.0f", units.FromSI(w, units.Power, "Btu/h"))
+	}
+	return fmt.Sprintf("%.1f", w/1e3)
+}
+
+func signed(s string) string {
+	if !strings.HasPrefix(s, "-") {
+		return "+" + s
+	}
+	return "−" + s[1:]
+}
+
+// wrap breaks text into lines of at most width runes, each after the prefix.
+func wrap(text, prefix string, width int) string {
+	var b strings.Builder
+	line := prefix
+	for _, word := range strings.Fields(text) {
+		if utf8.RuneCountInString(line)+1+utf8.RuneCountInString(word) > width && strings.TrimSpace(line) != "" {
+			b.WriteString(strings.TrimRight(line, " ") + "\n")
+			line = strings.Repeat(" ", utf8.RuneCountInString(prefix))
+		}
+		if strings.TrimSpace(line) != "" {
+			line += " "
+		}
+		line += word
+	}
+	b.WriteString(line + "\n")
+	return b.String()
+}

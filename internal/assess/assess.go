@@ -1,0 +1,279 @@
+// Package assess turns a validated plant file into results: it derives the
+// product's properties, runs the heat-exchange sections (package regen), and
+// judges each check. It is the one place where the plant file meets the
+// domain packages; the command line only formats what it returns.
+//
+//	plant, err := plantfile.Load("line2.yaml")
+//	res, err := assess.Run(plant)
+//	fmt.Println(res.Pass, res.Checks)
+//
+// Product properties (documented conventions, see README "Conventions"):
+//   - density: as entered, or Choi–Okos at the raw inlet temperature, where the
+//     timing pump or flow meter sits (common practice);
+//   - specific heat: as entered, or Choi–Okos at the mean of the raw inlet and
+//     the hold setpoint; one value serves the whole line so that both sides of
+//     the regenerator carry the same capacity (C_r = 1);
+//   - a volumetric product rate converts to mass with that density.
+package assess
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"pasval/internal/plantfile"
+	"pasval/internal/props"
+	"pasval/internal/version"
+	"pasval/regen"
+)
+
+// Caution is carried by every verdict the tool prints and every record it writes.
+const Caution = "This result supports, and never replaces, the regulatory acceptance tests " +
+	"(holding-time test at the sealed maximum flow, flow-diversion and recorder-controller tests, " +
+	"thermometer checks), the process authority and the local regulator. Defer to them and to local codes."
+
+// Check is one judged quantity.
+type Check struct {
+	ID         string  `json:"id"`
+	Organism   string  `json:"organism,omitempty"`
+	Pass       bool    `json:"pass"`
+	Required   float64 `json:"required"`
+	Actual     float64 `json:"actual"`
+	Unit       string  `json:"unit"`
+	Margin     float64 `json:"margin"` // positive when passing, in MarginUnit
+	MarginUnit string  `json:"margin_unit"`
+	Note       string  `json:"note"`
+	// Limit says how Actual is judged against Required: "min" (actual ≥ required)
+	// or "max" (actual ≤ required).
+	Limit string `json:"limit"`
+}
+
+// Section is one heat-exchange section in the JSON contract; every key carries its unit.
+type Section struct {
+	Name              string   `json:"name"`
+	Stage             string   `json:"stage,omitempty"`
+	Mode              string   `json:"mode"`
+	Arrangement       string   `json:"arrangement"`
+	DutyKW            float64  `json:"duty_kW"`
+	LMTDK             float64  `json:"lmtd_K"`
+	NTU               float64  `json:"ntu"`
+	Effectiveness     float64  `json:"effectiveness"`
+	AreaM2            float64  `json:"area_m2"`
+	RequiredAreaM2    float64  `json:"required_area_m2"`
+	InstalledAreaM2   float64  `json:"installed_area_m2"`
+	Plates            int      `json:"plates"`
+	PlateAreaM2       float64  `json:"plate_area_m2"`
+	UWm2K             float64  `json:"u_W_m2K"`
+	ProductInC        float64  `json:"product_in_C"`
+	ProductOutC       float64  `json:"product_out_C"`
+	OtherInC          float64  `json:"other_in_C"`
+	OtherOutC         float64  `json:"other_out_C"`
+	MediumAvailableC  *float64 `json:"medium_available_in_C,omitempty"`
+	MediumMassFlowKgS float64  `json:"medium_mass_flow_kg_s,omitempty"`
+
+	raw regen.Section
+}
+
+// Raw returns the section as the regen package computed it.
+func (s Section) Raw() regen.Section { return s.raw }
+
+// ProductProps are the product properties the calculation used.
+type ProductProps struct {
+	Density         float64 `json:"density_kg_m3"`
+	SpecificHeat    float64 `json:"specific_heat_J_kgK"`
+	MassFlow        float64 `json:"mass_flow_kg_s"`      // at the normal rate
+	MaxMassFlow     float64 `json:"max_mass_flow_kg_s"`  // at the sealed maximum
+	ProductCapacity float64 `json:"capacity_W_K"`        // ṁ·cp at the normal rate
+	FromComposition bool    `json:"from_composition"`
+}
+
+// Result is everything check computes, shaped as the JSON contract.
+type Result struct {
+	Tool              string       `json:"tool"`
+	Version           string       `json:"version"`
+	InputSHA256       string       `json:"input_sha256"`
+	Product           ProductProps `json:"product"`
+	Sections          []Section    `json:"sections"`
+	RegenerationRatio *float64     `json:"regeneration_ratio"`
+	Checks            []Check      `json:"checks"`
+	Warnings          []string     `json:"warnings"`
+	Pass              bool         `json:"pass"`
+	Caution           string       `json:"caution"`
+
+	Plant *plantfile.Plant `json:"-"`
+}
+
+// Run computes every section and check the plant file describes. Errors are
+// plantfile.ErrorList values that point at the section whose numbers cannot
+// work (a temperature cross, an impossible duty).
+func Run(p *plantfile.Plant) (*Result, error) {
+	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
+		Checks: []Check{}, Warnings: []string{}, Sections: []Section{}, Caution: Caution}
+	res.Product = productProps(p)
+	if p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0 {
+		if err := runLine(p, res); err != nil {
+			return nil, err
+		}
+	}
+	res.Pass = true
+	for _, c := range res.Checks {
+		res.Pass = res.Pass && c.Pass
+	}
+	return res, nil
+}
+
+// productProps derives density, cp and mass flows (see the package doc).
+func productProps(p *plantfile.Plant) ProductProps {
+	pp := ProductProps{}
+	raw, set := p.Process.RawInlet.SI, p.Process.HoldSetpoint.SI
+	if c := p.Product.Composition; c != nil {
+		comp := props.Composition{Water: c.Water, Protein: c.Protein, Fat: c.Fat, Carbohydrate: c.Carbohydrate, Fiber: c.Fiber, Ash: c.Ash}
+		pp.Density = comp.Density(raw)
+		pp.SpecificHeat = comp.SpecificHeat((raw + set) / 2)
+		pp.FromComposition = true
+	}
+	if p.Product.Density.Set {
+		pp.Density = p.Product.Density.SI
+	}
+	if p.Product.SpecificHeat.Set {
+		pp.SpecificHeat = p.Product.SpecificHeat.SI
+	}
+	toMass := func(r plantfile.FlowRate) float64 {
+		if r.ByMass {
+			return r.SI
+		}
+		return r.SI * pp.Density
+	}
+	rate, maxRate := p.Flow.Rate, p.Flow.MaxRate
+	if !rate.Set {
+		rate = maxRate
+	}
+	if !maxRate.Set {
+		maxRate = rate
+	}
+	pp.MassFlow, pp.MaxMassFlow = toMass(rate), toMass(maxRate)
+	pp.ProductCapacity = pp.MassFlow * pp.SpecificHeat
+	return pp
+}
+
+func surface(pl plantfile.Plates) regen.Surface {
+	u := pl.UValue.SI
+	if pl.Fouling.Set && pl.Fouling.SI > 0 {
+		u = 1 / (1/u + pl.Fouling.SI)
+	}
+	s := regen.Surface{U: u, PlateArea: pl.PlateArea.SI, Plates: pl.Plates}
+	if pl.Arrangement == plantfile.Cocurrent {
+		s.Arrangement = regen.Cocurrent
+	}
+	return s
+}
+
+func mediumSpec(m plantfile.MediumSide) regen.MediumSpec {
+	spec := regen.MediumSpec{Surface: surface(m.Plates), Inlet: m.MediumInlet.SI,
+		Medium: regen.Medium{Name: m.Medium.Name, Water: m.Medium.Water, Density: m.Medium.Density.SI, SpecificHeat: m.Medium.SpecificHeat.SI}}
+	if m.MediumRate.ByMass {
+		spec.Flow.Mass = m.MediumRate.SI
+	} else {
+		spec.Flow.Volumetric = m.MediumRate.SI
+	}
+	return spec
+}
+
+func runLine(p *plantfile.Plant, res *Result) error {
+	in := regen.LineInput{
+		ProductCapacity: res.Product.ProductCapacity,
+		RawInlet:        p.Process.RawInlet.SI,
+		Setpoint:        p.Process.HoldSetpoint.SI,
+		HeatingOutlet:   p.Process.HoldSetpoint.SI,
+		OutletTarget:    p.Process.OutletTarget.SI,
+	}
+	if r := p.Regeneration; r != nil {
+		in.Regeneration = &regen.RegenSpec{Surface: surface(r.Plates), Ratio: r.Ratio}
+	}
+	if h := p.Heating; h != nil {
+		spec := mediumSpec(h.MediumSide)
+		in.Heating = &spec
+	}
+	for _, c := range p.Cooling {
+		cs := regen.CoolingSpec{MediumSpec: mediumSpec(c.MediumSide), Stage: c.Name, ProductOut: math.NaN()}
+		if c.ProductOut.Set {
+			cs.ProductOut = c.ProductOut.SI
+		}
+		in.Cooling = append(in.Cooling, cs)
+	}
+	line, err := regen.Line(in)
+	if err != nil {
+		return sectionError(p, err)
+	}
+	for _, s := range line.Sections {
+		out := Section{
+			Name: s.Name, Stage: s.Stage, Mode: s.Mode.String(), Arrangement: s.Arrangement.String(),
+			DutyKW: s.Duty / 1e3, LMTDK: s.LMTD, NTU: s.NTU, Effectiveness: s.Effectiveness,
+			AreaM2: s.Area(), RequiredAreaM2: s.RequiredArea, InstalledAreaM2: s.InstalledArea,
+			Plates: s.Plates, PlateAreaM2: s.PlateArea, UWm2K: s.U,
+			ProductInC: s.ProductIn, ProductOutC: s.ProductOut, OtherInC: s.OtherIn, OtherOutC: s.OtherOut,
+			MediumMassFlowKgS: s.MediumMassFlow, raw: s,
+		}
+		if s.Name == "heating" && s.Mode == regen.Rating {
+			avail := line.HeatingMediumAvailable
+			out.MediumAvailableC = &avail
+			res.Checks = append(res.Checks, Check{
+				ID: "heating-medium", Required: s.OtherIn, Actual: avail, Unit: "°C", MarginUnit: "K", Limit: "min",
+				Margin: avail - s.OtherIn, Pass: avail >= s.OtherIn,
+				Note: fmt.Sprintf("%d plates need the heating medium at %.2f °C or hotter to bring the product to %.2f °C; %.2f °C is available",
+					s.Plates, s.OtherIn, s.ProductOut, avail),
+			})
+		}
+		res.Sections = append(res.Sections, out)
+	}
+	if !math.IsNaN(line.RegenerationRatio) {
+		r := line.RegenerationRatio
+		res.RegenerationRatio = &r
+	}
+	if n := len(p.Cooling); n > 0 && anyRated(p.Cooling) {
+		target := p.Process.OutletTarget.SI
+		got := line.FinalProductOut
+		res.Checks = append(res.Checks, Check{
+			ID: "cooling-outlet", Required: target, Actual: got, Unit: "°C", MarginUnit: "K", Limit: "max",
+			Margin: target - got, Pass: got <= target+1e-9,
+			Note: fmt.Sprintf("product leaves the last cooling stage at %.2f °C; the target is %.2f °C or colder", got, target),
+		})
+	}
+	return nil
+}
+
+func anyRated(stages []plantfile.CoolingStage) bool {
+	for _, c := range stages {
+		if c.Plates.Plates > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// sectionError points a computation error at the section it came from.
+func sectionError(p *plantfile.Plant, err error) error {
+	var name string
+	var ce *regen.CrossError
+	var se *regen.SectionError
+	switch {
+	case errors.As(err, &ce):
+		name = ce.Section
+	case errors.As(err, &se):
+		name = se.Section
+	}
+	pos, field := p.Process.Pos, "process"
+	switch {
+	case name == "regeneration" && p.Regeneration != nil:
+		pos, field = p.Regeneration.Pos, "regeneration"
+	case name == "heating" && p.Heating != nil:
+		pos, field = p.Heating.Pos, "heating"
+	default:
+		for i, c := range p.Cooling {
+			if name == (regen.Section{Name: "cooling", Stage: c.Name}).Label() {
+				pos, field = c.Pos, fmt.Sprintf("cooling[%d]", i)
+			}
+		}
+	}
+	return plantfile.ErrorList{{Pos: pos, Field: field, Msg: err.Error()}}
+}

@@ -1,0 +1,303 @@
+package plantfile
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+
+	"pasval/internal/units"
+)
+
+// decoder walks a YAML node tree against the plant-file schema, collecting
+// every error rather than stopping at the first.
+type decoder struct {
+	file   string
+	errs   ErrorList
+	inputs []Input
+}
+
+const maxErrors = 50
+
+func (d *decoder) pos(n *yaml.Node) Pos {
+	if n == nil {
+		return Pos{File: d.file, Line: 1, Column: 1}
+	}
+	return Pos{File: d.file, Line: n.Line, Column: n.Column}
+}
+
+func (d *decoder) errorf(n *yaml.Node, field, format string, args ...any) {
+	if len(d.errs) >= maxErrors {
+		return
+	}
+	d.errs = append(d.errs, &Error{Pos: d.pos(n), Field: field, Msg: fmt.Sprintf(format, args...)})
+}
+
+// object is a YAML mapping checked against its allowed keys.
+type object struct {
+	d      *decoder
+	path   string
+	node   *yaml.Node
+	values map[string]*yaml.Node
+	keys   map[string]*yaml.Node
+}
+
+func join(path, key string) string {
+	if path == "" {
+		return key
+	}
+	return path + "." + key
+}
+
+// object checks that n is a mapping whose keys are all allowed and unique.
+// It returns nil (after recording an error) when n is not a mapping.
+func (d *decoder) object(n *yaml.Node, path string, allowed ...string) *object {
+	if n.Kind != yaml.MappingNode {
+		d.errorf(n, path, "expected a mapping of %s, found %s", strings.Join(allowed, ", "), describe(n))
+		return nil
+	}
+	o := &object{d: d, path: path, node: n, values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := n.Content[i], n.Content[i+1]
+		if k.Kind != yaml.ScalarNode {
+			d.errorf(k, path, "keys must be plain names")
+			continue
+		}
+		name := k.Value
+		if !contains(allowed, name) {
+			d.errorf(k, join(path, name), "unknown key %q%s; allowed here: %s", name, didYouMean(name, allowed), strings.Join(allowed, ", "))
+			continue
+		}
+		if prev, dup := o.keys[name]; dup {
+			d.errorf(k, join(path, name), "%q is given twice (first at line %d)", name, prev.Line)
+			continue
+		}
+		o.keys[name], o.values[name] = k, v
+	}
+	return o
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+func describe(n *yaml.Node) string {
+	switch n.Kind {
+	case yaml.MappingNode:
+		return "a mapping"
+	case yaml.SequenceNode:
+		return "a list"
+	case yaml.ScalarNode:
+		if n.Tag == "!!null" {
+			return "nothing"
+		}
+		return fmt.Sprintf("%q", n.Value)
+	}
+	return "something else"
+}
+
+func (o *object) has(key string) bool { return o != nil && o.values[key] != nil }
+
+// scalar returns the key's scalar text; ok is false (with an error recorded
+// when required) if it is absent, empty or not a scalar.
+func (o *object) scalar(key string, required bool, expect string) (string, *yaml.Node, bool) {
+	if o == nil {
+		return "", nil, false
+	}
+	v := o.values[key]
+	f := join(o.path, key)
+	if v == nil {
+		if required {
+			o.d.errorf(o.node, f, "missing; expected %s", expect)
+		}
+		return "", nil, false
+	}
+	if v.Kind != yaml.ScalarNode || v.Tag == "!!null" || strings.TrimSpace(v.Value) == "" {
+		o.d.errorf(v, f, "expected %s, found %s", expect, describe(v))
+		return "", v, false
+	}
+	return v.Value, v, true
+}
+
+func (o *object) text(key string, required bool) string {
+	s, _, _ := o.scalar(key, required, "text")
+	return strings.TrimSpace(s)
+}
+
+// quantity reads "number unit" of the given kind.
+func (o *object) quantity(key string, k units.Kind, required bool) Quantity {
+	s, n, ok := o.scalar(key, required, fmt.Sprintf("a %s with its unit, e.g. %s", k.Name, k.Example))
+	if !ok {
+		return Quantity{}
+	}
+	return o.d.parseQuantity(n, join(o.path, key), s, k)
+}
+
+func (d *decoder) parseQuantity(n *yaml.Node, field, s string, k units.Kind) Quantity {
+	v, err := units.Parse(s, k)
+	if err != nil {
+		d.errorf(n, field, "%v", err)
+		return Quantity{}
+	}
+	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), System: v.System, Pos: d.pos(n), Set: true}
+	d.record(field, q, k)
+	return q
+}
+
+func (d *decoder) record(field string, q Quantity, k units.Kind) {
+	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: siUnit(k)})
+}
+
+func siUnit(k units.Kind) string {
+	switch k.Name {
+	case units.Temperature.Name:
+		return "°C"
+	case units.VolumeFlow.Name:
+		return "m³/s"
+	case units.MassFlow.Name:
+		return "kg/s"
+	case units.Dimensionless.Name:
+		return "1"
+	}
+	if strings.HasPrefix(k.Name, "consistency") {
+		return "Pa·sⁿ"
+	}
+	si := map[string]string{
+		units.TemperatureDifference.Name: "K", units.Length.Name: "m", units.Area.Name: "m²",
+		units.Volume.Name: "m³", units.Time.Name: "s", units.Pressure.Name: "Pa", units.Density.Name: "kg/m³",
+		units.SpecificHeat.Name: "J/(kg·K)", units.Viscosity.Name: "Pa·s", units.HeatTransferCoefficient.Name: "W/(m²·K)",
+		units.FoulingResistance.Name: "m²·K/W", units.ThermalConductivity.Name: "W/(m·K)", units.Power.Name: "W",
+		units.Energy.Name: "J",
+	}
+	return si[k.Name]
+}
+
+// flowRate reads a product or medium rate, volumetric or by mass.
+func (o *object) flowRate(key string, required bool) FlowRate {
+	s, n, ok := o.scalar(key, required, "a flow with its unit, e.g. 10000 L/h, 44 gpm or 10300 kg/h")
+	if !ok {
+		return FlowRate{}
+	}
+	v, k, err := units.ParseEither(s, units.VolumeFlow, units.MassFlow)
+	f := join(o.path, key)
+	if err != nil {
+		o.d.errorf(n, f, "%v", err)
+		return FlowRate{}
+	}
+	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), System: v.System, Pos: o.d.pos(n), Set: true}
+	o.d.record(f, q, k)
+	return FlowRate{Quantity: q, ByMass: k.Name == units.MassFlow.Name}
+}
+
+// number reads a plain number (a fraction may be written "92 %").
+func (o *object) number(key string, required bool) (float64, Pos, bool) {
+	s, n, ok := o.scalar(key, required, "a number")
+	if !ok {
+		return 0, o.d.pos(n), false
+	}
+	v, err := units.Parse(s, units.Dimensionless)
+	if err != nil {
+		o.d.errorf(n, join(o.path, key), "expected a plain number such as 0.92 (or 92 %%), found %q", s)
+		return 0, o.d.pos(n), false
+	}
+	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), Pos: o.d.pos(n), Set: true}
+	o.d.record(join(o.path, key), q, units.Dimensionless)
+	return v.SI, o.d.pos(n), true
+}
+
+// integer reads a whole number ≥ 1.
+func (o *object) integer(key string, required bool) (int, Pos, bool) {
+	s, n, ok := o.scalar(key, required, "a whole number")
+	if !ok {
+		return 0, o.d.pos(n), false
+	}
+	i, err := strconv.Atoi(strings.TrimSpace(s))
+	if err != nil || i < 1 || i > 100000 {
+		o.d.errorf(n, join(o.path, key), "expected a whole number from 1 to 100000, found %q", s)
+		return 0, o.d.pos(n), false
+	}
+	o.d.inputs = append(o.d.inputs, Input{Field: join(o.path, key), Text: s, SI: float64(i), SIUnit: "1"})
+	return i, o.d.pos(n), true
+}
+
+func (o *object) sub(key string, required bool, allowed ...string) *object {
+	if o == nil {
+		return nil
+	}
+	v := o.values[key]
+	if v == nil {
+		if required {
+			o.d.errorf(o.node, join(o.path, key), "missing; expected a mapping of %s", strings.Join(allowed, ", "))
+		}
+		return nil
+	}
+	return o.d.object(v, join(o.path, key), allowed...)
+}
+
+func (o *object) list(key string) []*yaml.Node {
+	if o == nil || o.values[key] == nil {
+		return nil
+	}
+	v := o.values[key]
+	if v.Kind != yaml.SequenceNode {
+		o.d.errorf(v, join(o.path, key), "expected a list (lines starting with '- '), found %s", describe(v))
+		return nil
+	}
+	if len(v.Content) == 0 {
+		o.d.errorf(v, join(o.path, key), "the list is empty")
+	}
+	return v.Content
+}
+
+// didYouMean suggests the closest allowed key.
+func didYouMean(name string, allowed []string) string {
+	best, bestD := "", math.MaxInt
+	for _, a := range allowed {
+		if d := editDistance(strings.ToLower(name), a); d < bestD {
+			best, bestD = a, d
+		}
+	}
+	if best != "" && (bestD <= 2 || (bestD <= len(name)/3)) {
+		return fmt.Sprintf(" (did you mean %q?)", best)
+	}
+	return ""
+}
+
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}
+
+// sortErrors orders errors by position so the first one shown is the first in the file.
+func sortErrors(l ErrorList) {
+	sort.SliceStable(l, func(i, j int) bool {
+		if l[i].Pos.Line != l[j].Pos.Line {
+			return l[i].Pos.Line < l[j].Pos.Line
+		}
+		return l[i].Pos.Column < l[j].Pos.Column
+	})
+}

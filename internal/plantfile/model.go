@@ -1,0 +1,214 @@
+// Package plantfile reads and validates plant files: YAML descriptions of a
+// continuous pasteurizer in which every quantity carries its unit.
+//
+//	plant, err := plantfile.Load("line2.yaml")   // parse, then validate
+//	if err != nil {
+//		// err is an ErrorList: each entry has file:line:column, the field path
+//		// and what was expected.
+//	}
+//
+// Reading is strict: an unknown key is an error with a "did you mean" hint, a
+// bare number in a dimensional field is an error, anchors and aliases are
+// refused, and only one YAML document is allowed. Parse turns bytes into a
+// Plant; Validate checks the rules that span fields (raw inlet below the
+// setpoint, exactly one of ratio and plates, …). Neither computes anything.
+package plantfile
+
+import (
+	"fmt"
+	"strings"
+
+	"pasval/internal/units"
+)
+
+// Pos is a place in a plant file.
+type Pos struct {
+	File         string
+	Line, Column int
+}
+
+func (p Pos) String() string {
+	return fmt.Sprintf("%s:%d:%d", p.File, p.Line, p.Column)
+}
+
+// Error is one problem in a plant file, like csv.ParseError.
+type Error struct {
+	Pos   Pos
+	Field string // dotted path such as "cooling[1].medium_inlet"; empty for the whole file
+	Msg   string
+}
+
+func (e *Error) Error() string {
+	if e.Field == "" {
+		return fmt.Sprintf("%s: %s", e.Pos, e.Msg)
+	}
+	return fmt.Sprintf("%s: %s: %s", e.Pos, e.Field, e.Msg)
+}
+
+// ErrorList is every problem found in one file, in file order.
+type ErrorList []*Error
+
+func (l ErrorList) Error() string {
+	msgs := make([]string, len(l))
+	for i, e := range l {
+		msgs[i] = e.Error()
+	}
+	return strings.Join(msgs, "\n")
+}
+
+// Quantity is an entered value with its unit, converted to SI.
+type Quantity struct {
+	SI     float64 // SI value; temperature points in °C
+	Text   string  // as written in the file
+	System units.System
+	Pos    Pos
+	Set    bool // false when the field was absent
+}
+
+// Input is one entered quantity, for the record's inputs table.
+type Input struct {
+	Field  string // dotted path
+	Text   string // as entered
+	SI     float64
+	SIUnit string
+}
+
+// Plant is a validated plant file.
+type Plant struct {
+	File   string // path as given
+	SHA256 string // of the file's bytes, hex
+	System units.System
+	Record []RecordField
+	Inputs []Input // every quantity in file order
+
+	Product      Product
+	Flow         Flow
+	Process      Process
+	Regeneration *Regeneration
+	Heating      *Heating
+	Cooling      []CoolingStage
+}
+
+// RecordField is a free-text line for reports (site, line, product, …).
+type RecordField struct {
+	Key, Value string
+}
+
+// RecordValue returns the record field with the key, or "".
+func (p *Plant) RecordValue(key string) string {
+	for _, r := range p.Record {
+		if r.Key == key {
+			return r.Value
+		}
+	}
+	return ""
+}
+
+// Product is the liquid being pasteurized.
+type Product struct {
+	Name         string
+	Density      Quantity // kg/m³ (optional with Composition)
+	SpecificHeat Quantity // J/(kg·K) (optional with Composition)
+	Conductivity Quantity // W/(m·K), optional
+	Composition  *Composition
+	Viscosity    []ViscosityPoint // Newtonian points; empty when PowerLaw is set or none entered
+	PowerLaw     *PowerLaw
+	Pos          Pos
+}
+
+// Composition is the product make-up by mass fraction.
+type Composition struct {
+	Water, Protein, Fat, Carbohydrate, Fiber, Ash float64
+	Pos                                           Pos
+}
+
+// ViscosityPoint is one Newtonian viscosity measurement.
+type ViscosityPoint struct {
+	At    Quantity // °C
+	Value Quantity // Pa·s
+}
+
+// PowerLaw is a shear-thinning product: τ = K γ̇ⁿ.
+type PowerLaw struct {
+	FlowIndex   float64  // n, 0 < n ≤ 1.5
+	Consistency Quantity // K, Pa·sⁿ
+	Pos         Pos
+}
+
+// Flow holds the product rates. Each is volumetric or by mass as entered.
+type Flow struct {
+	Rate    FlowRate // normal rate; defaults to MaxRate
+	MaxRate FlowRate // sealed maximum; defaults to Rate
+	Pos     Pos
+}
+
+// FlowRate is a product rate, volumetric or by mass.
+type FlowRate struct {
+	Quantity
+	ByMass bool // SI is kg/s when true, m³/s otherwise
+}
+
+// Process holds the temperatures that define the schedule.
+type Process struct {
+	RawInlet     Quantity // °C
+	HoldSetpoint Quantity // °C: diversion setpoint at the holding-tube outlet
+	OutletTarget Quantity // °C, optional unless cooling is described
+	Pos          Pos
+}
+
+// Arrangement is "counterflow" or "cocurrent".
+type Arrangement string
+
+const (
+	Counterflow Arrangement = "counterflow"
+	Cocurrent   Arrangement = "cocurrent"
+)
+
+// Plates describes a plate pack.
+type Plates struct {
+	Arrangement Arrangement
+	Plates      int      // 0: sizing mode
+	PlatesPos   Pos      // where plates was written
+	PlateArea   Quantity // m² per thermal plate
+	UValue      Quantity // W/(m²·K)
+	Fouling     Quantity // m²·K/W, optional: 1/U_eff = 1/U + R_f
+}
+
+// Regeneration is the product-to-product section.
+type Regeneration struct {
+	Plates
+	Ratio    float64 // sizing mode; 0 when rating
+	RatioSet bool
+	RatioPos Pos
+	Pos      Pos
+}
+
+// Medium is a heating or cooling medium.
+type Medium struct {
+	Name         string
+	Water        bool
+	Density      Quantity
+	SpecificHeat Quantity
+}
+
+// MediumSide is what heating and cooling stages share.
+type MediumSide struct {
+	Plates
+	Medium      Medium
+	MediumInlet Quantity // °C
+	MediumRate  FlowRate
+}
+
+// Heating is the heating section.
+type Heating struct {
+	MediumSide
+	Pos Pos
+}
+
+// CoolingStage is one cooling stage.
+type CoolingStage struct {
+	MediumSide
+	Name       string
+	ProductOut Quantity // °C; sizing: required for all but the last stage
+	Pos        Pos
+}

@@ -1,0 +1,332 @@
+package plantfile
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"regexp"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+
+	"gopkg.in/yaml.v3"
+
+	"pasval/internal/units"
+)
+
+// MaxFileSize is the largest plant file read (a real one is a few kilobytes).
+const MaxFileSize = 1 << 20
+
+// Top-level keys, in the order the documentation gives them.
+var topKeys = []string{"record", "product", "flow", "process", "regeneration", "heating", "cooling"}
+
+var recordKeys = []string{"site", "line", "product", "schedule", "prepared_by", "notes"}
+
+// Load reads, parses and validates a plant file.
+func Load(path string) (*Plant, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, ErrorList{{Pos: Pos{File: path}, Msg: fmt.Sprintf("cannot read the plant file: %v", unwrapPathError(err))}}
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	if err != nil {
+		return nil, ErrorList{{Pos: Pos{File: path}, Msg: fmt.Sprintf("cannot read the plant file: %v", unwrapPathError(err))}}
+	}
+	p, err := Parse(path, data)
+	if err != nil {
+		return nil, err
+	}
+	if err := Validate(p); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+func unwrapPathError(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// Parse turns plant-file bytes into a Plant, checking the schema and every
+// unit but no rule that spans fields (see Validate). file names the source in
+// error positions.
+func Parse(file string, data []byte) (p *Plant, err error) {
+	d := &decoder{file: file}
+	first := func(line, col int, msg string) error {
+		return ErrorList{{Pos: Pos{File: file, Line: line, Column: col}, Msg: msg}}
+	}
+	if len(data) > MaxFileSize {
+		return nil, first(1, 1, fmt.Sprintf("the file is larger than %d bytes; a plant file is a few kilobytes", MaxFileSize))
+	}
+	if len(bytes.TrimSpace(data)) == 0 {
+		return nil, first(1, 1, "the plant file is empty; expected at least 'product' and 'process' (run 'pasval init' for a starter file)")
+	}
+	if !utf8.Valid(data) {
+		line, col := invalidUTF8At(data)
+		return nil, first(line, col, "the file is not valid UTF-8 text; save it as UTF-8")
+	}
+	if line, col, ok := tabIndent(data); ok {
+		return nil, first(line, col, "a tab is used for indentation; YAML needs spaces")
+	}
+	root, err := decodeYAML(data)
+	if err != nil {
+		line, col, msg := yamlErrorPos(data, err)
+		return nil, first(line, col, msg)
+	}
+	if root == nil {
+		return nil, first(1, 1, "the plant file holds no YAML mapping; expected at least 'product' and 'process'")
+	}
+	if n := findAlias(root); n != nil {
+		return nil, first(n.Line, n.Column, "anchors and aliases (& and *) are not supported in plant files; write each value out")
+	}
+	sum := sha256.Sum256(data)
+	p = &Plant{File: file, SHA256: hex.EncodeToString(sum[:])}
+	top := d.object(root, "", topKeys...)
+	if top != nil {
+		d.decodePlant(p, top)
+	}
+	p.Inputs = d.inputs
+	if len(d.errs) > 0 {
+		sortErrors(d.errs)
+		return nil, d.errs
+	}
+	p.System = p.Process.HoldSetpoint.System
+	return p, nil
+}
+
+// decodeYAML parses exactly one YAML document. yaml.v3 has panicked on some
+// malformed inputs in the past; a panic is turned into an error here so that
+// bad input never produces a stack trace.
+func decodeYAML(data []byte) (root *yaml.Node, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			root, err = nil, fmt.Errorf("yaml: the file could not be parsed (%v)", r)
+		}
+	}()
+	dec := yaml.NewDecoder(bytes.NewReader(data))
+	var doc yaml.Node
+	if err := dec.Decode(&doc); err != nil {
+		if err == io.EOF {
+			return nil, nil
+		}
+		return nil, err
+	}
+	var extra yaml.Node
+	if err := dec.Decode(&extra); err != io.EOF {
+		if err != nil {
+			return nil, err
+		}
+		return nil, fmt.Errorf("yaml: line %d: a second YAML document starts here; a plant file holds one", max(extra.Line-1, 1))
+	}
+	if doc.Kind != yaml.DocumentNode || len(doc.Content) == 0 {
+		return nil, nil
+	}
+	return doc.Content[0], nil
+}
+
+func findAlias(n *yaml.Node) *yaml.Node {
+	if n.Kind == yaml.AliasNode || n.Anchor != "" {
+		return n
+	}
+	for _, c := range n.Content {
+		if a := findAlias(c); a != nil {
+			return a
+		}
+	}
+	return nil
+}
+
+func invalidUTF8At(data []byte) (int, int) {
+	line, col := 1, 1
+	for i := 0; i < len(data); {
+		r, size := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && size <= 1 {
+			return line, col
+		}
+		if r == '\n' {
+			line, col = line+1, 1
+		} else {
+			col++
+		}
+		i += size
+	}
+	return line, col
+}
+
+// tabIndent finds a tab in a line's leading white space.
+func tabIndent(data []byte) (int, int, bool) {
+	for i, l := range strings.Split(string(data), "\n") {
+		for j, r := range l {
+			if r == '\t' {
+				return i + 1, j + 1, true
+			}
+			if r != ' ' {
+				break
+			}
+		}
+	}
+	return 0, 0, false
+}
+
+var yamlLine = regexp.MustCompile(`line (\d+)`)
+
+// yamlErrorPos extracts the line from a yaml.v3 error ("yaml: line 4: …")
+// and points the column at the line's first non-blank character.
+func yamlErrorPos(data []byte, err error) (int, int, string) {
+	msg := strings.TrimPrefix(err.Error(), "yaml: ")
+	line := 1
+	if m := yamlLine.FindStringSubmatch(msg); m != nil {
+		line, _ = strconv.Atoi(m[1])
+		msg = strings.TrimSpace(yamlLine.ReplaceAllString(msg, ""))
+		msg = strings.TrimPrefix(msg, ": ")
+	}
+	col := 1
+	lines := strings.Split(string(data), "\n")
+	if line >= 1 && line <= len(lines) {
+		col = len(lines[line-1]) - len(strings.TrimLeft(lines[line-1], " ")) + 1
+	}
+	return line, col, "the file is not valid YAML: " + msg
+}
+
+func (d *decoder) decodePlant(p *Plant, top *object) {
+	if rec := top.sub("record", false, recordKeys...); rec != nil {
+		for _, k := range recordKeys {
+			if v := rec.text(k, false); v != "" {
+				p.Record = append(p.Record, RecordField{Key: k, Value: v})
+			}
+		}
+	}
+	if prod := top.sub("product", true, "name", "density", "specific_heat", "conductivity", "composition", "viscosity", "power_law"); prod != nil {
+		d.decodeProduct(&p.Product, prod)
+	}
+	if fl := top.sub("flow", false, "rate", "max_rate"); fl != nil {
+		p.Flow.Pos = d.pos(fl.node)
+		p.Flow.Rate = fl.flowRate("rate", false)
+		p.Flow.MaxRate = fl.flowRate("max_rate", false)
+		if !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
+			d.errorf(fl.node, "flow", "give rate, max_rate or both, e.g. rate: 10000 L/h")
+		}
+	}
+	if pr := top.sub("process", true, "raw_inlet", "hold_setpoint", "outlet_target"); pr != nil {
+		p.Process.Pos = d.pos(pr.node)
+		p.Process.RawInlet = pr.quantity("raw_inlet", units.Temperature, true)
+		p.Process.HoldSetpoint = pr.quantity("hold_setpoint", units.Temperature, true)
+		p.Process.OutletTarget = pr.quantity("outlet_target", units.Temperature, false)
+	}
+	if rg := top.sub("regeneration", false, "arrangement", "ratio", "plates", "plate_area", "u_value", "fouling"); rg != nil {
+		r := &Regeneration{Pos: d.pos(rg.node)}
+		r.Plates = d.decodePlates(rg)
+		r.Ratio, r.RatioPos, r.RatioSet = rg.number("ratio", false)
+		p.Regeneration = r
+	}
+	mediumKeys := []string{"arrangement", "plates", "plate_area", "u_value", "fouling", "medium", "medium_inlet", "medium_rate"}
+	if ht := top.sub("heating", false, mediumKeys...); ht != nil {
+		p.Heating = &Heating{Pos: d.pos(ht.node), MediumSide: d.decodeMediumSide(ht)}
+	}
+	for i, n := range top.list("cooling") {
+		path := fmt.Sprintf("cooling[%d]", i)
+		st := d.object(n, path, append([]string{"name", "product_out"}, mediumKeys...)...)
+		if st == nil {
+			continue
+		}
+		c := CoolingStage{Pos: d.pos(n), MediumSide: d.decodeMediumSide(st)}
+		c.Name = st.text("name", false)
+		if c.Name == "" {
+			c.Name = fmt.Sprintf("stage %d", i+1)
+		}
+		c.ProductOut = st.quantity("product_out", units.Temperature, false)
+		p.Cooling = append(p.Cooling, c)
+	}
+}
+
+func (d *decoder) decodeProduct(pr *Product, o *object) {
+	pr.Pos = d.pos(o.node)
+	pr.Name = o.text("name", true)
+	pr.Density = o.quantity("density", units.Density, false)
+	pr.SpecificHeat = o.quantity("specific_heat", units.SpecificHeat, false)
+	pr.Conductivity = o.quantity("conductivity", units.ThermalConductivity, false)
+	if c := o.sub("composition", false, "water", "protein", "fat", "carbohydrate", "fiber", "ash"); c != nil {
+		comp := &Composition{Pos: d.pos(c.node)}
+		for _, f := range []struct {
+			key string
+			dst *float64
+		}{{"water", &comp.Water}, {"protein", &comp.Protein}, {"fat", &comp.Fat}, {"carbohydrate", &comp.Carbohydrate}, {"fiber", &comp.Fiber}, {"ash", &comp.Ash}} {
+			*f.dst, _, _ = c.number(f.key, false)
+		}
+		pr.Composition = comp
+	}
+	for i, n := range o.list("viscosity") {
+		path := fmt.Sprintf("product.viscosity[%d]", i)
+		vp := d.object(n, path, "at", "value")
+		if vp == nil {
+			continue
+		}
+		pr.Viscosity = append(pr.Viscosity, ViscosityPoint{
+			At:    vp.quantity("at", units.Temperature, true),
+			Value: vp.quantity("value", units.Viscosity, true),
+		})
+	}
+	if pl := o.sub("power_law", false, "flow_index", "consistency"); pl != nil {
+		law := &PowerLaw{Pos: d.pos(pl.node)}
+		var ok bool
+		law.FlowIndex, _, ok = pl.number("flow_index", true)
+		if ok && !(law.FlowIndex > 0 && law.FlowIndex <= 1.5) {
+			d.errorf(pl.values["flow_index"], "product.power_law.flow_index", "the flow index n must be above 0 and at most 1.5, found %g", law.FlowIndex)
+			ok = false
+		}
+		if ok {
+			law.Consistency = pl.quantity("consistency", units.ConsistencyKind(law.FlowIndex), true)
+		}
+		pr.PowerLaw = law
+	}
+}
+
+func (d *decoder) decodePlates(o *object) Plates {
+	var p Plates
+	switch a := o.text("arrangement", false); a {
+	case "", string(Counterflow):
+		p.Arrangement = Counterflow
+	case string(Cocurrent):
+		p.Arrangement = Cocurrent
+	default:
+		d.errorf(o.values["arrangement"], join(o.path, "arrangement"), "expected counterflow or cocurrent, found %q%s",
+			a, didYouMean(a, []string{"counterflow", "cocurrent"}))
+	}
+	p.Plates, p.PlatesPos, _ = o.integer("plates", false)
+	p.PlateArea = o.quantity("plate_area", units.Area, true)
+	p.UValue = o.quantity("u_value", units.HeatTransferCoefficient, true)
+	p.Fouling = o.quantity("fouling", units.FoulingResistance, false)
+	return p
+}
+
+func (d *decoder) decodeMediumSide(o *object) MediumSide {
+	m := MediumSide{Plates: d.decodePlates(o)}
+	m.MediumInlet = o.quantity("medium_inlet", units.Temperature, true)
+	m.MediumRate = o.flowRate("medium_rate", true)
+	v := o.values["medium"]
+	switch {
+	case v == nil:
+		d.errorf(o.node, join(o.path, "medium"), "missing; expected water, or a mapping {name, density, specific_heat}")
+	case v.Kind == yaml.ScalarNode:
+		if v.Value != "water" {
+			d.errorf(v, join(o.path, "medium"), "expected water, or a mapping {name, density, specific_heat}, found %q", v.Value)
+		}
+		m.Medium = Medium{Name: "water", Water: true}
+	default:
+		mo := d.object(v, join(o.path, "medium"), "name", "density", "specific_heat")
+		if mo != nil {
+			m.Medium.Name = mo.text("name", true)
+			m.Medium.Density = mo.quantity("density", units.Density, true)
+			m.Medium.SpecificHeat = mo.quantity("specific_heat", units.SpecificHeat, true)
+		}
+	}
+	return m
+}

@@ -1,0 +1,199 @@
+package plantfile
+
+import (
+	"fmt"
+
+	"pasval/internal/props"
+)
+
+// Validate checks the rules that span fields, before any computation: that
+// temperatures are in the right order, that each section is in exactly one
+// mode, that flows are positive and that nothing asked for is physically
+// impossible by construction (a co-current regenerator above 50 %). It returns
+// an ErrorList or nil.
+func Validate(p *Plant) error {
+	v := &validator{}
+	v.product(p)
+	v.flow(p)
+	v.process(p)
+	if p.Regeneration != nil {
+		v.regeneration(p)
+	}
+	if p.Heating != nil {
+		v.mediumSide("heating", p.Heating.Pos, &p.Heating.MediumSide)
+		if p.Heating.Plates.Plates == 0 && p.Heating.MediumInlet.Set && p.Process.HoldSetpoint.Set &&
+			!(p.Heating.MediumInlet.SI > p.Process.HoldSetpoint.SI) {
+			v.add(p.Heating.MediumInlet.Pos, "heating.medium_inlet",
+				"temperature cross: the medium enters at %s, not above the %s the product must reach; raise the medium inlet",
+				p.Heating.MediumInlet.Text, p.Process.HoldSetpoint.Text)
+		}
+	}
+	for i := range p.Cooling {
+		v.cooling(p, i)
+	}
+	if len(p.Cooling) > 0 && !p.Process.OutletTarget.Set {
+		v.add(p.Process.Pos, "process.outlet_target", "missing; cooling is described, so give the product outlet target, e.g. 4 °C")
+	}
+	if (p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0) && !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
+		v.add(Pos{File: p.File, Line: 1, Column: 1}, "flow.rate", "missing; the heat-exchange sections need the product rate, e.g. flow: {rate: 10000 L/h}")
+	}
+	if len(v.errs) == 0 {
+		return nil
+	}
+	for _, e := range v.errs {
+		if e.Pos.File == "" {
+			e.Pos.File = p.File
+		}
+	}
+	sortErrors(v.errs)
+	return v.errs
+}
+
+type validator struct {
+	errs ErrorList
+}
+
+func (v *validator) add(pos Pos, field, format string, args ...any) {
+	v.errs = append(v.errs, &Error{Pos: pos, Field: field, Msg: fmt.Sprintf(format, args...)})
+}
+
+// positive checks an entered quantity is above zero.
+func (v *validator) positive(q Quantity, field string) {
+	if q.Set && !(q.SI > 0) {
+		v.add(q.Pos, field, "must be greater than zero, found %s", q.Text)
+	}
+}
+
+func (v *validator) product(p *Plant) {
+	pr := &p.Product
+	v.positive(pr.Density, "product.density")
+	v.positive(pr.SpecificHeat, "product.specific_heat")
+	v.positive(pr.Conductivity, "product.conductivity")
+	if pr.Composition != nil {
+		c := props.Composition{Water: pr.Composition.Water, Protein: pr.Composition.Protein, Fat: pr.Composition.Fat,
+			Carbohydrate: pr.Composition.Carbohydrate, Fiber: pr.Composition.Fiber, Ash: pr.Composition.Ash}
+		if err := c.Validate(); err != nil {
+			v.add(pr.Composition.Pos, "product.composition", "%v", err)
+		}
+	} else {
+		if !pr.Density.Set && pr.Name != "" {
+			v.add(pr.Pos, "product.density", "missing; give density (e.g. 1030 kg/m3) or a composition")
+		}
+		if !pr.SpecificHeat.Set && pr.Name != "" {
+			v.add(pr.Pos, "product.specific_heat", "missing; give specific_heat (e.g. 3.93 kJ/(kg*K)) or a composition")
+		}
+	}
+	if len(pr.Viscosity) > 0 && pr.PowerLaw != nil {
+		v.add(pr.PowerLaw.Pos, "product.power_law", "give either viscosity points (Newtonian) or power_law, not both")
+	}
+	seen := map[float64]int{}
+	for i, pt := range pr.Viscosity {
+		f := fmt.Sprintf("product.viscosity[%d]", i)
+		v.positive(pt.Value, f+".value")
+		if !pt.At.Set {
+			continue
+		}
+		if j, dup := seen[pt.At.SI]; dup {
+			v.add(pt.At.Pos, f+".at", "the same temperature as viscosity[%d]; give each temperature once", j)
+		}
+		seen[pt.At.SI] = i
+	}
+	if pr.PowerLaw != nil {
+		v.positive(pr.PowerLaw.Consistency, "product.power_law.consistency")
+	}
+}
+
+func (v *validator) flow(p *Plant) {
+	f := &p.Flow
+	for _, r := range []struct {
+		q     FlowRate
+		field string
+	}{{f.Rate, "flow.rate"}, {f.MaxRate, "flow.max_rate"}} {
+		if r.q.Set && !(r.q.SI > 0) {
+			v.add(r.q.Pos, r.field, "the flow must be greater than zero, found %s", r.q.Text)
+		}
+	}
+	if f.Rate.Set && f.MaxRate.Set && f.Rate.ByMass == f.MaxRate.ByMass && f.Rate.SI > f.MaxRate.SI*(1+1e-12) {
+		v.add(f.Rate.Pos, "flow.rate", "the normal rate %s is above the sealed maximum %s; the timing pump cannot run faster than its seal",
+			f.Rate.Text, f.MaxRate.Text)
+	}
+}
+
+func (v *validator) process(p *Plant) {
+	pr := &p.Process
+	if pr.RawInlet.Set && pr.HoldSetpoint.Set && !(pr.RawInlet.SI < pr.HoldSetpoint.SI) {
+		v.add(pr.RawInlet.Pos, "process.raw_inlet", "the raw inlet %s must be below the hold setpoint %s", pr.RawInlet.Text, pr.HoldSetpoint.Text)
+	}
+	if pr.OutletTarget.Set && pr.HoldSetpoint.Set && !(pr.OutletTarget.SI < pr.HoldSetpoint.SI) {
+		v.add(pr.OutletTarget.Pos, "process.outlet_target", "the outlet target %s must be below the hold setpoint %s", pr.OutletTarget.Text, pr.HoldSetpoint.Text)
+	}
+	if pr.HoldSetpoint.Set && (pr.HoldSetpoint.SI > 150 || pr.HoldSetpoint.SI < 30) {
+		v.add(pr.HoldSetpoint.Pos, "process.hold_setpoint", "%s is outside 30–150 °C, the range this tool covers for continuous pasteurizers", pr.HoldSetpoint.Text)
+	}
+	if pr.RawInlet.Set && pr.RawInlet.SI < -5 {
+		v.add(pr.RawInlet.Pos, "process.raw_inlet", "%s is below −5 °C; a liquid product is expected", pr.RawInlet.Text)
+	}
+}
+
+func (v *validator) plates(section string, pl *Plates) {
+	v.positive(pl.PlateArea, section+".plate_area")
+	v.positive(pl.UValue, section+".u_value")
+	if pl.Fouling.Set && pl.Fouling.SI < 0 {
+		v.add(pl.Fouling.Pos, section+".fouling", "a fouling resistance cannot be negative, found %s", pl.Fouling.Text)
+	}
+}
+
+func (v *validator) regeneration(p *Plant) {
+	r := p.Regeneration
+	v.plates("regeneration", &r.Plates)
+	switch {
+	case r.RatioSet && r.Plates.Plates > 0:
+		v.add(r.RatioPos, "regeneration.ratio", "give either ratio (sizing) or plates (rating), not both")
+	case !r.RatioSet && r.Plates.Plates == 0:
+		v.add(r.Pos, "regeneration.ratio", "missing; give ratio (sizing, e.g. 0.92) or plates (rating, e.g. 112)")
+	case r.RatioSet && !(r.Ratio > 0 && r.Ratio < 1):
+		v.add(r.RatioPos, "regeneration.ratio", "the regeneration ratio must be between 0 and 1 (exclusive), found %g; 1 would need infinite area", r.Ratio)
+	case r.RatioSet && r.Arrangement == Cocurrent && r.Ratio >= 0.5:
+		v.add(r.RatioPos, "regeneration.ratio",
+			"a co-current regenerator cannot reach %.1f %%: with the same product on both sides (C_r = 1) co-current flow never passes 50 %% however many plates; use counterflow or a ratio below 0.5",
+			r.Ratio*100)
+	}
+}
+
+func (v *validator) mediumSide(section string, pos Pos, m *MediumSide) {
+	v.plates(section, &m.Plates)
+	if m.MediumRate.Set && !(m.MediumRate.SI > 0) {
+		v.add(m.MediumRate.Pos, section+".medium_rate", "the flow must be greater than zero, found %s", m.MediumRate.Text)
+	}
+	v.positive(m.Medium.Density, section+".medium.density")
+	v.positive(m.Medium.SpecificHeat, section+".medium.specific_heat")
+	if m.Medium.Water && m.MediumInlet.Set && (m.MediumInlet.SI < 0.5 || m.MediumInlet.SI > 200) {
+		v.add(m.MediumInlet.Pos, section+".medium_inlet",
+			"water as a medium is taken between 0.5 and 200 °C, found %s; for glycol or brine give medium: {name, density, specific_heat}", m.MediumInlet.Text)
+	}
+}
+
+func (v *validator) cooling(p *Plant, i int) {
+	c := &p.Cooling[i]
+	section := fmt.Sprintf("cooling[%d]", i)
+	v.mediumSide(section, c.Pos, &c.MediumSide)
+	last := i == len(p.Cooling)-1
+	switch {
+	case c.Plates.Plates > 0 && c.ProductOut.Set:
+		v.add(c.ProductOut.Pos, section+".product_out", "a rated stage (plates given) computes its product outlet; remove product_out or plates")
+	case c.Plates.Plates == 0 && !last && !c.ProductOut.Set:
+		v.add(c.Pos, section+".product_out", "missing; a sizing stage before the last needs the product outlet it must reach, e.g. 20 °C")
+	}
+	if c.ProductOut.Set && p.Process.HoldSetpoint.Set && !(c.ProductOut.SI < p.Process.HoldSetpoint.SI) {
+		v.add(c.ProductOut.Pos, section+".product_out", "%s is not below the hold setpoint %s", c.ProductOut.Text, p.Process.HoldSetpoint.Text)
+	}
+	if c.MediumInlet.Set && c.ProductOut.Set && !(c.MediumInlet.SI < c.ProductOut.SI) {
+		v.add(c.MediumInlet.Pos, section+".medium_inlet",
+			"temperature cross: the medium enters at %s, not below the product outlet %s it must reach", c.MediumInlet.Text, c.ProductOut.Text)
+	}
+	if last && c.Plates.Plates == 0 && !c.ProductOut.Set && c.MediumInlet.Set && p.Process.OutletTarget.Set &&
+		!(c.MediumInlet.SI < p.Process.OutletTarget.SI) {
+		v.add(c.MediumInlet.Pos, section+".medium_inlet",
+			"temperature cross: the medium enters at %s, not below the outlet target %s the last stage must reach", c.MediumInlet.Text, p.Process.OutletTarget.Text)
+	}
+}
