@@ -78,10 +78,13 @@ type CrossError struct {
 	Hot, Cold   string // names of the two streams, e.g. "medium", "product"
 }
 
-func (e *CrossError) Error() string {
+func (e *CrossError) Error() string { return e.Section + ": " + e.Detail() }
+
+// Detail is the message without the section name.
+func (e *CrossError) Detail() string {
 	d1, d2 := terminalDifferences(e.Arrangement, e.HotIn, e.HotOut, e.ColdIn, e.ColdOut)
-	return fmt.Sprintf("%s: temperature cross: %s %.2f → %.2f °C, %s %.2f → %.2f °C; the %s terminal differences are %.2f K and %.2f K and both must be positive",
-		e.Section, e.Hot, e.HotIn, e.HotOut, e.Cold, e.ColdIn, e.ColdOut, e.Arrangement, d1, d2)
+	return fmt.Sprintf("temperature cross: %s %.2f → %.2f °C, %s %.2f → %.2f °C; the %s terminal differences are %.2f K and %.2f K and both must be positive",
+		e.Hot, e.HotIn, e.HotOut, e.Cold, e.ColdIn, e.ColdOut, e.Arrangement, d1, d2)
 }
 
 // terminalDifferences returns the temperature differences at the two ends:

@@ -46,7 +46,11 @@ func (m Medium) cp(meanC float64) (float64, error) {
 	if !m.Water {
 		return m.SpecificHeat, nil
 	}
-	w, err := props.Water(meanC)
+	// A starved or oversized duty can drive the provisional outlet out of the
+	// liquid range while iterating; cp is then taken at the nearest liquid
+	// temperature so that the caller sees the impossible outlet and reports
+	// it as a temperature cross rather than a property-range error.
+	w, err := props.Water(min(max(meanC, 0.5), 300))
 	if err != nil {
 		return 0, err
 	}

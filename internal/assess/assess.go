@@ -220,8 +220,7 @@ func runLine(p *plantfile.Plant, res *Result) error {
 			res.Checks = append(res.Checks, Check{
 				ID: "heating-medium", Required: s.OtherIn, Actual: avail, Unit: "°C", MarginUnit: "K", Limit: "min",
 				Margin: avail - s.OtherIn, Pass: avail >= s.OtherIn,
-				Note: fmt.Sprintf("%d plates need the heating medium at %.2f °C or hotter to bring the product to %.2f °C; %.2f °C is available",
-					s.Plates, s.OtherIn, s.ProductOut, avail),
+				Note: fmt.Sprintf("medium inlet that %d plates need to bring the product to temperature, against the hottest available", s.Plates),
 			})
 		}
 		res.Sections = append(res.Sections, out)
@@ -236,7 +235,7 @@ func runLine(p *plantfile.Plant, res *Result) error {
 		res.Checks = append(res.Checks, Check{
 			ID: "cooling-outlet", Required: target, Actual: got, Unit: "°C", MarginUnit: "K", Limit: "max",
 			Margin: target - got, Pass: got <= target+1e-9,
-			Note: fmt.Sprintf("product leaves the last cooling stage at %.2f °C; the target is %.2f °C or colder", got, target),
+			Note: "product leaving the last cooling stage, against the outlet target",
 		})
 	}
 	return nil
@@ -253,14 +252,14 @@ func anyRated(stages []plantfile.CoolingStage) bool {
 
 // sectionError points a computation error at the section it came from.
 func sectionError(p *plantfile.Plant, err error) error {
-	var name string
+	name, msg := "", err.Error()
 	var ce *regen.CrossError
 	var se *regen.SectionError
 	switch {
 	case errors.As(err, &ce):
-		name = ce.Section
+		name, msg = ce.Section, ce.Detail()
 	case errors.As(err, &se):
-		name = se.Section
+		name, msg = se.Section, se.Err.Error()
 	}
 	pos, field := p.Process.Pos, "process"
 	switch {
@@ -275,5 +274,8 @@ func sectionError(p *plantfile.Plant, err error) error {
 			}
 		}
 	}
-	return plantfile.ErrorList{{Pos: pos, Field: field, Msg: err.Error()}}
+	if field == "process" {
+		msg = err.Error()
+	}
+	return plantfile.ErrorList{{Pos: pos, Field: field, Msg: msg}}
 }

@@ -43,6 +43,9 @@ type object struct {
 	node   *yaml.Node
 	values map[string]*yaml.Node
 	keys   map[string]*yaml.Node
+	// suggested holds the allowed keys that an unknown key resembled, so that
+	// a typo is reported once (as the typo) and not also as a missing key.
+	suggested map[string]bool
 }
 
 func join(path, key string) string {
@@ -59,7 +62,7 @@ func (d *decoder) object(n *yaml.Node, path string, allowed ...string) *object {
 		d.errorf(n, path, "expected a mapping of %s, found %s", strings.Join(allowed, ", "), describe(n))
 		return nil
 	}
-	o := &object{d: d, path: path, node: n, values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}}
+	o := &object{d: d, path: path, node: n, values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}, suggested: map[string]bool{}}
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, v := n.Content[i], n.Content[i+1]
 		if k.Kind != yaml.ScalarNode {
@@ -68,7 +71,11 @@ func (d *decoder) object(n *yaml.Node, path string, allowed ...string) *object {
 		}
 		name := k.Value
 		if !contains(allowed, name) {
-			d.errorf(k, join(path, name), "unknown key %q%s; allowed here: %s", name, didYouMean(name, allowed), strings.Join(allowed, ", "))
+			hint := didYouMean(name, allowed)
+			if s := closest(name, allowed); hint != "" {
+				o.suggested[s] = true
+			}
+			d.errorf(k, join(path, name), "unknown key %q%s; allowed here: %s", name, hint, strings.Join(allowed, ", "))
 			continue
 		}
 		if prev, dup := o.keys[name]; dup {
@@ -115,7 +122,7 @@ func (o *object) scalar(key string, required bool, expect string) (string, *yaml
 	v := o.values[key]
 	f := join(o.path, key)
 	if v == nil {
-		if required {
+		if required && !o.suggested[key] {
 			o.d.errorf(o.node, f, "missing; expected %s", expect)
 		}
 		return "", nil, false
@@ -134,7 +141,7 @@ func (o *object) text(key string, required bool) string {
 
 // quantity reads "number unit" of the given kind.
 func (o *object) quantity(key string, k units.Kind, required bool) Quantity {
-	s, n, ok := o.scalar(key, required, fmt.Sprintf("a %s with its unit, e.g. %s", k.Name, k.Example))
+	s, n, ok := o.scalar(key, required, fmt.Sprintf("%s with its unit, e.g. %s", units.Article(k.Name), k.Example))
 	if !ok {
 		return Quantity{}
 	}
@@ -234,7 +241,7 @@ func (o *object) sub(key string, required bool, allowed ...string) *object {
 	}
 	v := o.values[key]
 	if v == nil {
-		if required {
+		if required && !o.suggested[key] {
 			o.d.errorf(o.node, join(o.path, key), "missing; expected a mapping of %s", strings.Join(allowed, ", "))
 		}
 		return nil
@@ -257,15 +264,26 @@ func (o *object) list(key string) []*yaml.Node {
 	return v.Content
 }
 
-// didYouMean suggests the closest allowed key.
-func didYouMean(name string, allowed []string) string {
+// closest is the allowed word nearest to name by edit distance.
+func closest(name string, allowed []string) string {
+	best, _ := closestWithDistance(name, allowed)
+	return best
+}
+
+func closestWithDistance(name string, allowed []string) (string, int) {
 	best, bestD := "", math.MaxInt
 	for _, a := range allowed {
 		if d := editDistance(strings.ToLower(name), a); d < bestD {
 			best, bestD = a, d
 		}
 	}
-	if best != "" && (bestD <= 2 || (bestD <= len(name)/3)) {
+	return best, bestD
+}
+
+// didYouMean suggests the closest allowed word when it is near enough.
+func didYouMean(name string, allowed []string) string {
+	best, d := closestWithDistance(name, allowed)
+	if best != "" && (d <= 2 || d <= len(name)/3) {
 		return fmt.Sprintf(" (did you mean %q?)", best)
 	}
 	return ""

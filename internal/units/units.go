@@ -170,11 +170,11 @@ func init() {
 func Parse(s string, k Kind) (Value, error) {
 	in := strings.TrimSpace(s)
 	if in == "" {
-		return Value{}, errorf(s, "empty value: expected a %s such as %s", k.Name, k.Example)
+		return Value{}, errorf(s, "empty value: expected %s such as %s", Article(k.Name), k.Example)
 	}
 	num, rest, err := splitNumber(in)
 	if err != nil {
-		return Value{}, errorf(s, "%q is not a number followed by a unit: expected a %s such as %s", s, k.Name, k.Example)
+		return Value{}, errorf(s, "%q is not a number followed by a unit: expected %s such as %s", s, Article(k.Name), k.Example)
 	}
 	unit := strings.TrimSpace(rest)
 	v := Value{Number: num, Unit: unit}
@@ -183,7 +183,7 @@ func Parse(s string, k Kind) (Value, error) {
 			v.SI = num
 			return v, nil
 		}
-		return Value{}, errorf(s, "%q has no unit: a %s needs one, e.g. %s", s, k.Name, k.Example)
+		return Value{}, errorf(s, "%q has no unit: %s needs one, e.g. %s", s, Article(k.Name), k.Example)
 	}
 	if k.point {
 		def, ok := table[unit]
@@ -214,7 +214,7 @@ func Parse(s string, k Kind) (Value, error) {
 	}
 	factor, dim, us, err := parseUnit(unit)
 	if err != nil {
-		return Value{}, errorf(s, "%q: %v; expected a %s such as %s", s, err, k.Name, k.Example)
+		return Value{}, errorf(s, "%q: %v; expected %s such as %s", s, err, Article(k.Name), k.Example)
 	}
 	if !sameDim(dim, k.Dim) {
 		return Value{}, errorf(s, "%q has the wrong dimension for a %s (the unit %q is %s); expected e.g. %s",
@@ -253,6 +253,14 @@ func ParseEither(s string, kinds ...Kind) (Value, Kind, error) {
 		return Value{}, Kind{}, errorf(s, "%q is not a %s; expected e.g. %s", s, strings.Join(names, " or "), strings.Join(examples, ", or "))
 	}
 	return Value{}, Kind{}, first
+}
+
+// Article puts "a" or "an" before a name: "an area", "a density".
+func Article(name string) string {
+	if name != "" && strings.ContainsRune("aeiou", rune(name[0])) {
+		return "an " + name
+	}
+	return "a " + name
 }
 
 func sameDim(a, b Dim) bool {
