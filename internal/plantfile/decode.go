@@ -283,6 +283,12 @@ func closestWithDistance(name string, allowed []string) (string, int) {
 // didYouMean suggests the closest allowed word when it is near enough.
 func didYouMean(name string, allowed []string) string {
 	best, d := closestWithDistance(name, allowed)
+	for _, a := range allowed {
+		if len(name) >= 4 && strings.HasPrefix(a, strings.ToLower(name)) {
+			best, d = a, 0
+			break
+		}
+	}
 	if best != "" && (d <= 2 || d <= len(name)/3) {
 		return fmt.Sprintf(" (did you mean %q?)", best)
 	}

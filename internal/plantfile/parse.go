@@ -61,7 +61,7 @@ func unwrapPathError(err error) error {
 func Parse(file string, data []byte) (p *Plant, err error) {
 	d := &decoder{file: file}
 	first := func(line, col int, msg string) error {
-		return ErrorList{{Pos: Pos{File: file, Line: line, Column: col}, Msg: msg}}
+		return ErrorList{{Pos: Pos{File: file, Line: line, Column: col}, Field: keyOnLine(data, line), Msg: msg}}
 	}
 	if len(data) > MaxFileSize {
 		return nil, first(1, 1, fmt.Sprintf("the file is larger than %d bytes; a plant file is a few kilobytes", MaxFileSize))
@@ -84,8 +84,9 @@ func Parse(file string, data []byte) (p *Plant, err error) {
 	if root == nil {
 		return nil, first(1, 1, "the plant file holds no YAML mapping; expected at least 'product' and 'process'")
 	}
-	if n := findAlias(root); n != nil {
-		return nil, first(n.Line, n.Column, "anchors and aliases (& and *) are not supported in plant files; write each value out")
+	if n, path := findAlias(root, ""); n != nil {
+		return nil, ErrorList{{Pos: Pos{File: file, Line: n.Line, Column: n.Column}, Field: path,
+			Msg: "anchors and aliases (& and *) are not supported in plant files; write each value out"}}
 	}
 	sum := sha256.Sum256(data)
 	p = &Plant{File: file, SHA256: hex.EncodeToString(sum[:])}
@@ -124,7 +125,7 @@ func decodeYAML(data []byte) (root *yaml.Node, err error) {
 		if err != nil {
 			return nil, err
 		}
-		return nil, fmt.Errorf("yaml: line %d: a second YAML document starts here; a plant file holds one", max(extra.Line-1, 1))
+		return nil, fmt.Errorf("yaml: line %d: a second YAML document starts here; a plant file holds one", secondDocumentLine(data, extra.Line))
 	}
 	if doc.Kind != yaml.DocumentNode || len(doc.Content) == 0 {
 		return nil, nil
@@ -132,16 +133,60 @@ func decodeYAML(data []byte) (root *yaml.Node, err error) {
 	return doc.Content[0], nil
 }
 
-func findAlias(n *yaml.Node) *yaml.Node {
-	if n.Kind == yaml.AliasNode || n.Anchor != "" {
-		return n
-	}
-	for _, c := range n.Content {
-		if a := findAlias(c); a != nil {
-			return a
+var docStart = regexp.MustCompile(`^---(\s|$)`)
+
+// secondDocumentLine is the line of the "---" that opens the second document
+// (the last separator before the second document's first node).
+func secondDocumentLine(data []byte, contentLine int) int {
+	found := max(contentLine, 1)
+	for i, l := range bytes.Split(data, []byte("\n")) {
+		if i+1 > contentLine {
+			break
+		}
+		if docStart.Match(l) && i > 0 {
+			found = i + 1
 		}
 	}
-	return nil
+	return found
+}
+
+// findAlias returns the first anchored or alias node and its field path.
+func findAlias(n *yaml.Node, path string) (*yaml.Node, string) {
+	if n.Kind == yaml.AliasNode || n.Anchor != "" {
+		return n, path
+	}
+	for i, c := range n.Content {
+		p := path
+		switch n.Kind {
+		case yaml.MappingNode:
+			if i%2 == 1 {
+				p = join(path, n.Content[i-1].Value)
+			} else {
+				p = join(path, c.Value)
+			}
+		case yaml.SequenceNode:
+			p = fmt.Sprintf("%s[%d]", path, i)
+		}
+		if a, ap := findAlias(c, p); a != nil {
+			return a, ap
+		}
+	}
+	return nil, ""
+}
+
+var keyPattern = regexp.MustCompile(`^\s*(?:-\s+)?([A-Za-z_][A-Za-z0-9_]*)\s*:`)
+
+// keyOnLine names the key written on a line, for errors found before the
+// YAML tree exists (tabs, bad bytes, syntax); "" when the line has none.
+func keyOnLine(data []byte, line int) string {
+	lines := bytes.Split(data, []byte("\n"))
+	if line < 1 || line > len(lines) {
+		return ""
+	}
+	if m := keyPattern.FindSubmatch(lines[line-1]); m != nil {
+		return string(m[1])
+	}
+	return ""
 }
 
 func invalidUTF8At(data []byte) (int, int) {
@@ -211,7 +256,7 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 		p.Flow.Pos = d.pos(fl.node)
 		p.Flow.Rate = fl.flowRate("rate", false)
 		p.Flow.MaxRate = fl.flowRate("max_rate", false)
-		if !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
+		if !fl.has("rate") && !fl.has("max_rate") {
 			d.errorf(fl.node, "flow", "give rate, max_rate or both, e.g. rate: 10000 L/h")
 		}
 	}

@@ -1,0 +1,162 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// badCase is one file of testdata/bad: the exit code, the line the first
+// error points at, the field path it names and a fragment of its message.
+// The expectations are the project's own specification of each refusal.
+type badCase struct {
+	line  int
+	field string // "" for errors about the whole file
+	frag  string
+}
+
+var badCases = map[string]badCase{
+	"anchor-alias":                 {15, "regeneration.plate_area", "anchors and aliases"},
+	"bad-arrangement":              {14, "regeneration.arrangement", `did you mean "counterflow"`},
+	"below-absolute-zero":          {10, "process.raw_inlet", "below absolute zero"},
+	"broken-yaml":                  {2, "product", "not valid YAML"},
+	"cocurrent-regenerator":        {15, "regeneration.ratio", "never passes 50 %"},
+	"cocurrent-regenerator-half":   {15, "regeneration.ratio", "never passes 50 %"},
+	"comments-only":                {1, "", "no YAML mapping"},
+	"composition-sum":              {4, "product.composition", "sum to 0.9220"},
+	"cooling-cross":                {26, "cooling[0].medium_inlet", "temperature cross"},
+	"duplicate-key":                {13, "process.raw_inlet", "given twice"},
+	"empty":                        {1, "", "the plant file is empty"},
+	"fractional-plates":            {21, "heating.plates", "whole number"},
+	"heating-cross":                {19, "heating.medium_inlet", "temperature cross"},
+	"heating-starved":              {18, "heating", "temperature cross: medium 77.00"},
+	"huge-number":                  {15, "regeneration.plate_area", "not a number"},
+	"inf-value":                    {7, "flow.rate", "not a number"},
+	"intermediate-stage-no-outlet": {24, "cooling[0].product_out", "sizing stage before the last"},
+	"missing-flow":                 {1, "flow.rate", "need the product rate"},
+	"missing-product":              {2, "product", "missing"},
+	"missing-setpoint":             {10, "process.hold_setpoint", "missing"},
+	"missing-unit-flow":            {7, "flow.rate", "has no unit"},
+	"missing-unit-temperature":     {11, "process.hold_setpoint", "has no unit"},
+	"nan-value":                    {4, "product.density", "not a number"},
+	"negative-flow":                {7, "flow.rate", "greater than zero"},
+	"negative-viscosity":           {7, "product.viscosity[0].value", "greater than zero"},
+	"no-ratio-no-plates":           {14, "regeneration.ratio", "give ratio (sizing"},
+	"not-utf8":                     {3, "name", "not valid UTF-8"},
+	"null-value":                   {21, "heating.plate_area", "found nothing"},
+	"percent-flow":                 {7, "flow.rate", "percentage"},
+	"product-is-list":              {3, "product", "found a list"},
+	"rate-above-max":               {7, "flow.rate", "above the sealed maximum"},
+	"rated-stage-with-outlet":      {31, "cooling[0].product_out", "rated stage"},
+	"ratio-above-one":              {14, "regeneration.ratio", "between 0 and 1"},
+	"ratio-and-plates":             {14, "regeneration.ratio", "not both"},
+	"ratio-one":                    {14, "regeneration.ratio", "between 0 and 1"},
+	"ratio-zero":                   {14, "regeneration.ratio", "between 0 and 1"},
+	"raw-above-setpoint":           {10, "process.raw_inlet", "must be below the hold setpoint"},
+	"raw-at-setpoint":              {10, "process.raw_inlet", "must be below the hold setpoint"},
+	"setpoint-out-of-range":        {11, "process.hold_setpoint", "outside 30–150 °C"},
+	"tab-indent":                   {10, "raw_inlet", "tab is used for indentation"},
+	"two-documents":                {23, "", "second YAML document"},
+	"typo-key":                     {11, "process.hold_setpiont", `did you mean "hold_setpoint"`},
+	"typo-top-key":                 {13, "regneration", `did you mean "regeneration"`},
+	"unknown-medium":               {18, "heating.medium", `found "oil"`},
+	"unknown-unit":                 {29, "cooling[0].u_value", "write °C or degC"},
+	"viscosity-bare-temperature":   {7, "product.viscosity[0].at", "has no unit"},
+	"water-frozen":                 {26, "cooling[0].medium_inlet", "between 0.5 and 200 °C"},
+	"wrong-dimension-density":      {4, "product.density", "wrong dimension"},
+	"wrong-dimension-flow":         {8, "flow.max_rate", "not a volumetric flow or mass flow"},
+	"wrong-dimension-u":            {16, "regeneration.u_value", "wrong dimension"},
+	"zero-flow":                    {8, "flow.max_rate", "greater than zero"},
+	"zero-medium-flow":             {20, "heating.medium_rate", "greater than zero"},
+}
+
+const badDir = "../../testdata/bad"
+
+func TestBadInputCorpus(t *testing.T) {
+	files, err := filepath.Glob(filepath.Join(badDir, "*.yaml"))
+	if err != nil || len(files) < 25 {
+		t.Fatalf("bad-input corpus has %d files (%v); at least 25 expected", len(files), err)
+	}
+	for _, f := range files {
+		name := strings.TrimSuffix(filepath.Base(f), ".yaml")
+		if _, ok := badCases[name]; !ok {
+			t.Errorf("%s has no expectation in badCases", f)
+		}
+	}
+	for name, want := range badCases {
+		t.Run(name, func(t *testing.T) {
+			path := filepath.Join(badDir, name+".yaml")
+			for _, args := range [][]string{{"check", path}, {"check", "--json", path}} {
+				var out, errb bytes.Buffer
+				code := run(args, &out, &errb)
+				if code != exitInput {
+					t.Fatalf("%v: exit %d, want 2; stderr %q", args, code, errb.String())
+				}
+				first := strings.SplitN(errb.String(), "\n", 2)[0]
+				loc := fmt.Sprintf("%s.yaml:%d:", name, want.line)
+				if !strings.Contains(first, loc) {
+					t.Errorf("first error %q does not point at %s", first, loc)
+				}
+				if want.field != "" && !strings.Contains(first, ": "+want.field+": ") {
+					t.Errorf("first error %q does not name field %s", first, want.field)
+				}
+				if !strings.Contains(first, want.frag) {
+					t.Errorf("first error %q lacks %q", first, want.frag)
+				}
+				if strings.Contains(errb.String(), "goroutine") || strings.Contains(errb.String(), "panic") {
+					t.Errorf("stack trace in %q", errb.String())
+				}
+				if out.Len() != 0 {
+					t.Errorf("output written for bad input: %q", out.String())
+				}
+			}
+		})
+	}
+}
+
+func TestMissingFileAndUsage(t *testing.T) {
+	// Exit codes are the project's contract: 2 for bad input or usage.
+	tests := []struct {
+		args []string
+		frag string
+	}{
+		{[]string{"check", "no-such-file.yaml"}, "cannot read the plant file"},
+		{[]string{"check"}, "exactly one plant file"},
+		{[]string{"check", "a.yaml", "b.yaml"}, "exactly one plant file"},
+		{[]string{"check", "--units", "metric", filepath.Join(demoDir, "htst-milk-si.yaml")}, "--units must be si or us"},
+		{[]string{"check", "--bogus", filepath.Join(demoDir, "htst-milk-si.yaml")}, "unknown flag"},
+		{[]string{"frobnicate"}, "unknown command"},
+		{[]string{"init", "--units", "metric"}, "--units must be si or us"},
+		{[]string{"check", badDir}, "cannot read the plant file"},
+	}
+	for _, tc := range tests {
+		var out, errb bytes.Buffer
+		if code := run(tc.args, &out, &errb); code != exitInput || !strings.Contains(errb.String(), tc.frag) {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and %q", tc.args, code, errb.String(), tc.frag)
+		}
+	}
+}
+
+func TestInitRefusesOverwrite(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "line.yaml")
+	var out, errb bytes.Buffer
+	if code := run([]string{"init", "-o", p}, &out, &errb); code != 0 {
+		t.Fatalf("init: %d %s", code, errb.String())
+	}
+	before, _ := os.ReadFile(p)
+	errb.Reset()
+	if code := run([]string{"init", "--units", "us", "-o", p}, &out, &errb); code != exitInput || !strings.Contains(errb.String(), "--force") {
+		t.Fatalf("second init: %d %q", code, errb.String())
+	}
+	after, _ := os.ReadFile(p)
+	if !bytes.Equal(before, after) {
+		t.Fatal("file changed without --force")
+	}
+	if code := run([]string{"init", "--units", "us", "-o", p, "--force"}, &out, &errb); code != 0 {
+		t.Fatalf("init --force: %d", code)
+	}
+}

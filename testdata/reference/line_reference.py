@@ -1,0 +1,153 @@
+#!/usr/bin/python3
+"""Independent reference for the two demo plants, written from the textbook
+relations (LMTD, effectiveness-NTU; Incropera et al. 2007, ch. 11) with water
+properties from Debian's python3-iapws (IAPWS-IF97), not from pasval's code.
+
+Prints JSON: for each demo, per section the duty (W), the four temperatures
+(degC), LMTD (K), NTU, effectiveness, required area (m2) and plates. The Go
+test cmd/pasval/reference_test.go compares pasval's --json output with it.
+
+Conventions from shared/DOMAIN.md section 2: water volumetric rates convert to
+mass at the inlet temperature; cp at the mean of inlet and outlet, iterated;
+water at 0.101325 MPa (1.01 p_sat above 100 degC).
+"""
+import json
+import math
+import sys
+
+from iapws.iapws97 import _Region1, _PSat_T
+
+GAL = 3.785411784e-3
+LB = 0.45359237
+FT = 0.3048
+BTU = 1055.05585262
+
+
+def water(tc):
+    p = 0.101325
+    if tc > 99:
+        p = max(p, _PSat_T(tc + 273.15) * 1.01)
+    r = _Region1(tc + 273.15, p)
+    return 1.0 / r["v"], r["cp"] * 1000.0
+
+
+def eps_counter(ntu, cr):
+    if abs(1 - cr) < 1e-9:
+        return ntu / (1 + ntu)
+    e = math.exp(-ntu * (1 - cr))
+    return (1 - e) / (1 - cr * e)
+
+
+def lmtd(d1, d2):
+    if abs(d1 - d2) < 1e-9 * d1:
+        return d1
+    return (d1 - d2) / math.log(d1 / d2)
+
+
+def medium_out(vdot, t_in, q):
+    """Outlet of a water stream giving q watts (negative q: it takes heat)."""
+    rho, _ = water(t_in)
+    m = vdot * rho
+    out = t_in
+    for _ in range(200):
+        _, cp = water((t_in + out) / 2)
+        nxt = t_in - q / (m * cp)
+        if abs(nxt - out) < 1e-12:
+            break
+        out = nxt
+    return nxt, m * cp
+
+
+def section(q, hin, hout, cin, cout, ch, cc, u, plate):
+    lm = lmtd(hin - cout, hout - cin)
+    a = q / (u * lm)
+    cmin = min(ch, cc)
+    return {"duty_W": q, "lmtd_K": lm, "area_m2": a, "plates": math.ceil(a / plate - 1e-9),
+            "eff": q / (cmin * (hin - cin)), "hot_in": hin, "hot_out": hout, "cold_in": cin, "cold_out": cout}
+
+
+def milk_si():
+    rho, cp = 1031.0, 3930.0
+    c = 10000e-3 / 3600 * rho * cp
+    raw, sp, target = 5.0, 72.5, 4.0
+    out = {}
+    r = 0.92
+    rawout, pastout = raw + r * (sp - raw), sp - r * (sp - raw)
+    q = c * (rawout - raw)
+    s = section(q, sp, pastout, raw, rawout, c, c, 3300, 0.35)
+    s["ntu"] = 3300 * s["area_m2"] / c
+    out["regeneration"] = s
+    q = c * (sp - rawout)
+    mo, cm = medium_out(20000e-3 / 3600, 77.0, q)
+    s = section(q, 77.0, mo, rawout, sp, cm, c, 3800, 0.35)
+    s["ntu"] = 3800 * s["area_m2"] / min(c, cm)
+    out["heating"] = s
+    q = c * (pastout - target)
+    mo, cm = medium_out(25000e-3 / 3600, 1.0, -q)
+    s = section(q, pastout, target, 1.0, mo, c, cm, 3000, 0.35)
+    s["ntu"] = 3000 * s["area_m2"] / min(c, cm)
+    out["cooling"] = s
+    return out
+
+
+def f2c(f):
+    return (f - 32) * 5 / 9
+
+
+def cider_us():
+    rho = 65.2 * LB / FT ** 3
+    cp = 0.91 * BTU / LB * 9 / 5
+    c = 18 * GAL / 60 * rho * cp
+    raw, sp = f2c(40), f2c(161)
+    plate = 2.7 * FT ** 2
+    uus = BTU / 3600 / FT ** 2 * 9 / 5
+    out = {}
+    # regeneration, rated: 40 plates
+    ntu = 520 * uus * 40 * plate / c
+    e = eps_counter(ntu, 1)
+    rawout, pastout = raw + e * (sp - raw), sp - e * (sp - raw)
+    out["regeneration"] = {"eff": e, "cold_out": rawout, "hot_out": pastout, "duty_W": c * (rawout - raw)}
+    # heating, rated: required medium inlet by fixed point
+    q = c * (sp - rawout)
+    a, u = 8 * plate, 560 * uus
+    vdot = 40 * GAL / 60
+    tin = sp + 1
+    for _ in range(200):
+        mo, cm = medium_out(vdot, tin, q)
+        cmin, cmax = min(c, cm), max(c, cm)
+        nxt = rawout + q / (eps_counter(u * a / cmin, cmin / cmax) * cmin)
+        if abs(nxt - tin) < 1e-11:
+            tin = nxt
+            break
+        tin = nxt
+    mo, cm = medium_out(vdot, tin, q)
+    out["heating"] = {"hot_in": tin, "hot_out": mo, "duty_W": q}
+    # cooling stage 1, rated: chilled water 35 F, 30 gpm, 10 plates, U 500
+    t = pastout
+    tm = f2c(35)
+    rho_w, _ = water(tm)
+    m = 30 * GAL / 60 * rho_w
+    a, u = 10 * plate, 500 * uus
+    mout = tm
+    for _ in range(200):
+        _, cpw = water((tm + mout) / 2)
+        cm = m * cpw
+        cmin, cmax = min(c, cm), max(c, cm)
+        q = eps_counter(u * a / cmin, cmin / cmax) * cmin * (t - tm)
+        nxt = tm + q / cm
+        if abs(nxt - mout) < 1e-12:
+            break
+        mout = nxt
+    t1 = t - q / c
+    out["cooling: chilled water"] = {"cold_out": nxt, "hot_out": t1, "duty_W": q}
+    # cooling stage 2, rated: glycol 28 F, 12 gpm, 6 plates, U 430, constant properties
+    cg = 12 * GAL / 60 * 64.6 * LB / FT ** 3 * 0.89 * BTU / LB * 9 / 5
+    a, u = 6 * plate, 430 * uus
+    cmin, cmax = min(c, cg), max(c, cg)
+    q = eps_counter(u * a / cmin, cmin / cmax) * cmin * (t1 - f2c(28))
+    out["cooling: glycol trim"] = {"hot_out": t1 - q / c, "cold_out": f2c(28) + q / cg, "duty_W": q}
+    return out
+
+
+if __name__ == "__main__":
+    json.dump({"htst-milk-si": milk_si(), "cider-us": cider_us()}, sys.stdout, indent=1)
