@@ -1,0 +1,202 @@
+package lethality
+
+import (
+	"math"
+	"testing"
+)
+
+func near(got, want, tol float64) bool { return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want)) }
+
+func TestFastestToMean(t *testing.T) {
+	tests := []struct {
+		name      string
+		got, want float64
+		tol       float64
+	}{
+		// Laminar Newtonian: 2 (Poiseuille profile; DOMAIN.md §2).
+		{"laminar newtonian", LaminarFastestToMean(1), 2, 1e-15},
+		// Laminar power law (3n+1)/(n+1): n = 0.5 → 2.5/1.5 (Steffe 1996; from memory per DOMAIN.md).
+		{"laminar n 0.5", LaminarFastestToMean(0.5), 2.5 / 1.5, 1e-15},
+		{"laminar n 0.7", LaminarFastestToMean(0.7), 3.1 / 1.7, 1e-15},
+		// Turbulent: published holding-section sizing guidance quotes 1.33 at Re 4000
+		// and 1.25 at Re 20 000 (DOMAIN.md §2); the formula gives 1.32608 and 1.25565
+		// (computed with python3).
+		{"turbulent Re 4000", TurbulentFastestToMean(4000), 1.33, 0.005},
+		{"turbulent Re 20000", TurbulentFastestToMean(20000), 1.25, 0.005},
+		{"turbulent Re 4000 exact", TurbulentFastestToMean(4000), 1.3260764990766958, 1e-12},
+	}
+	for _, tc := range tests {
+		if !near(tc.got, tc.want, tc.tol) {
+			t.Errorf("%s: %.12g, want %.12g ± %g", tc.name, tc.got, tc.want, tc.tol)
+		}
+	}
+}
+
+func TestPetukhovAgainstColebrook(t *testing.T) {
+	// The Petukhov factor (0.790 ln Re − 1.64)⁻² against the smooth-pipe Colebrook
+	// factor from Debian's python3-fluids 1.0.22, fluids.friction_factor(Re, eD=0):
+	// 4000: 0.03990701405563491; 20000: 0.02588307853809607; 1e5: 0.01798977308427384.
+	// Petukhov is within 4 % at Re 4000 and 0.1 % at 1e5.
+	for _, c := range []struct{ re, colebrook, tol float64 }{
+		{4000, 0.03990701405563491, 0.04}, {20000, 0.02588307853809607, 0.011}, {1e5, 0.01798977308427384, 0.001},
+	} {
+		f := math.Pow(0.790*math.Log(c.re)-1.64, -2)
+		if math.Abs(f/c.colebrook-1) > c.tol {
+			t.Errorf("Re %g: Petukhov %g vs Colebrook %g", c.re, f, c.colebrook)
+		}
+	}
+}
+
+func TestMetznerReedReducesToNewtonian(t *testing.T) {
+	// At n = 1 the Metzner–Reed number is ρvD/μ (Metzner and Reed 1955).
+	pl := PowerLaw{N: 1, K: 0.8e-3}
+	nw := Newtonian{Viscosity: 0.8e-3}
+	if a, b := pl.Reynolds(1015, 1.7, 0.0475), nw.Reynolds(1015, 1.7, 0.0475); !near(a, b, 1e-12) {
+		t.Errorf("Metzner–Reed %g vs Newtonian %g", a, b)
+	}
+	// n = 0.5, K = 2 Pa·s^0.5, ρ 1000, v 1, D 0.05: Re = 1000·1·0.05^0.5/(2·8^-0.5·1.25^0.5)
+	// = 223.607/(2·0.353553·1.118034) = 282.843 (computed by hand).
+	if got := (PowerLaw{N: 0.5, K: 2}).Reynolds(1000, 1, 0.05); !near(got, 282.842712474619, 1e-9) {
+		t.Errorf("Metzner–Reed n 0.5: %.12g", got)
+	}
+}
+
+func TestRegimes(t *testing.T) {
+	// DOMAIN.md §2: < 2100 laminar, 2100–4000 transitional (treated as laminar), ≥ 4000 turbulent.
+	for re, want := range map[float64]Regime{100: Laminar, 2099: Laminar, 2100: Transitional, 3999: Transitional, 4000: Turbulent} {
+		if got := RegimeOf(re); got != want {
+			t.Errorf("Re %g: %v, want %v", re, got, want)
+		}
+	}
+	tube := Tube{InnerDiameter: 0.0475, Length: 20}
+	// Transitional is timed with the laminar ratio.
+	mu := 1015 * 1.0 * 0.0475 / 3000 // Re = 3000 at v = 1 m/s
+	h := tube.Hydraulics(Flow{Volumetric: tube.CrossSection(), Density: 1015}, Newtonian{mu}, 0)
+	if h.Regime != Transitional || h.FastestToMean != 2 || !near(h.MinResidence, 10, 1e-12) {
+		t.Errorf("transitional: %+v", h)
+	}
+	h = tube.Hydraulics(Flow{Volumetric: tube.CrossSection(), Density: 1015}, Newtonian{mu}, 1.5)
+	if !h.Overridden || h.FastestToMean != 1.5 {
+		t.Errorf("override: %+v", h)
+	}
+}
+
+func TestSanitaryTube(t *testing.T) {
+	// 2 in OD, 0.065 in wall → ID 1.870 in (ASTM A270 / 3-A practice, from memory; DOMAIN.md §2).
+	s, ok := LookupSanitaryTube(0.0508)
+	if !ok || !near(s.Inner(), 1.870*0.0254, 1e-12) {
+		t.Errorf("2 in: %+v %v", s, ok)
+	}
+	if s, ok := LookupSanitaryTube(4 * 0.0254); !ok || !near(s.Inner(), 3.834*0.0254, 1e-12) {
+		t.Errorf("4 in: %+v", s)
+	}
+	if _, ok := LookupSanitaryTube(0.05); ok {
+		t.Error("50 mm accepted as a sanitary size")
+	}
+}
+
+func TestListeriaLogReduction(t *testing.T) {
+	// Bradshaw et al. 1985 (J. Food Prot. 48:743): Listeria monocytogenes in whole milk,
+	// D71.7 = 0.9 s, z = 6.3 °C. 15 s at 71.7 °C gives 15/0.9 = 16.7 log.
+	o := Organism{Name: "L. monocytogenes", D: 0.9, DTemperature: 71.7, Z: 6.3}
+	p := Isothermal(71.7, 15)
+	if got := LogReduction(p, 1, o); !near(got, 16.6667, 1e-4) {
+		t.Errorf("log reduction %g, want 16.7", got)
+	}
+	// One z above the reference the D-value is ten times smaller.
+	if got := o.DAt(71.7 + 6.3); !near(got, 0.09, 1e-12) {
+		t.Errorf("D at 78 °C = %g", got)
+	}
+	// Equivalent time at the reference temperature equals the time when isothermal there.
+	if got := EquivalentTime(p, 1, 71.7, 6.3); !near(got, 15, 1e-12) {
+		t.Errorf("equivalent time %g", got)
+	}
+	// PU: 1 min at 60 °C is 1 PU (definition, DOMAIN.md §2).
+	if got := PasteurizationUnits(Isothermal(60, 60), 1); !near(got, 1, 1e-12) {
+		t.Errorf("PU %g", got)
+	}
+}
+
+func TestHeatLossProfile(t *testing.T) {
+	// Closed form (DOMAIN.md §2): T(x) = Ta + (Tin − Ta) exp(−k x), k = h π Do /(ṁ cp),
+	// outlet held at the setpoint. Hand-worked: h 10 W/(m²·K), Do 0.0508 m, ṁ 3 kg/s,
+	// cp 3900 → k = 10·π·0.0508/11 700 = 1.364038e-4 1/m; L = 30 m, Ta 20 °C, setpoint 72 °C:
+	// Tin = 20 + 52·exp(30k) = 72.213227 °C (computed with python3).
+	p := HeatLossProfile(72, 20, 10, 0.0508, 3, 3900, 30)
+	k := 10 * math.Pi * 0.0508 / (3 * 3900)
+	if !near(p.Decay, k, 1e-15) || !near(p.Inlet(), 20+52*math.Exp(30*k), 1e-14) || !near(p.At(30), 72, 1e-14) {
+		t.Errorf("profile %+v inlet %.9g", p, p.Inlet())
+	}
+	if !near(p.Inlet(), 72.2132265, 1e-8) {
+		t.Errorf("inlet %.9g", p.Inlet())
+	}
+	// With heat loss the fastest particle gets more lethality than the isothermal tube
+	// at the setpoint (it is hotter upstream), and the Simpson integral agrees with a
+	// fine trapezoidal sum (independent quadrature) to 1e-8.
+	o := Organism{D: 0.9, DTemperature: 71.7, Z: 6.3}
+	lossy := HeatLossProfile(72, 20, 200, 0.0508, 0.5, 3900, 30)
+	lr := LogReduction(lossy, 2, o)
+	iso := LogReduction(Isothermal(72, 30), 2, o)
+	pts := Accumulated(lossy, 2, o, 200000)
+	if !(lr > iso) || !near(lr, pts[len(pts)-1].LogRed, 1e-8) {
+		t.Errorf("lossy LR %.12g, isothermal %.12g, trapezoid %.12g", lr, iso, pts[len(pts)-1].LogRed)
+	}
+	// Isothermal integral against t/D.
+	if got := LogReduction(Profile{Outlet: 72, Ambient: 72, Decay: 1e-3, Length: 30}, 2, o); !near(got, 15/o.DAt(72), 1e-12) {
+		t.Errorf("isothermal via integral %g vs %g", got, 15/o.DAt(72))
+	}
+}
+
+// pmo is the Grade "A" PMO continuous-flow table (DOMAIN.md §3, as copied in
+// Michigan Compiled Laws 288.697 and Texas 25 TAC §217.1).
+var pmo = []LegalRow{{63, 1800}, {72, 15}, {89, 1}, {90, 0.5}, {94, 0.1}, {96, 0.05}, {100, 0.01}}
+
+func TestJudgeLegal(t *testing.T) {
+	tests := []struct {
+		name     string
+		setpoint float64
+		tmin     float64
+		met      bool
+		row      LegalRow
+	}{
+		{"72.5 °C 16 s", 72.5, 16, true, LegalRow{72, 15}},
+		{"72.5 °C 14 s", 72.5, 14, false, LegalRow{72, 15}},
+		{"71.9 °C 20 s", 71.9, 20, false, LegalRow{63, 1800}},
+		{"89.5 °C 1.2 s", 89.5, 1.2, true, LegalRow{89, 1}},
+		// Never interpolate: at 80 °C a log-linear line through 72/15 and 89/1 (z = 14.45 °C)
+		// would ask 15·10^(−8/14.45) = 4.19 s, and 5 s would pass; the table applies 72 °C/15 s.
+		{"80 °C 5 s", 80, 5, false, LegalRow{72, 15}},
+	}
+	for _, tc := range tests {
+		v := JudgeLegal(pmo, tc.setpoint, tc.tmin)
+		if v.Met != tc.met || v.Row != tc.row {
+			t.Errorf("%s: met %v row %+v, want %v %+v", tc.name, v.Met, v.Row, tc.met, tc.row)
+		}
+	}
+	v := JudgeLegal(pmo, 72.5, 16.5)
+	if !near(v.Margin, 1.5, 1e-12) || !near(v.MarginPct, 10, 1e-12) {
+		t.Errorf("margin %g s %g %%", v.Margin, v.MarginPct)
+	}
+	if v := JudgeLegal(pmo, 60, 9999); v.Met || v.RowIndex != -1 {
+		t.Errorf("below every row: %+v", v)
+	}
+	// The z-values the rows imply differ, which is why they are not one line:
+	// (72 − 63)/log10(1800/15) = 4.33 °C, (89 − 72)/log10(15/1) = 14.45 °C (DOMAIN.md §2).
+	if z1, z2 := 9/math.Log10(120), 17/math.Log10(15); !near(z1, 4.33, 0.001) || !near(z2, 14.45, 0.001) {
+		t.Errorf("implied z %g %g", z1, z2)
+	}
+}
+
+func TestMaxFlowAndRequiredLength(t *testing.T) {
+	// Laminar Newtonian throughout: t_min = V/(2Q), so Q_max = V/(2t) (hand-worked).
+	tube := Tube{InnerDiameter: 0.0475, Length: 20}
+	nw := Newtonian{Viscosity: 0.5} // very viscous: laminar at any flow here
+	q := tube.MaxFlowFor(15, 1015, nw, 0, 0.01)
+	if want := tube.Volume() / 30; !near(q, want, 1e-9) {
+		t.Errorf("max flow %.12g, want %.12g", q, want)
+	}
+	h := tube.Hydraulics(Flow{Volumetric: 11.0 / 3600, Density: 1015}, nw, 0)
+	if want := 15 * 2 * h.MeanVelocity; !near(h.RequiredLength(15), want, 1e-12) {
+		t.Errorf("required length %g", h.RequiredLength(15))
+	}
+}
