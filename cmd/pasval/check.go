@@ -192,6 +192,10 @@ func checkValue(v float64, unit string, d display) string {
 		return d.with(v, units.Length, 2)
 	case "Pa":
 		return d.with(v, units.Pressure, 1)
+	case "slope":
+		return slope(v, d)
+	case "log":
+		return fmt.Sprintf("%.2f log", v)
 	case "":
 		return fmt.Sprintf("%.3g", v)
 	}
@@ -208,6 +212,12 @@ func checkMargin(c assess.Check, d display) string {
 		return signed(d.num(c.Margin, units.Length, 2)) + " " + d.unit(units.Length)
 	case "%":
 		return signed(fmt.Sprintf("%.1f", c.Margin)) + " %"
+	case "slope":
+		return signed(slope(c.Margin, d))
+	case "log":
+		return signed(fmt.Sprintf("%.2f", c.Margin)) + " log"
+	case "s":
+		return signed(fmt.Sprintf("%.2f", c.Margin)) + " s"
 	}
 	return signed(fmt.Sprintf("%.3g", c.Margin)) + " " + c.MarginUnit
 }
@@ -243,4 +253,12 @@ func writeChecks(w io.Writer, res *assess.Result, d display) {
 	} else {
 		fmt.Fprintf(w, "\nResult: FAIL, %d of %d checks fail\n", failed, len(res.Checks))
 	}
+}
+
+// slope prints rise/length as cm/m (SI) or in/ft (US).
+func slope(v float64, d display) string {
+	if d.sys == units.US {
+		return fmt.Sprintf("%.3f in/ft", v*12)
+	}
+	return fmt.Sprintf("%.2f cm/m", v*100)
 }

@@ -95,6 +95,8 @@ type Result struct {
 	Product           ProductProps `json:"product"`
 	Sections          []Section    `json:"sections"`
 	RegenerationRatio *float64     `json:"regeneration_ratio"`
+	HoldingTube       *HoldingTube `json:"holding_tube,omitempty"`
+	Lethality         []Lethality  `json:"lethality"`
 	Checks            []Check      `json:"checks"`
 	Warnings          []string     `json:"warnings"`
 	Pass              bool         `json:"pass"`
@@ -108,12 +110,19 @@ type Result struct {
 // work (a temperature cross, an impossible duty).
 func Run(p *plantfile.Plant) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
-		Checks: []Check{}, Warnings: []string{}, Sections: []Section{}, Caution: Caution}
+		Checks: []Check{}, Warnings: []string{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
 	res.Product = productProps(p)
+	heatingOutlet := p.Process.HoldSetpoint.SI
+	if p.HoldingTube != nil {
+		heatingOutlet = runHolding(p, res)
+	}
 	if p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0 {
-		if err := runLine(p, res); err != nil {
+		if err := runLine(p, res, heatingOutlet); err != nil {
 			return nil, err
 		}
+	}
+	if p.Regeneration != nil && p.Regeneration.Pressure != nil {
+		regeneratorPressure(p, res)
 	}
 	res.Pass = true
 	for _, c := range res.Checks {
@@ -179,12 +188,12 @@ func mediumSpec(m plantfile.MediumSide) regen.MediumSpec {
 	return spec
 }
 
-func runLine(p *plantfile.Plant, res *Result) error {
+func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 	in := regen.LineInput{
 		ProductCapacity: res.Product.ProductCapacity,
 		RawInlet:        p.Process.RawInlet.SI,
 		Setpoint:        p.Process.HoldSetpoint.SI,
-		HeatingOutlet:   p.Process.HoldSetpoint.SI,
+		HeatingOutlet:   heatingOutlet,
 		OutletTarget:    p.Process.OutletTarget.SI,
 	}
 	if r := p.Regeneration; r != nil {

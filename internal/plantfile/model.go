@@ -87,6 +87,10 @@ type Plant struct {
 	Regeneration *Regeneration
 	Heating      *Heating
 	Cooling      []CoolingStage
+
+	HoldingTube   *HoldingTube
+	Organisms     []Organism
+	LegalMinimums []LegalRow
 }
 
 // RecordField is a free-text line for reports (site, line, product, …).
@@ -153,7 +157,9 @@ type Process struct {
 	RawInlet     Quantity // °C
 	HoldSetpoint Quantity // °C: diversion setpoint at the holding-tube outlet
 	OutletTarget Quantity // °C, optional unless cooling is described
-	Pos          Pos
+	// SensorAccuracy is the diversion sensor's stated accuracy (a difference, K), optional.
+	SensorAccuracy Quantity
+	Pos            Pos
 }
 
 // Arrangement is "counterflow" or "cocurrent".
@@ -180,6 +186,7 @@ type Regeneration struct {
 	Ratio    float64 // sizing mode; 0 when rating
 	RatioSet bool
 	RatioPos Pos
+	Pressure *Pressure
 	Pos      Pos
 }
 
@@ -211,4 +218,46 @@ type CoolingStage struct {
 	Name       string
 	ProductOut Quantity // °C; sizing: required for all but the last stage
 	Pos        Pos
+}
+
+// HoldingTube is the holding tube's description.
+type HoldingTube struct {
+	InnerDiameter    Quantity // m (or from SanitaryTube)
+	SanitaryTube     Quantity // nominal size, m; OD = nominal
+	OuterDiameter    Quantity // m, optional (needed for heat loss unless SanitaryTube is given)
+	Length           Quantity // m
+	Rise             Quantity // m, optional: outlet height above inlet
+	MinSlope         float64  // rise/length; 0 when not given (the default applies)
+	MinSlopeSet      bool
+	FastestToMean    float64 // override of u_max/u_mean; 0 when not given
+	Ambient          Quantity
+	OuterCoefficient Quantity // W/(m²·K) on the outer surface
+	PU               bool     // report brewing pasteurization units
+	Pos              Pos
+}
+
+// Organism is a target organism with its kinetics.
+type Organism struct {
+	Name                 string
+	D                    Quantity // s
+	DTemperature         Quantity // °C
+	Z                    Quantity // K
+	RequiredLogReduction float64
+	RequiredSet          bool
+	Pos                  Pos
+}
+
+// LegalRow is one user-entered time–temperature minimum.
+type LegalRow struct {
+	Temperature Quantity
+	Time        Quantity
+	Pos         Pos
+}
+
+// Pressure is the regenerator pressure check's inputs.
+type Pressure struct {
+	RawMax         Quantity // Pa
+	PasteurizedMin Quantity // Pa
+	RequiredMargin Quantity // Pa; defaults to 1 psi
+	Pos            Pos
 }

@@ -22,7 +22,8 @@ import (
 const MaxFileSize = 1 << 20
 
 // Top-level keys, in the order the documentation gives them.
-var topKeys = []string{"record", "product", "flow", "process", "regeneration", "heating", "cooling"}
+var topKeys = []string{"record", "product", "flow", "process", "regeneration", "heating", "cooling",
+	"holding_tube", "organisms", "legal_minimums"}
 
 var recordKeys = []string{"site", "line", "product", "schedule", "prepared_by", "notes"}
 
@@ -249,6 +250,7 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 			}
 		}
 	}
+	defer d.decodeHolding(p, top)
 	if prod := top.sub("product", true, "name", "density", "specific_heat", "conductivity", "composition", "viscosity", "power_law"); prod != nil {
 		d.decodeProduct(&p.Product, prod)
 	}
@@ -260,16 +262,24 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 			d.errorf(fl.node, "flow", "give rate, max_rate or both, e.g. rate: 10000 L/h")
 		}
 	}
-	if pr := top.sub("process", true, "raw_inlet", "hold_setpoint", "outlet_target"); pr != nil {
+	if pr := top.sub("process", true, "raw_inlet", "hold_setpoint", "outlet_target", "sensor_accuracy"); pr != nil {
+		p.Process.SensorAccuracy = pr.quantity("sensor_accuracy", units.TemperatureDifference, false)
 		p.Process.Pos = d.pos(pr.node)
 		p.Process.RawInlet = pr.quantity("raw_inlet", units.Temperature, true)
 		p.Process.HoldSetpoint = pr.quantity("hold_setpoint", units.Temperature, true)
 		p.Process.OutletTarget = pr.quantity("outlet_target", units.Temperature, false)
 	}
-	if rg := top.sub("regeneration", false, "arrangement", "ratio", "plates", "plate_area", "u_value", "fouling"); rg != nil {
+	if rg := top.sub("regeneration", false, "arrangement", "ratio", "plates", "plate_area", "u_value", "fouling", "pressure"); rg != nil {
 		r := &Regeneration{Pos: d.pos(rg.node)}
 		r.Plates = d.decodePlates(rg)
 		r.Ratio, r.RatioPos, r.RatioSet = rg.number("ratio", false)
+		if pr := rg.sub("pressure", false, "raw_max", "pasteurized_min", "required_margin"); pr != nil {
+			r.Pressure = &Pressure{Pos: d.pos(pr.node),
+				RawMax:         pr.quantity("raw_max", units.Pressure, true),
+				PasteurizedMin: pr.quantity("pasteurized_min", units.Pressure, true),
+				RequiredMargin: pr.quantity("required_margin", units.Pressure, false),
+			}
+		}
 		p.Regeneration = r
 	}
 	mediumKeys := []string{"arrangement", "plates", "plate_area", "u_value", "fouling", "medium", "medium_inlet", "medium_rate"}
@@ -289,6 +299,56 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 		}
 		c.ProductOut = st.quantity("product_out", units.Temperature, false)
 		p.Cooling = append(p.Cooling, c)
+	}
+}
+
+func (d *decoder) decodeHolding(p *Plant, top *object) {
+	if ht := top.sub("holding_tube", false, "inner_diameter", "sanitary_tube", "outer_diameter", "length", "rise",
+		"min_slope", "fastest_to_mean", "ambient", "outer_coefficient", "pu"); ht != nil {
+		h := &HoldingTube{Pos: d.pos(ht.node)}
+		h.InnerDiameter = ht.quantity("inner_diameter", units.Length, false)
+		h.SanitaryTube = ht.quantity("sanitary_tube", units.Length, false)
+		h.OuterDiameter = ht.quantity("outer_diameter", units.Length, false)
+		h.Length = ht.quantity("length", units.Length, true)
+		h.Rise = ht.quantity("rise", units.Length, false)
+		h.MinSlope, _, h.MinSlopeSet = ht.number("min_slope", false)
+		h.FastestToMean, _, _ = ht.number("fastest_to_mean", false)
+		h.Ambient = ht.quantity("ambient", units.Temperature, false)
+		h.OuterCoefficient = ht.quantity("outer_coefficient", units.HeatTransferCoefficient, false)
+		if s, n, ok := ht.scalar("pu", false, "true or false"); ok {
+			switch s {
+			case "true":
+				h.PU = true
+			case "false":
+			default:
+				d.errorf(n, "holding_tube.pu", "expected true or false, found %q", s)
+			}
+		}
+		p.HoldingTube = h
+	}
+	for i, n := range top.list("organisms") {
+		path := fmt.Sprintf("organisms[%d]", i)
+		o := d.object(n, path, "name", "D", "D_temperature", "z", "required_log_reduction")
+		if o == nil {
+			continue
+		}
+		org := Organism{Pos: d.pos(n), Name: o.text("name", true),
+			D:            o.quantity("D", units.Time, true),
+			DTemperature: o.quantity("D_temperature", units.Temperature, true),
+			Z:            o.quantity("z", units.TemperatureDifference, true),
+		}
+		org.RequiredLogReduction, _, org.RequiredSet = o.number("required_log_reduction", false)
+		p.Organisms = append(p.Organisms, org)
+	}
+	for i, n := range top.list("legal_minimums") {
+		path := fmt.Sprintf("legal_minimums[%d]", i)
+		o := d.object(n, path, "temperature", "time")
+		if o == nil {
+			continue
+		}
+		p.LegalMinimums = append(p.LegalMinimums, LegalRow{Pos: d.pos(n),
+			Temperature: o.quantity("temperature", units.Temperature, true),
+			Time:        o.quantity("time", units.Time, true)})
 	}
 }
 

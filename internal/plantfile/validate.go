@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"pasval/internal/props"
+	"pasval/lethality"
 )
 
 // Validate checks the rules that span fields, before any computation: that
@@ -37,6 +38,7 @@ func Validate(p *Plant) error {
 	if (p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0) && !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
 		v.add(Pos{File: p.File, Line: 1, Column: 1}, "flow.rate", "missing; the heat-exchange sections need the product rate, e.g. flow: {rate: 10000 L/h}")
 	}
+	v.holding(p)
 	if len(v.errs) == 0 {
 		return nil
 	}
@@ -195,5 +197,80 @@ func (v *validator) cooling(p *Plant, i int) {
 		!(c.MediumInlet.SI < p.Process.OutletTarget.SI) {
 		v.add(c.MediumInlet.Pos, section+".medium_inlet",
 			"temperature cross: the medium enters at %s, not below the outlet target %s the last stage must reach", c.MediumInlet.Text, p.Process.OutletTarget.Text)
+	}
+}
+
+func (v *validator) holding(p *Plant) {
+	if r := p.Regeneration; r != nil && r.Pressure != nil {
+		pr := r.Pressure
+		if pr.RequiredMargin.Set && pr.RequiredMargin.SI < 0 {
+			v.add(pr.RequiredMargin.Pos, "regeneration.pressure.required_margin", "cannot be negative, found %s", pr.RequiredMargin.Text)
+		}
+	}
+	if a := p.Process.SensorAccuracy; a.Set && !(a.SI >= 0 && a.SI <= 5) {
+		v.add(a.Pos, "process.sensor_accuracy", "expected a temperature difference from 0 to 5 K, found %s", a.Text)
+	}
+	for i, o := range p.Organisms {
+		f := fmt.Sprintf("organisms[%d]", i)
+		v.positive(o.D, f+".D")
+		v.positive(o.Z, f+".z")
+		if o.RequiredSet && !(o.RequiredLogReduction >= 0 && o.RequiredLogReduction <= 100) {
+			v.add(o.Pos, f+".required_log_reduction", "expected a number of log reductions from 0 to 100, found %g", o.RequiredLogReduction)
+		}
+	}
+	for i, r := range p.LegalMinimums {
+		v.positive(r.Time, fmt.Sprintf("legal_minimums[%d].time", i))
+	}
+	h := p.HoldingTube
+	if h == nil {
+		if len(p.Organisms) > 0 || len(p.LegalMinimums) > 0 {
+			v.add(Pos{File: p.File, Line: 1, Column: 1}, "holding_tube", "missing; organisms and legal_minimums are judged in the holding tube, so describe it")
+		}
+		return
+	}
+	switch {
+	case h.InnerDiameter.Set && h.SanitaryTube.Set:
+		v.add(h.SanitaryTube.Pos, "holding_tube.sanitary_tube", "give inner_diameter or sanitary_tube, not both")
+	case !h.InnerDiameter.Set && !h.SanitaryTube.Set:
+		v.add(h.Pos, "holding_tube.inner_diameter", "missing; give inner_diameter (e.g. 47.5 mm) or sanitary_tube (e.g. 2 in)")
+	case h.SanitaryTube.Set:
+		if _, ok := lethality.LookupSanitaryTube(h.SanitaryTube.SI); !ok {
+			v.add(h.SanitaryTube.Pos, "holding_tube.sanitary_tube", "%s is not a listed sanitary size; listed: 1.5, 2, 2.5, 3, 4 and 6 in (or give inner_diameter)", h.SanitaryTube.Text)
+		}
+	}
+	v.positive(h.InnerDiameter, "holding_tube.inner_diameter")
+	v.positive(h.Length, "holding_tube.length")
+	v.positive(h.OuterDiameter, "holding_tube.outer_diameter")
+	if h.OuterDiameter.Set && h.InnerDiameter.Set && !(h.OuterDiameter.SI > h.InnerDiameter.SI) {
+		v.add(h.OuterDiameter.Pos, "holding_tube.outer_diameter", "%s is not larger than the inner diameter %s", h.OuterDiameter.Text, h.InnerDiameter.Text)
+	}
+	if h.Rise.Set && h.Length.Set && h.Length.SI > 0 && h.Rise.SI > h.Length.SI {
+		v.add(h.Rise.Pos, "holding_tube.rise", "the rise %s is more than the tube length %s", h.Rise.Text, h.Length.Text)
+	}
+	if h.MinSlopeSet && !(h.MinSlope > 0 && h.MinSlope < 1) {
+		v.add(h.Pos, "holding_tube.min_slope", "expected a slope between 0 and 1, e.g. 0.021 or 2.1 cm/m, found %g", h.MinSlope)
+	}
+	if h.FastestToMean != 0 && !(h.FastestToMean >= 1 && h.FastestToMean <= 3) {
+		v.add(h.Pos, "holding_tube.fastest_to_mean", "expected a ratio from 1 to 3 (2 for laminar flow), found %g", h.FastestToMean)
+	}
+	if h.Ambient.Set != h.OuterCoefficient.Set {
+		v.add(h.Pos, "holding_tube.ambient", "heat loss needs both ambient and outer_coefficient")
+	}
+	if h.OuterCoefficient.Set {
+		if h.OuterCoefficient.SI < 0 {
+			v.add(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "cannot be negative, found %s", h.OuterCoefficient.Text)
+		}
+		if !h.OuterDiameter.Set && !h.SanitaryTube.Set {
+			v.add(h.OuterCoefficient.Pos, "holding_tube.outer_diameter", "missing; heat loss needs the outer diameter (or sanitary_tube)")
+		}
+		if h.Ambient.Set && p.Process.HoldSetpoint.Set && h.Ambient.SI >= p.Process.HoldSetpoint.SI {
+			v.add(h.Ambient.Pos, "holding_tube.ambient", "the ambient %s is not below the setpoint %s; the tube would gain heat", h.Ambient.Text, p.Process.HoldSetpoint.Text)
+		}
+	}
+	if len(p.Product.Viscosity) == 0 && p.Product.PowerLaw == nil && p.Product.Name != "" {
+		v.add(p.Product.Pos, "product.viscosity", "missing; the holding tube's flow regime needs viscosity points or power_law")
+	}
+	if !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
+		v.add(h.Pos, "flow.max_rate", "missing; the holding time is judged at the sealed maximum flow")
 	}
 }

@@ -70,6 +70,11 @@ def milk_si():
     rho, cp = 1031.0, 3930.0
     c = 10000e-3 / 3600 * rho * cp
     raw, sp, target = 5.0, 72.5, 4.0
+    # Holding-tube heat loss (DOMAIN.md section 2): the heater must deliver the tube
+    # inlet at the normal rate, T_in = Ta + (T_set - Ta) exp(h pi Do L / (m cp)),
+    # with h = 12 W/(m2 K), Do = 2 in, L = 34 m, Ta = 20 degC.
+    m = 10000e-3 / 3600 * rho
+    heat_out = 20 + (sp - 20) * math.exp(12 * math.pi * 2 * 0.0254 * 34 / (m * cp))
     out = {}
     r = 0.92
     rawout, pastout = raw + r * (sp - raw), sp - r * (sp - raw)
@@ -77,9 +82,9 @@ def milk_si():
     s = section(q, sp, pastout, raw, rawout, c, c, 3300, 0.35)
     s["ntu"] = 3300 * s["area_m2"] / c
     out["regeneration"] = s
-    q = c * (sp - rawout)
+    q = c * (heat_out - rawout)
     mo, cm = medium_out(20000e-3 / 3600, 77.0, q)
-    s = section(q, 77.0, mo, rawout, sp, cm, c, 3800, 0.35)
+    s = section(q, 77.0, mo, rawout, heat_out, cm, c, 3800, 0.35)
     s["ntu"] = 3800 * s["area_m2"] / min(c, cm)
     out["heating"] = s
     q = c * (pastout - target)
