@@ -194,7 +194,7 @@ func JudgeLegal(rows []LegalRow, setpoint, minResidence float64) LegalVerdict {
 
 // MaxFlowFor is the largest volumetric flow (m³/s) up to which every flow
 // gives the fastest particle at least time seconds in the tube. Flow is
-// scanned upward on a log scale from 1/1000 of hi, then bisected; the scan
+// scanned upward on a log scale from hi/10⁶, then bisected; the scan
 // matters because the fastest-to-mean ratio drops at the turbulent limit,
 // which can make a faster flow hold longer than a slower one. density is at
 // the holding temperature. It returns hi when every flow up to hi meets it.
@@ -202,14 +202,14 @@ func (t Tube) MaxFlowFor(time float64, density float64, r Rheology, override, hi
 	meets := func(q float64) bool {
 		return t.Hydraulics(Flow{Volumetric: q, Density: density}, r, override).MinResidence >= time
 	}
-	const steps = 400
-	lo := hi / 1000
+	const steps, decades = 600, 6.0
+	lo := hi / math.Pow(10, decades)
 	if !meets(lo) {
 		return 0
 	}
 	prev := lo
 	for i := 1; i <= steps; i++ {
-		q := lo * math.Pow(1000, float64(i)/steps)
+		q := lo * math.Pow(10, decades*float64(i)/steps)
 		if !meets(q) {
 			a, b := prev, q
 			for range 100 {

@@ -115,11 +115,14 @@ func writeCheck(w io.Writer, res *assess.Result, d display) {
 	if len(res.Sections) > 0 {
 		writeSections(w, res, d)
 	}
+	if res.HoldingTube != nil {
+		writeHolding(w, res, d)
+	}
 	writeChecks(w, res, d)
 	if len(res.Warnings) > 0 {
 		fmt.Fprintln(w, "\nWarnings")
 		for _, m := range res.Warnings {
-			fmt.Fprintf(w, "  ! %s\n", m)
+			fmt.Fprint(w, wrap(m, "  !", 88))
 		}
 	}
 	fmt.Fprint(w, "\n"+wrap(res.Caution, "Caution:", 88))

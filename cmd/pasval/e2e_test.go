@@ -56,16 +56,16 @@ func runBinary(t *testing.T, args ...string) (string, string, int) {
 type jsonResult struct {
 	InputSHA256 string `json:"input_sha256"`
 	Sections    []struct {
-		Name, Stage, Mode                            string
-		DutyKW                                       float64 `json:"duty_kW"`
-		LMTDK                                        float64 `json:"lmtd_K"`
-		NTU, Effectiveness                           float64
-		AreaM2                                       float64 `json:"area_m2"`
-		Plates                                       int
-		ProductIn                                    float64 `json:"product_in_C"`
-		ProductOut                                   float64 `json:"product_out_C"`
-		OtherIn                                      float64 `json:"other_in_C"`
-		OtherOut                                     float64 `json:"other_out_C"`
+		Name, Stage, Mode  string
+		DutyKW             float64 `json:"duty_kW"`
+		LMTDK              float64 `json:"lmtd_K"`
+		NTU, Effectiveness float64
+		AreaM2             float64 `json:"area_m2"`
+		Plates             int
+		ProductIn          float64 `json:"product_in_C"`
+		ProductOut         float64 `json:"product_out_C"`
+		OtherIn            float64 `json:"other_in_C"`
+		OtherOut           float64 `json:"other_out_C"`
 	} `json:"sections"`
 	RegenerationRatio *float64 `json:"regeneration_ratio"`
 	Checks            []struct {
@@ -286,5 +286,12 @@ func BenchmarkCheckDemo(b *testing.B) {
 		if code := run([]string{"check", path}, &out, &out); code != 0 {
 			b.Fatal(out.String())
 		}
+	}
+}
+
+func writeFile(t *testing.T, path, content string) {
+	t.Helper()
+	if err := os.WriteFile(path, []byte(content), 0o644); err != nil {
+		t.Fatal(err)
 	}
 }

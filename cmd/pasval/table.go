@@ -119,3 +119,22 @@ func wrap(text, prefix string, width int) string {
 	b.WriteString(line + "\n")
 	return b.String()
 }
+
+// writeBare prints the rows without a header line (key–value blocks).
+func (t *table) writeBare(w io.Writer) {
+	width := 0
+	for _, r := range t.rows {
+		width = max(width, utf8.RuneCountInString(r[0]))
+	}
+	for _, r := range t.rows {
+		fmt.Fprintf(w, "  %s%s  %s\n", r[0], strings.Repeat(" ", width-utf8.RuneCountInString(r[0])), r[1])
+	}
+}
+
+// small prints a short length: mm in SI, inches in US units.
+func (d display) small(m float64) string {
+	if d.sys == units.US {
+		return fmt.Sprintf("%.3f in", units.FromSI(m, units.Length, "in"))
+	}
+	return fmt.Sprintf("%.1f mm", m*1e3)
+}

@@ -27,6 +27,7 @@ type RowOut struct {
 	Applies         bool    `json:"applies"` // row temperature ≤ setpoint
 	RequiredLengthM float64 `json:"required_length_m"`
 	MaxFlowM3s      float64 `json:"max_flow_m3_s"` // largest flow up to which every flow meets the row
+	MaxFlowCapped   bool    `json:"max_flow_capped"` // the search stopped at 20× the sealed maximum: at least this
 }
 
 // HoldingTube is the holding tube in the JSON contract.
@@ -194,9 +195,10 @@ func runHolding(p *plantfile.Plant, res *Result) float64 {
 		}
 		v := lethality.JudgeLegal(rows, setpoint, hyd.MinResidence)
 		for _, r := range rows {
+			cap := 20 * flow.Volumetric
+			q := tube.MaxFlowFor(r.Time, rho, rheo, h.FastestToMean, cap)
 			out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= setpoint+1e-9,
-				RequiredLengthM: hyd.RequiredLength(r.Time),
-				MaxFlowM3s:      tube.MaxFlowFor(r.Time, rho, rheo, h.FastestToMean, 20*flow.Volumetric)})
+				RequiredLengthM: hyd.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= cap})
 		}
 		c := Check{ID: "holding-time", Unit: "s", MarginUnit: "s", Limit: "min", Actual: hyd.MinResidence}
 		if v.RowIndex < 0 {

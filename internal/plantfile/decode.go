@@ -72,8 +72,8 @@ func (d *decoder) object(n *yaml.Node, path string, allowed ...string) *object {
 		name := k.Value
 		if !contains(allowed, name) {
 			hint := didYouMean(name, allowed)
-			if s := closest(name, allowed); hint != "" {
-				o.suggested[s] = true
+			if hint != "" {
+				o.suggested[suggestion(name, allowed)] = true
 			}
 			d.errorf(k, join(path, name), "unknown key %q%s; allowed here: %s", name, hint, strings.Join(allowed, ", "))
 			continue
@@ -264,33 +264,36 @@ func (o *object) list(key string) []*yaml.Node {
 	return v.Content
 }
 
-// closest is the allowed word nearest to name by edit distance.
-func closest(name string, allowed []string) string {
-	best, _ := closestWithDistance(name, allowed)
-	return best
-}
-
 func closestWithDistance(name string, allowed []string) (string, int) {
 	best, bestD := "", math.MaxInt
 	for _, a := range allowed {
-		if d := editDistance(strings.ToLower(name), a); d < bestD {
+		if d := editDistance(strings.ToLower(name), strings.ToLower(a)); d < bestD {
 			best, bestD = a, d
 		}
 	}
 	return best, bestD
 }
 
-// didYouMean suggests the closest allowed word when it is near enough.
-func didYouMean(name string, allowed []string) string {
-	best, d := closestWithDistance(name, allowed)
+// suggestion is the allowed word a misspelt name most likely meant, or "":
+// a word that starts with it (at least four letters), else the nearest by
+// edit distance when that is at most 2 or a third of the name's length.
+func suggestion(name string, allowed []string) string {
 	for _, a := range allowed {
-		if len(name) >= 4 && strings.HasPrefix(a, strings.ToLower(name)) {
-			best, d = a, 0
-			break
+		if len(name) >= 4 && strings.HasPrefix(strings.ToLower(a), strings.ToLower(name)) {
+			return a
 		}
 	}
+	best, d := closestWithDistance(name, allowed)
 	if best != "" && (d <= 2 || d <= len(name)/3) {
-		return fmt.Sprintf(" (did you mean %q?)", best)
+		return best
+	}
+	return ""
+}
+
+// didYouMean is the " (did you mean …?)" hint, or "".
+func didYouMean(name string, allowed []string) string {
+	if s := suggestion(name, allowed); s != "" {
+		return fmt.Sprintf(" (did you mean %q?)", s)
 	}
 	return ""
 }
