@@ -10,6 +10,7 @@ import (
 
 	"pasval/internal/assess"
 	"pasval/internal/plantfile"
+	"pasval/internal/present"
 	"pasval/internal/units"
 )
 
@@ -78,7 +79,7 @@ func runCheck(opts checkOptions, out io.Writer) error {
 			return err
 		}
 	} else {
-		writeCheck(out, res, display{sys})
+		writeCheck(out, res, present.Display{Sys: sys})
 	}
 	if !res.Pass {
 		return errChecksFailed
@@ -86,7 +87,7 @@ func runCheck(opts checkOptions, out io.Writer) error {
 	return nil
 }
 
-func writeCheck(w io.Writer, res *assess.Result, d display) {
+func writeCheck(w io.Writer, res *assess.Result, d present.Display) {
 	p := res.Plant
 	fmt.Fprintf(w, "pasval %s · check of %s\n", res.Version, p.File)
 	var ids []string
@@ -102,13 +103,13 @@ func writeCheck(w io.Writer, res *assess.Result, d display) {
 
 	pp := res.Product
 	fmt.Fprintf(w, "Product  %s: density %s, specific heat %s%s\n", p.Product.Name,
-		d.with(pp.Density, units.Density, 1), d.with(pp.SpecificHeat, units.SpecificHeat, 3), map[bool]string{true: " (from composition)"}[pp.FromComposition])
+		d.With(pp.Density, units.Density, 1), d.With(pp.SpecificHeat, units.SpecificHeat, 3), map[bool]string{true: " (from composition)"}[pp.FromComposition])
 	fmt.Fprintf(w, "Flow     %s normal, %s sealed maximum\n",
-		d.with(pp.MassFlow/pp.Density, units.VolumeFlow, 0), d.with(pp.MaxMassFlow/pp.Density, units.VolumeFlow, 0))
+		d.With(pp.MassFlow/pp.Density, units.VolumeFlow, 0), d.With(pp.MaxMassFlow/pp.Density, units.VolumeFlow, 0))
 	pr := p.Process
-	fmt.Fprintf(w, "Process  raw %s → hold setpoint %s", d.with(pr.RawInlet.SI, units.Temperature, 1), d.with(pr.HoldSetpoint.SI, units.Temperature, 1))
+	fmt.Fprintf(w, "Process  raw %s → hold setpoint %s", d.With(pr.RawInlet.SI, units.Temperature, 1), d.With(pr.HoldSetpoint.SI, units.Temperature, 1))
 	if pr.OutletTarget.Set {
-		fmt.Fprintf(w, " → outlet target %s", d.with(pr.OutletTarget.SI, units.Temperature, 1))
+		fmt.Fprintf(w, " → outlet target %s", d.With(pr.OutletTarget.SI, units.Temperature, 1))
 	}
 	fmt.Fprintln(w)
 
@@ -128,23 +129,23 @@ func writeCheck(w io.Writer, res *assess.Result, d display) {
 	fmt.Fprint(w, "\n"+wrap(res.Caution, "Caution:", 88))
 }
 
-func writeSections(w io.Writer, res *assess.Result, d display) {
-	area := d.unit(units.Area)
+func writeSections(w io.Writer, res *assess.Result, d present.Display) {
+	area := d.Unit(units.Area)
 	duty := "kW"
-	if d.sys == units.US {
+	if d.Sys == units.US {
 		duty = "Btu/h"
 	}
 	fmt.Fprintf(w, "\nHeat-exchange sections (normal rate)\n")
-	t := newTable("section", "mode", "arrangement", ">duty "+duty, ">LMTD "+d.unit(units.TemperatureDifference),
+	t := newTable("section", "mode", "arrangement", ">duty "+duty, ">LMTD "+d.Unit(units.TemperatureDifference),
 		">NTU", ">ε", ">required "+area, ">installed "+area, ">plates")
 	for _, s := range res.Sections {
-		t.add(sectionLabel(s), s.Mode, s.Arrangement, d.power(s.DutyKW*1e3), d.num(s.LMTDK, units.TemperatureDifference, 2),
+		t.add(sectionLabel(s), s.Mode, s.Arrangement, d.Power(s.DutyKW*1e3), d.Num(s.LMTDK, units.TemperatureDifference, 2),
 			fmt.Sprintf("%.2f", s.NTU), fmt.Sprintf("%.3f", s.Effectiveness),
-			d.num(s.RequiredAreaM2, units.Area, 2), d.num(s.InstalledAreaM2, units.Area, 2), fmt.Sprintf("%d", s.Plates))
+			d.Num(s.RequiredAreaM2, units.Area, 2), d.Num(s.InstalledAreaM2, units.Area, 2), fmt.Sprintf("%d", s.Plates))
 	}
 	t.write(w)
 
-	tu := d.unit(units.Temperature)
+	tu := d.Unit(units.Temperature)
 	fmt.Fprintf(w, "\nTemperatures (%s)\n", tu)
 	t = newTable("section", ">product in", ">product out", ">other in", ">other out", "other stream")
 	for _, s := range res.Sections {
@@ -152,12 +153,12 @@ func writeSections(w io.Writer, res *assess.Result, d display) {
 		if s.Name != "regeneration" {
 			other = mediumName(res.Plant, s)
 		}
-		otherIn := d.num(s.OtherInC, units.Temperature, 2)
+		otherIn := d.Num(s.OtherInC, units.Temperature, 2)
 		if s.MediumAvailableC != nil {
-			other += fmt.Sprintf(" (in: required; %s available)", d.with(*s.MediumAvailableC, units.Temperature, 2))
+			other += fmt.Sprintf(" (in: required; %s available)", d.With(*s.MediumAvailableC, units.Temperature, 2))
 		}
-		t.add(sectionLabel(s), d.num(s.ProductInC, units.Temperature, 2), d.num(s.ProductOutC, units.Temperature, 2),
-			otherIn, d.num(s.OtherOutC, units.Temperature, 2), other)
+		t.add(sectionLabel(s), d.Num(s.ProductInC, units.Temperature, 2), d.Num(s.ProductOutC, units.Temperature, 2),
+			otherIn, d.Num(s.OtherOutC, units.Temperature, 2), other)
 	}
 	t.write(w)
 	if res.RegenerationRatio != nil {
@@ -184,48 +185,7 @@ func mediumName(p *plantfile.Plant, s assess.Section) string {
 	return ""
 }
 
-// checkValue formats a check's required or actual value in display units.
-func checkValue(v float64, unit string, d display) string {
-	switch unit {
-	case "°C":
-		return d.with(v, units.Temperature, 2)
-	case "s":
-		return fmt.Sprintf("%.2f s", v)
-	case "m":
-		return d.with(v, units.Length, 2)
-	case "Pa":
-		return d.with(v, units.Pressure, 1)
-	case "slope":
-		return slope(v, d)
-	case "log":
-		return fmt.Sprintf("%.2f log", v)
-	case "":
-		return fmt.Sprintf("%.3g", v)
-	}
-	return fmt.Sprintf("%.4g %s", v, unit)
-}
-
-func checkMargin(c assess.Check, d display) string {
-	switch c.MarginUnit {
-	case "K":
-		return signed(d.num(c.Margin, units.TemperatureDifference, 2)) + " " + d.unit(units.TemperatureDifference)
-	case "Pa":
-		return signed(d.num(c.Margin, units.Pressure, 1)) + " " + d.unit(units.Pressure)
-	case "m":
-		return signed(d.num(c.Margin, units.Length, 2)) + " " + d.unit(units.Length)
-	case "%":
-		return signed(fmt.Sprintf("%.1f", c.Margin)) + " %"
-	case "slope":
-		return signed(slope(c.Margin, d))
-	case "log":
-		return signed(fmt.Sprintf("%.2f", c.Margin)) + " log"
-	case "s":
-		return signed(fmt.Sprintf("%.2f", c.Margin)) + " s"
-	}
-	return signed(fmt.Sprintf("%.3g", c.Margin)) + " " + c.MarginUnit
-}
-
-func writeChecks(w io.Writer, res *assess.Result, d display) {
+func writeChecks(w io.Writer, res *assess.Result, d present.Display) {
 	fmt.Fprintln(w, "\nChecks")
 	if len(res.Checks) == 0 {
 		fmt.Fprintln(w, "  none apply: every section is in sizing mode and no holding tube or kinetics are described")
@@ -248,7 +208,7 @@ func writeChecks(w io.Writer, res *assess.Result, d display) {
 		if c.Organism != "" {
 			id += " (" + c.Organism + ")"
 		}
-		t.add(id, verdict, op+checkValue(c.Required, c.Unit, d), checkValue(c.Actual, c.Unit, d), checkMargin(c, d), c.Note)
+		t.add(id, verdict, op+present.CheckValue(c.Required, c.Unit, d), present.CheckValue(c.Actual, c.Unit, d), present.CheckMargin(c, d), c.Note)
 	}
 	t.write(w)
 	if failed == 0 {
@@ -256,12 +216,4 @@ func writeChecks(w io.Writer, res *assess.Result, d display) {
 	} else {
 		fmt.Fprintf(w, "\nResult: FAIL, %d of %d checks fail\n", failed, len(res.Checks))
 	}
-}
-
-// slope prints rise/length as cm/m (SI) or in/ft (US).
-func slope(v float64, d display) string {
-	if d.sys == units.US {
-		return fmt.Sprintf("%.3f in/ft", v*12)
-	}
-	return fmt.Sprintf("%.2f cm/m", v*100)
 }

@@ -9,6 +9,7 @@ import (
 
 	"pasval/internal/assess"
 	"pasval/internal/plantfile"
+	"pasval/internal/present"
 	"pasval/internal/units"
 )
 
@@ -98,7 +99,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 			return err
 		}
 	} else {
-		d := display{sys}
+		d := present.Display{Sys: sys}
 		fmt.Fprintf(out, "pasval %s · holding tube of %s\ninput sha256 %s\n", res.Version, p.File, res.InputSHA256)
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
@@ -119,7 +120,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 	return nil
 }
 
-func writeSetpointTable(w io.Writer, res *assess.Result, rows []assess.SetpointRow, d display) {
+func writeSetpointTable(w io.Writer, res *assess.Result, rows []assess.SetpointRow, d present.Display) {
 	if len(rows) == 0 || (len(res.Lethality) == 0 && rows[0].LegalMet == nil) {
 		return
 	}
@@ -133,11 +134,11 @@ func writeSetpointTable(w io.Writer, res *assess.Result, rows []assess.SetpointR
 	}
 	t := newTable(headers...)
 	for _, r := range rows {
-		label := d.with(r.SetpointC, units.Temperature, 1)
+		label := d.With(r.SetpointC, units.Temperature, 1)
 		if r.OffsetK == 0 {
 			label += " (entered)"
 		} else {
-			label += fmt.Sprintf(" (%s)", signed(d.num(r.OffsetK, units.TemperatureDifference, 1))+" "+d.unit(units.TemperatureDifference))
+			label += fmt.Sprintf(" (%s)", present.Signed(d.Num(r.OffsetK, units.TemperatureDifference, 1))+" "+d.Unit(units.TemperatureDifference))
 		}
 		cells := []string{label}
 		for _, lr := range r.LogReductions {

@@ -5,8 +5,6 @@ import (
 	"io"
 	"strings"
 	"unicode/utf8"
-
-	"pasval/internal/units"
 )
 
 // table prints aligned columns; numbers right-aligned, text left-aligned.
@@ -73,35 +71,6 @@ func (t *table) write(w io.Writer) {
 	}
 }
 
-// display formats SI values in the chosen unit system.
-type display struct{ sys units.System }
-
-func (d display) unit(k units.Kind) string { return units.DisplayUnit(k, d.sys) }
-
-func (d display) num(v float64, k units.Kind, prec int) string {
-	return fmt.Sprintf("%.*f", prec, units.FromSI(v, k, d.unit(k)))
-}
-
-// with formats a value followed by its unit.
-func (d display) with(v float64, k units.Kind, prec int) string {
-	return d.num(v, k, prec) + " " + d.unit(k)
-}
-
-// power prints a duty: kW in SI, Btu/h (no decimals) in US units.
-func (d display) power(w float64) string {
-	if d.sys == units.US {
-		return fmt.Sprintf("%.0f", units.FromSI(w, units.Power, "Btu/h"))
-	}
-	return fmt.Sprintf("%.1f", w/1e3)
-}
-
-func signed(s string) string {
-	if !strings.HasPrefix(s, "-") {
-		return "+" + s
-	}
-	return "−" + s[1:]
-}
-
 // wrap breaks text into lines of at most width runes, each after the prefix.
 func wrap(text, prefix string, width int) string {
 	var b strings.Builder
@@ -129,12 +98,4 @@ func (t *table) writeBare(w io.Writer) {
 	for _, r := range t.rows {
 		fmt.Fprintf(w, "  %s%s  %s\n", r[0], strings.Repeat(" ", width-utf8.RuneCountInString(r[0])), r[1])
 	}
-}
-
-// small prints a short length: mm in SI, inches in US units.
-func (d display) small(m float64) string {
-	if d.sys == units.US {
-		return fmt.Sprintf("%.3f in", units.FromSI(m, units.Length, "in"))
-	}
-	return fmt.Sprintf("%.1f mm", m*1e3)
 }
