@@ -15,9 +15,12 @@ import (
 )
 
 type checkOptions struct {
-	file  string
-	units string // "", "si" or "us"
-	json  bool
+	file   string
+	units  string // "", "si" or "us"
+	json   bool
+	record string // also write the validation record here
+	date   string // record date YYYY-MM-DD
+	force  bool   // overwrite the record
 }
 
 func newCheckCmd(stdout io.Writer) *cobra.Command {
@@ -31,16 +34,20 @@ effectiveness, area, plates and temperatures of each, the regeneration ratio,
 and each check with PASS or FAIL, the required and actual values and the margin.`,
 		Example: `  pasval check testdata/demo/htst-milk-si.yaml
   pasval check cider.yaml --units si
-  pasval check line2.yaml --json > line2.json`,
+  pasval check line2.yaml --json > line2.json
+  pasval check line2.yaml --record line2.pdf --date 2026-12-01`,
 		Args: argsFile,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.file = args[0]
-			return runCheck(opts, stdout)
+			return runCheck(opts, stdout, cmd.ErrOrStderr())
 		},
 	}
 	cmd.Long += "\n" + exitStatusHelp
 	cmd.Flags().StringVar(&opts.units, "units", "", "units for printed values: si or us (default: us when the hold setpoint is in °F)")
 	cmd.Flags().BoolVar(&opts.json, "json", false, "print the results as JSON (SI units, every key names its unit)")
+	cmd.Flags().StringVar(&opts.record, "record", "", "also write the validation record (PDF) to this file, as 'pasval report' does")
+	cmd.Flags().StringVar(&opts.date, "date", "", "record date YYYY-MM-DD for --record (default: today)")
+	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the --record file if it exists")
 	return cmd
 }
 
@@ -56,9 +63,14 @@ func parseSystem(s string, p *plantfile.Plant) (units.System, error) {
 	return units.SI, usagef("--units must be si or us, not %q", s)
 }
 
-func runCheck(opts checkOptions, out io.Writer) error {
+// runCheck prints results to out; notes about files written go to diag.
+func runCheck(opts checkOptions, out, diag io.Writer) error {
 	if opts.units != "" && opts.units != "si" && opts.units != "us" {
 		return usagef("--units must be si or us, not %q", opts.units)
+	}
+	date, err := recordDate(opts.date)
+	if err != nil {
+		return err
 	}
 	p, err := plantfile.Load(opts.file)
 	if err != nil {
@@ -71,6 +83,12 @@ func runCheck(opts checkOptions, out io.Writer) error {
 	res, err := assess.Run(p)
 	if err != nil {
 		return err
+	}
+	if opts.record != "" {
+		// Written first, so that a refusal (file exists) comes before any output.
+		if err := writeRecord(res, opts.record, date, opts.force, diag); err != nil {
+			return err
+		}
 	}
 	if opts.json {
 		enc := json.NewEncoder(out)

@@ -77,6 +77,7 @@ type Input struct {
 type Plant struct {
 	File   string // path as given
 	SHA256 string // of the file's bytes, hex
+	Source []byte // the file's bytes exactly as read (attached to records)
 	System units.System
 	Record []RecordField
 	Inputs []Input // every quantity in file order

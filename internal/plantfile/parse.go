@@ -90,7 +90,7 @@ func Parse(file string, data []byte) (p *Plant, err error) {
 			Msg: "anchors and aliases (& and *) are not supported in plant files; write each value out"}}
 	}
 	sum := sha256.Sum256(data)
-	p = &Plant{File: file, SHA256: hex.EncodeToString(sum[:])}
+	p = &Plant{File: file, SHA256: hex.EncodeToString(sum[:]), Source: data}
 	top := d.object(root, "", topKeys...)
 	if top != nil {
 		d.decodePlant(p, top)

@@ -1,0 +1,124 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"pasval/internal/assess"
+	"pasval/internal/fileout"
+	"pasval/internal/plantfile"
+	"pasval/report"
+)
+
+type reportOptions struct {
+	file   string
+	output string
+	date   string // YYYY-MM-DD; empty: today
+	force  bool
+}
+
+func newReportCmd(stdout io.Writer) *cobra.Command {
+	var opts reportOptions
+	cmd := &cobra.Command{
+		Use:   "report PLANT.yaml -o RECORD.pdf",
+		Short: "Write the validation record (PDF) of a plant file",
+		Long: `report computes the plant file as check does and writes a validation record:
+a cover with the verdicts, the inputs as entered and in SI, the method and its
+references, the heat-exchange tables and temperature diagram, the holding tube
+and lethality with a log-reduction plot, the checks with their margins, the
+cautions, and a sign-off block. The plant file is attached to the PDF and its
+SHA-256 is in the document metadata; 'pasval verify' checks them later.
+
+The record is written to a temporary file beside the target and renamed, so a
+failure never leaves a partial record; an existing file is kept unless --force.
+With --date the same plant file gives the same PDF bytes.`,
+		Example: `  pasval report testdata/demo/htst-milk-si.yaml -o line2-record.pdf
+  pasval report line2.yaml -o line2.pdf --date 2026-12-01 --force`,
+		Args: argsFile,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.file = args[0]
+			return runReport(opts, stdout)
+		},
+	}
+	cmd.Long += "\n" + exitStatusHelp
+	cmd.Flags().StringVarP(&opts.output, "output", "o", "", "the record to write (required)")
+	cmd.Flags().StringVar(&opts.date, "date", "", "record date YYYY-MM-DD (default: today); fixes the PDF bytes")
+	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the record if it exists")
+	return cmd
+}
+
+// recordDate parses --date, or takes today's date.
+func recordDate(s string) (time.Time, error) {
+	if s == "" {
+		now := time.Now().UTC()
+		return time.Date(now.Year(), now.Month(), now.Day(), 0, 0, 0, 0, time.UTC), nil
+	}
+	d, err := time.Parse("2006-01-02", s)
+	if err != nil {
+		return time.Time{}, usagef("--date must be YYYY-MM-DD, not %q", s)
+	}
+	return d, nil
+}
+
+func runReport(opts reportOptions, out io.Writer) error {
+	if opts.output == "" {
+		return usagef("report needs -o RECORD.pdf (see 'pasval report --help')")
+	}
+	date, err := recordDate(opts.date)
+	if err != nil {
+		return err
+	}
+	p, err := plantfile.Load(opts.file)
+	if err != nil {
+		return err
+	}
+	res, err := assess.Run(p)
+	if err != nil {
+		return err
+	}
+	if err := writeRecord(res, opts.output, date, opts.force, out); err != nil {
+		return err
+	}
+	if !res.Pass {
+		return errChecksFailed
+	}
+	return nil
+}
+
+// writeRecord renders and writes the record atomically.
+func writeRecord(res *assess.Result, path string, date time.Time, force bool, out io.Writer) error {
+	if same, _ := sameFile(path, res.Plant.File); same {
+		return usagef("the record %s would overwrite the plant file", path)
+	}
+	doc := report.Build(res, report.Options{Date: date, PlantBytes: res.Plant.Source, PlantName: filepath.Base(res.Plant.File)})
+	pdf, pages, err := report.Render(doc)
+	if err != nil {
+		return err
+	}
+	if err := fileout.Write(path, pdf, force); err != nil {
+		return usagef("%v", err)
+	}
+	verdict := "PASS"
+	if !res.Pass {
+		verdict = "FAIL"
+	}
+	fmt.Fprintf(out, "wrote %s: %d pages, %s, plant file sha256 %s\n", path, pages, verdict, res.InputSHA256)
+	return nil
+}
+
+func sameFile(a, b string) (bool, error) {
+	sa, err := os.Stat(a)
+	if err != nil {
+		return false, err
+	}
+	sb, err := os.Stat(b)
+	if err != nil {
+		return false, err
+	}
+	return os.SameFile(sa, sb), nil
+}

@@ -1,0 +1,527 @@
+// Package report builds the validation record of a pasteurizer: a document
+// model made from check results (Build), rendered as a PDF that carries its
+// plant file as an attachment (Render), and verified against that file later
+// (Verify).
+//
+//	doc := report.Build(res, report.Options{Date: day, PlantBytes: data})
+//	pdf, pages, err := report.Render(doc)
+//	v, err := report.Verify(pdf, nil)    // attachment against the recorded hash
+//
+// The model is plain data, so that tests can check the content (every check
+// listed, the cautions present) without reading a PDF. Nothing here reads or
+// writes files.
+package report
+
+import (
+	"fmt"
+	"strings"
+	"time"
+
+	"pasval/internal/assess"
+	"pasval/internal/present"
+	"pasval/internal/units"
+	"pasval/lethality"
+)
+
+// Options are the record's inputs beyond the results.
+type Options struct {
+	Date       time.Time // the record date; also the PDF creation date
+	PlantBytes []byte    // the plant file exactly as read (attached, hashed)
+	PlantName  string    // file name for the attachment
+}
+
+// Document is the record's content, in reading order.
+type Document struct {
+	Title      string
+	Header     string // site · line, on every page
+	ShortHash  string // first 12 hex digits of the plant file's SHA-256, in every footer
+	SHA256     string
+	Date       time.Time
+	Version    string
+	PageSize   string // "A4" (SI plants) or "Letter" (US plants)
+	PlantName  string
+	PlantBytes []byte
+	Cover      Cover
+	Sections   []Section
+}
+
+// Cover is the first page's identification and verdict box.
+type Cover struct {
+	Fields    [][2]string // label, value
+	Verdicts  []Verdict
+	Overall   string
+	Pass      bool
+	Statement string // what the record is and is not
+}
+
+// Verdict is one line of the verdict box.
+type Verdict struct {
+	Check string
+	Pass  bool
+}
+
+// Section is a numbered part of the record.
+type Section struct {
+	Heading string
+	Blocks  []Block
+}
+
+// Block is one element of a section.
+type Block interface{ blockKind() string }
+
+// Paragraph is running text.
+type Paragraph struct {
+	Text     string
+	Emphasis bool // set apart (cautions)
+}
+
+// Bullets is a list.
+type Bullets struct{ Items []string }
+
+// KeyValues is a two-column list of labelled values.
+type KeyValues struct{ Pairs [][2]string }
+
+// Table is a grid with a header row.
+type Table struct {
+	Caption string
+	Columns []Column
+	Rows    [][]string
+}
+
+// Column is a table column; Right aligns numbers.
+type Column struct {
+	Title string
+	Right bool
+}
+
+// Diagram is the temperature diagram of the whole pasteurizer.
+type Diagram struct {
+	Caption  string
+	Unit     string // display temperature unit
+	Segments []Segment
+	Setpoint float64 // display units
+}
+
+// Segment is one stretch of the product path in process order.
+type Segment struct {
+	Label          string
+	ProductIn      float64 // display units
+	ProductOut     float64
+	Other          string // name of the other stream, "" for the holding tube
+	OtherAtLeft    float64
+	OtherAtRight   float64
+	OtherLeftward  bool // the other stream flows right to left (counterflow)
+	OtherIsHot     bool // heating medium or pasteurized product giving heat
+	OtherIsProduct bool // the regenerator's other side
+}
+
+// Plot is an x–y line plot.
+type Plot struct {
+	Caption        string
+	XLabel, YLabel string
+	Series         []Series
+}
+
+// Series is one line of a plot.
+type Series struct {
+	Name string
+	X, Y []float64
+}
+
+// SignOff is the block of signature lines.
+type SignOff struct{ Roles []string }
+
+func (Paragraph) blockKind() string { return "paragraph" }
+func (Bullets) blockKind() string   { return "bullets" }
+func (KeyValues) blockKind() string { return "keyvalues" }
+func (Table) blockKind() string     { return "table" }
+func (Diagram) blockKind() string   { return "diagram" }
+func (Plot) blockKind() string      { return "plot" }
+func (SignOff) blockKind() string   { return "signoff" }
+
+// Statement is printed on the cover.
+const Statement = "This record documents an engineering calculation made with pasval from the plant file " +
+	"attached to it. It is not a regulatory approval, an inspection or a process-authority letter."
+
+// AcceptanceTests are the tests the record never replaces (SAFETY.md).
+var AcceptanceTests = []string{
+	"the holding-time test at the sealed maximum flow, on the installed equipment, as the regulator directs;",
+	"the flow-diversion device tests (response time, assembly, leak detection, cut-in and cut-out temperatures);",
+	"the recorder-controller tests and the check of the indicating and recording thermometers against a certified standard;",
+	"the regenerator pressure-differential tests and any booster-pump interlock tests;",
+	"any other test the local regulator requires.",
+}
+
+// Build makes the document model from check results.
+func Build(res *assess.Result, opts Options) *Document {
+	p := res.Plant
+	d := present.Display{Sys: p.System}
+	doc := &Document{
+		Title:      "Pasteurizer validation record",
+		SHA256:     res.InputSHA256,
+		ShortHash:  res.InputSHA256[:12],
+		Date:       opts.Date,
+		Version:    res.Version,
+		PlantName:  opts.PlantName,
+		PlantBytes: opts.PlantBytes,
+		PageSize:   "A4",
+	}
+	if p.System == units.US {
+		doc.PageSize = "Letter"
+	}
+	var hdr []string
+	for _, k := range []string{"site", "line"} {
+		if v := p.RecordValue(k); v != "" {
+			hdr = append(hdr, v)
+		}
+	}
+	doc.Header = strings.Join(hdr, " · ")
+	if doc.Header == "" {
+		doc.Header = p.Product.Name
+	}
+	doc.Cover = buildCover(res, doc)
+	doc.Sections = []Section{
+		inputsSection(res),
+		methodSection(res),
+	}
+	if len(res.Sections) > 0 {
+		doc.Sections = append(doc.Sections, heatSection(res, d))
+	}
+	if res.HoldingTube != nil {
+		doc.Sections = append(doc.Sections, holdingSection(res, d))
+	}
+	doc.Sections = append(doc.Sections, checksSection(res, d), cautionSection(res), signOffSection())
+	return doc
+}
+
+func buildCover(res *assess.Result, doc *Document) Cover {
+	p := res.Plant
+	c := Cover{Statement: Statement, Pass: res.Pass}
+	labels := map[string]string{"site": "Site", "line": "Line", "product": "Product", "schedule": "Schedule", "prepared_by": "Prepared by", "notes": "Notes"}
+	for _, k := range []string{"site", "line", "product", "schedule", "prepared_by", "notes"} {
+		if v := p.RecordValue(k); v != "" {
+			c.Fields = append(c.Fields, [2]string{labels[k], v})
+		}
+	}
+	if p.RecordValue("product") == "" {
+		c.Fields = append(c.Fields, [2]string{"Product", p.Product.Name})
+	}
+	c.Fields = append(c.Fields,
+		[2]string{"Record date", doc.Date.Format("2006-01-02")},
+		[2]string{"Plant file", doc.PlantName},
+		[2]string{"Plant file SHA-256", res.InputSHA256},
+		[2]string{"Tool", "pasval " + res.Version},
+	)
+	failed := 0
+	for _, ch := range res.Checks {
+		c.Verdicts = append(c.Verdicts, Verdict{Check: checkLabel(ch), Pass: ch.Pass})
+		if !ch.Pass {
+			failed++
+		}
+	}
+	switch {
+	case len(res.Checks) == 0:
+		c.Overall = "No check applies: nothing was judged."
+	case failed == 0:
+		c.Overall = fmt.Sprintf("PASS: all %d checks pass.", len(res.Checks))
+	default:
+		c.Overall = fmt.Sprintf("FAIL: %d of %d checks fail.", failed, len(res.Checks))
+	}
+	return c
+}
+
+func checkLabel(c assess.Check) string {
+	if c.Organism != "" {
+		return c.ID + " (" + c.Organism + ")"
+	}
+	return c.ID
+}
+
+func inputsSection(res *assess.Result) Section {
+	t := Table{Caption: "Every quantity entered in the plant file, as written and in SI.",
+		Columns: []Column{{Title: "field"}, {Title: "as entered"}, {Title: "SI value", Right: true}, {Title: "SI unit"}}}
+	for _, in := range res.Plant.Inputs {
+		t.Rows = append(t.Rows, []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), in.SIUnit})
+	}
+	pp := res.Product
+	kv := KeyValues{Pairs: [][2]string{
+		{"product", res.Plant.Product.Name},
+		{"density used", fmt.Sprintf("%.1f kg/m³", pp.Density)},
+		{"specific heat used", fmt.Sprintf("%.1f J/(kg·K)", pp.SpecificHeat)},
+		{"mass flow (normal, sealed maximum)", fmt.Sprintf("%.4f kg/s, %.4f kg/s", pp.MassFlow, pp.MaxMassFlow)},
+	}}
+	if pp.FromComposition {
+		kv.Pairs = append(kv.Pairs, [2]string{"properties", "Choi–Okos (1986) from the composition entered"})
+	}
+	return Section{Heading: "Inputs", Blocks: []Block{t, kv}}
+}
+
+func methodSection(res *assess.Result) Section {
+	items := []string{
+		"Units: every entered quantity carries its unit; calculations are in SI, temperatures in °C (differences in K).",
+		"Water media: IAPWS-IF97 region 1 (IAPWS R7-97(2012)); volumetric rates convert to mass at the medium inlet; cp at the mean of inlet and outlet, iterated.",
+		"Heat exchange: LMTD ΔT_lm = (ΔT₁ − ΔT₂)/ln(ΔT₁/ΔT₂) and effectiveness–NTU for counterflow and co-current flow (Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., §11.3–11.4); sizing gives the area for a duty, rating gives temperatures for the installed plates.",
+		"Regeneration ratio = (raw product leaving regeneration − raw inlet)/(diversion setpoint − raw inlet); the same product on both sides gives C_r = 1, so the ratio equals the effectiveness.",
+		"Plates = ceil(area / effective area per plate); required and installed areas are both reported.",
+	}
+	if res.HoldingTube != nil {
+		items = append(items,
+			"Holding tube: judged at the sealed maximum flow for the fastest particle, at the diversion setpoint.",
+			"Reynolds number ρvD/μ (Newtonian) or Metzner–Reed (power law; Metzner and Reed 1955). Re < 2100 laminar; 2100–4000 transitional, treated as laminar; ≥ 4000 turbulent.",
+			"Fastest-to-mean velocity ratio: 2 (laminar Newtonian), (3n+1)/(n+1) (laminar power law; Steffe 1996), (n_p+1)(2n_p+1)/(2n_p²) with n_p = 0.790 ln Re − 1.64 (turbulent; Petukhov friction factor, power-law velocity profile), unless entered.",
+			"Heat loss (when entered): T(x) = T_a + (T_in − T_a)·exp(−h_o π D_o x/(m c_p)), m the mass flow, outlet at the setpoint; lethality uses m at the sealed maximum, the heating section the tube inlet at the normal rate.",
+			"Lethality: D(T) = D_ref·10^((T_ref − T)/z); log reduction LR = ∫ dt/D(T) along the fastest particle (Simpson's rule, 2000 intervals; closed form when isothermal).",
+			"Legal table: met when some row has temperature ≤ setpoint and time ≤ the fastest particle's time; rows are never interpolated.",
+		)
+	}
+	return Section{Heading: "Method", Blocks: []Block{Bullets{Items: items}}}
+}
+
+func heatSection(res *assess.Result, d present.Display) Section {
+	tu := d.Unit(units.Temperature)
+	au := d.Unit(units.Area)
+	duty := "kW"
+	if d.Sys == units.US {
+		duty = "Btu/h"
+	}
+	t := Table{Caption: "Sections at the normal rate.", Columns: []Column{{Title: "section"}, {Title: "mode"}, {Title: "flow"},
+		{Title: "duty " + duty, Right: true}, {Title: "LMTD " + d.Unit(units.TemperatureDifference), Right: true}, {Title: "NTU", Right: true},
+		{Title: "ε", Right: true}, {Title: "required " + au, Right: true}, {Title: "installed " + au, Right: true}, {Title: "plates", Right: true}}}
+	temps := Table{Caption: "Temperatures, " + tu + ". Other stream: the pasteurized product in regeneration, the medium elsewhere; in rated heating its inlet is the temperature required.",
+		Columns: []Column{{Title: "section"}, {Title: "product in", Right: true}, {Title: "product out", Right: true},
+			{Title: "other in", Right: true}, {Title: "other out", Right: true}, {Title: "other stream"}}}
+	for _, s := range res.Sections {
+		label := s.Name
+		if s.Stage != "" {
+			label += ": " + s.Stage
+		}
+		t.Rows = append(t.Rows, []string{label, s.Mode, s.Arrangement, d.Power(s.DutyKW * 1e3), d.Num(s.LMTDK, units.TemperatureDifference, 2),
+			fmt.Sprintf("%.2f", s.NTU), fmt.Sprintf("%.3f", s.Effectiveness), d.Num(s.RequiredAreaM2, units.Area, 2),
+			d.Num(s.InstalledAreaM2, units.Area, 2), fmt.Sprintf("%d", s.Plates)})
+		other := otherName(res, s)
+		if s.MediumAvailableC != nil {
+			other += " (available " + d.With(*s.MediumAvailableC, units.Temperature, 1) + ")"
+		}
+		temps.Rows = append(temps.Rows, []string{label, d.Num(s.ProductInC, units.Temperature, 2), d.Num(s.ProductOutC, units.Temperature, 2),
+			d.Num(s.OtherInC, units.Temperature, 2), d.Num(s.OtherOutC, units.Temperature, 2), other})
+	}
+	blocks := []Block{t, temps}
+	if res.RegenerationRatio != nil {
+		blocks = append(blocks, KeyValues{Pairs: [][2]string{{"regeneration ratio", fmt.Sprintf("%.1f %%", *res.RegenerationRatio*100)}}})
+	}
+	blocks = append(blocks, temperatureDiagram(res, d))
+	return Section{Heading: "Heat exchange", Blocks: blocks}
+}
+
+func otherName(res *assess.Result, s assess.Section) string {
+	p := res.Plant
+	switch {
+	case s.Name == "regeneration":
+		return "pasteurized product"
+	case s.Name == "heating" && p.Heating != nil:
+		return p.Heating.Medium.Name
+	}
+	for _, c := range p.Cooling {
+		if c.Name == s.Stage {
+			return c.Medium.Name
+		}
+	}
+	return ""
+}
+
+// temperatureDiagram lays the product path out in process order: raw side of
+// regeneration, heating, holding tube, pasteurized side of regeneration,
+// cooling stages; each stretch shows the other stream against it.
+func temperatureDiagram(res *assess.Result, d present.Display) Diagram {
+	T := func(c float64) float64 { return units.FromSI(c, units.Temperature, d.Unit(units.Temperature)) }
+	dg := Diagram{Unit: d.Unit(units.Temperature), Setpoint: T(res.Plant.Process.HoldSetpoint.SI),
+		Caption: "Temperatures at the normal rate along the product path (solid) and of the stream on the other side of each plate pack (dashed; arrows show its direction)."}
+	var regen *assess.Section
+	for i := range res.Sections {
+		if res.Sections[i].Name == "regeneration" {
+			regen = &res.Sections[i]
+		}
+	}
+	counter := func(s assess.Section) bool { return s.Arrangement == "counterflow" }
+	if regen != nil {
+		s := *regen
+		// Raw side: product left→right; the pasteurized product enters at the right when counterflow.
+		seg := Segment{Label: "regeneration (raw)", ProductIn: T(s.ProductInC), ProductOut: T(s.ProductOutC), Other: "pasteurized product",
+			OtherIsHot: true, OtherIsProduct: true}
+		if counter(s) {
+			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.OtherOutC), T(s.OtherInC), true
+		} else {
+			seg.OtherAtLeft, seg.OtherAtRight = T(s.OtherInC), T(s.OtherOutC)
+		}
+		dg.Segments = append(dg.Segments, seg)
+	}
+	for _, s := range res.Sections {
+		if s.Name != "heating" {
+			continue
+		}
+		seg := Segment{Label: "heating", ProductIn: T(s.ProductInC), ProductOut: T(s.ProductOutC), Other: otherName(res, s), OtherIsHot: true}
+		if counter(s) {
+			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.OtherOutC), T(s.OtherInC), true
+		} else {
+			seg.OtherAtLeft, seg.OtherAtRight = T(s.OtherInC), T(s.OtherOutC)
+		}
+		dg.Segments = append(dg.Segments, seg)
+	}
+	if h := res.HoldingTube; h != nil {
+		// At the normal rate, like the sections: the heater delivers HeatingOutletC.
+		dg.Segments = append(dg.Segments, Segment{Label: "holding tube", ProductIn: T(h.HeatingOutletC), ProductOut: T(h.OutletTemperatureC)})
+	}
+	if regen != nil {
+		s := *regen
+		seg := Segment{Label: "regeneration (pasteurized)", ProductIn: T(s.OtherInC), ProductOut: T(s.OtherOutC), Other: "raw product", OtherIsProduct: true}
+		if counter(s) {
+			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.ProductOutC), T(s.ProductInC), true
+		} else {
+			seg.OtherAtLeft, seg.OtherAtRight = T(s.ProductInC), T(s.ProductOutC)
+		}
+		dg.Segments = append(dg.Segments, seg)
+	}
+	for _, s := range res.Sections {
+		if s.Name != "cooling" {
+			continue
+		}
+		seg := Segment{Label: "cooling: " + s.Stage, ProductIn: T(s.ProductInC), ProductOut: T(s.ProductOutC), Other: otherName(res, s)}
+		if counter(s) {
+			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.OtherOutC), T(s.OtherInC), true
+		} else {
+			seg.OtherAtLeft, seg.OtherAtRight = T(s.OtherInC), T(s.OtherOutC)
+		}
+		dg.Segments = append(dg.Segments, seg)
+	}
+	return dg
+}
+
+func holdingSection(res *assess.Result, d present.Display) Section {
+	h := res.HoldingTube
+	p := res.Plant
+	kv := KeyValues{}
+	add := func(k, v string) { kv.Pairs = append(kv.Pairs, [2]string{k, v}) }
+	geom := fmt.Sprintf("inner diameter %s, length %s, hold-up %s", d.Small(h.InnerDiameterM), d.With(h.LengthM, units.Length, 2), d.With(h.VolumeL/1e3, units.Volume, 1))
+	if p.HoldingTube.SanitaryTube.Set {
+		geom = p.HoldingTube.SanitaryTube.Text + " sanitary tube, " + geom
+	}
+	add("tube", geom)
+	if h.Slope != nil {
+		add("slope", fmt.Sprintf("%s (minimum %s)", present.Slope(*h.Slope, d), present.Slope(h.MinSlope, d)))
+	}
+	add("judged flow", d.With(h.MaxFlowM3s, units.VolumeFlow, 0)+" (sealed maximum)")
+	if p.Product.PowerLaw != nil {
+		add("rheology", fmt.Sprintf("power law, n = %.3g, K = %s", h.FlowIndex, p.Product.PowerLaw.Consistency.Text))
+	} else {
+		add("viscosity at the setpoint", d.With(h.ViscosityPas, units.Viscosity, 3))
+	}
+	ratio := fmt.Sprintf("%.3f", h.FastestToMean)
+	if h.FastestToMeanOverridden {
+		ratio += " (entered)"
+	}
+	add("mean velocity", d.With(h.MeanVelocity, units.Length, 3)+"/s")
+	add("Reynolds number", fmt.Sprintf("%.0f (%s)", h.Reynolds, h.Regime))
+	add("fastest-to-mean ratio", ratio)
+	add("fastest-particle residence", fmt.Sprintf("%.2f s", h.MinResidenceS))
+	add("mean residence", fmt.Sprintf("%.2f s", h.MeanResidenceS))
+	add("tube inlet → outlet", d.With(h.InletTemperatureC, units.Temperature, 2)+" → "+d.With(h.OutletTemperatureC, units.Temperature, 2))
+	if h.PasteurizationUnits != nil {
+		add("pasteurization units", fmt.Sprintf("%.2f PU (60 °C, z = 7 °C)", *h.PasteurizationUnits))
+	}
+	blocks := []Block{kv}
+	if len(h.Rows) > 0 {
+		t := Table{Caption: "Legal minimums as entered; the judged row is marked. Rows are never interpolated.",
+			Columns: []Column{{Title: "row", Right: true}, {Title: "temperature", Right: true}, {Title: "time", Right: true}, {Title: "applies"},
+				{Title: "length needed", Right: true}, {Title: "max flow", Right: true}}}
+		for i, r := range h.Rows {
+			applies := "no (above setpoint)"
+			if r.Applies {
+				applies = "yes"
+				if h.Legal != nil && h.Legal.RowIndex == i {
+					applies = "yes: judged"
+				}
+			}
+			mf := d.With(r.MaxFlowM3s, units.VolumeFlow, 0)
+			if r.MaxFlowCapped {
+				mf = "≥ " + mf
+			}
+			t.Rows = append(t.Rows, []string{fmt.Sprintf("%d", i+1), d.With(r.TemperatureC, units.Temperature, 1), fmt.Sprintf("%g s", r.TimeS),
+				applies, d.With(r.RequiredLengthM, units.Length, 2), mf})
+		}
+		blocks = append(blocks, t)
+	}
+	if len(res.Lethality) > 0 {
+		t := Table{Caption: "Log reduction of the fastest particle at the sealed maximum flow.",
+			Columns: []Column{{Title: "organism"}, {Title: "D at setpoint", Right: true}, {Title: "log reduction", Right: true},
+				{Title: "required", Right: true}, {Title: "equivalent time", Right: true}}}
+		plot := Plot{Caption: "Accumulated log reduction of the fastest particle along the holding tube.",
+			XLabel: "distance from the tube inlet, " + d.Unit(units.Length), YLabel: "log reduction"}
+		for i, l := range res.Lethality {
+			req := "—"
+			if p.Organisms[i].RequiredSet {
+				req = fmt.Sprintf("%.2f", l.RequiredLogReduction)
+			}
+			t.Rows = append(t.Rows, []string{l.Organism, fmt.Sprintf("%.4g s", l.DAtSetpointS), fmt.Sprintf("%.2f", l.LogReduction), req,
+				fmt.Sprintf("%.2f s", l.EquivalentTimeS)})
+			m := h.Model
+			pts := lethality.Accumulated(m.Profile, m.Hyd.FastestToMean*m.Hyd.MeanVelocity, m.Organisms[i], 100)
+			s := Series{Name: l.Organism}
+			for _, pt := range pts {
+				s.X = append(s.X, units.FromSI(pt.X, units.Length, d.Unit(units.Length)))
+				s.Y = append(s.Y, pt.LogRed)
+			}
+			plot.Series = append(plot.Series, s)
+		}
+		blocks = append(blocks, t, plot)
+	}
+	if len(res.Warnings) > 0 {
+		blocks = append(blocks, Paragraph{Text: "Warnings:", Emphasis: true}, Bullets{Items: res.Warnings})
+	}
+	return Section{Heading: "Holding tube and lethality", Blocks: blocks}
+}
+
+func checksSection(res *assess.Result, d present.Display) Section {
+	t := Table{Columns: []Column{{Title: "check"}, {Title: "result"}, {Title: "required", Right: true}, {Title: "actual", Right: true},
+		{Title: "margin", Right: true}, {Title: "note"}}}
+	for _, c := range res.Checks {
+		verdict := "PASS"
+		if !c.Pass {
+			verdict = "FAIL"
+		}
+		op := "≥ "
+		if c.Limit == "max" {
+			op = "≤ "
+		}
+		t.Rows = append(t.Rows, []string{checkLabel(c), verdict, op + present.CheckValue(c.Required, c.Unit, d),
+			present.CheckValue(c.Actual, c.Unit, d), present.CheckMargin(c, d), c.Note})
+	}
+	blocks := []Block{t}
+	if len(res.Checks) == 0 {
+		blocks = []Block{Paragraph{Text: "No check applies: every section is in sizing mode and no holding tube, kinetics or pressures are described."}}
+	}
+	blocks = append(blocks, Paragraph{Text: "Result: " + buildCoverOverall(res), Emphasis: true})
+	return Section{Heading: "Checks", Blocks: blocks}
+}
+
+func buildCoverOverall(res *assess.Result) string {
+	return buildCover(res, &Document{}).Overall
+}
+
+func cautionSection(res *assess.Result) Section {
+	return Section{Heading: "Cautions", Blocks: []Block{
+		Paragraph{Text: res.Caution, Emphasis: true},
+		Paragraph{Text: "In particular, this record does not replace:"},
+		Bullets{Items: AcceptanceTests},
+		Paragraph{Text: "It does not replace the process authority, who sets or accepts the schedule (temperature, time, target organisms and " +
+			"log reduction), nor the local regulator and local codes, whose legal minimums differ between places and products and change. " +
+			"Results are only as good as the plant file: U-values, plate areas, flows, viscosities and kinetic values must come from the " +
+			"equipment maker, measurements or literature the authority accepts. Kinetic values in demonstration files are illustrative."},
+	}}
+}
+
+func signOffSection() Section {
+	return Section{Heading: "Sign-off", Blocks: []Block{
+		Paragraph{Text: "Signatures confirm that the inputs describe the plant as built and that the results were reviewed; they do not make this record a regulatory approval."},
+		SignOff{Roles: []string{"Prepared by", "Reviewed by", "Approved by"}},
+	}}
+}

@@ -1,0 +1,196 @@
+package report
+
+import (
+	"bytes"
+	"errors"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"pasval/internal/assess"
+	"pasval/internal/plantfile"
+)
+
+var day = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
+
+func demo(t *testing.T, name string) (*assess.Result, *Document) {
+	t.Helper()
+	p, err := plantfile.Load(filepath.Join("../testdata/demo", name+".yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := assess.Run(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res, Build(res, Options{Date: day, PlantBytes: p.Source, PlantName: name + ".yaml"})
+}
+
+var demos = []string{"htst-milk-si", "cider-us", "frozen-dessert-si"}
+
+func TestDocumentModel(t *testing.T) {
+	// The record's content is specified by the project (issue "Validation record"):
+	// cover with verdicts, inputs, method, heat exchange with a diagram, holding tube
+	// with a log-reduction plot, checks, cautions from SAFETY.md, sign-off.
+	for _, name := range demos {
+		t.Run(name, func(t *testing.T) {
+			res, doc := demo(t, name)
+			var headings []string
+			blocks := map[string]int{}
+			var text strings.Builder
+			for _, s := range doc.Sections {
+				headings = append(headings, s.Heading)
+				for _, b := range s.Blocks {
+					blocks[b.blockKind()]++
+					switch v := b.(type) {
+					case Paragraph:
+						text.WriteString(v.Text + "\n")
+					case Bullets:
+						text.WriteString(strings.Join(v.Items, "\n"))
+					case Table:
+						for _, r := range v.Rows {
+							text.WriteString(strings.Join(r, " | ") + "\n")
+						}
+					case SignOff:
+						text.WriteString(strings.Join(v.Roles, ",") + "\n")
+					}
+				}
+			}
+			want := []string{"Inputs", "Method"}
+			if len(res.Sections) > 0 {
+				want = append(want, "Heat exchange")
+			}
+			want = append(want, "Holding tube and lethality", "Checks", "Cautions", "Sign-off")
+			if strings.Join(headings, "/") != strings.Join(want, "/") {
+				t.Errorf("sections %v, want %v", headings, want)
+			}
+			if len(doc.Cover.Verdicts) != len(res.Checks) || doc.Cover.Pass != res.Pass {
+				t.Errorf("cover verdicts %d for %d checks", len(doc.Cover.Verdicts), len(res.Checks))
+			}
+			all := text.String()
+			for _, c := range res.Checks {
+				if !strings.Contains(all, checkLabel(c)+" | ") {
+					t.Errorf("check %s missing from the checks table", checkLabel(c))
+				}
+			}
+			for _, must := range append([]string{assess.Caution, "Prepared by,Reviewed by,Approved by"}, AcceptanceTests...) {
+				if !strings.Contains(all, must) {
+					t.Errorf("record lacks %q", must)
+				}
+			}
+			if blocks["diagram"] != 1 || blocks["plot"] < 1 && len(res.Lethality) > 0 {
+				t.Errorf("blocks %v", blocks)
+			}
+			if !strings.Contains(doc.Cover.Statement, "not a regulatory approval") {
+				t.Error("cover statement lacks the disclaimer")
+			}
+			if len(doc.ShortHash) != 12 || doc.SHA256 != res.InputSHA256 {
+				t.Errorf("hash %q", doc.ShortHash)
+			}
+		})
+	}
+}
+
+func TestDiagramFollowsTheProductPath(t *testing.T) {
+	// SI demo: raw 5 → regeneration → heating → tube → regeneration → cooling → 4 °C;
+	// each stretch starts where the previous one ended (continuity of the product line).
+	_, doc := demo(t, "htst-milk-si")
+	var dg Diagram
+	for _, s := range doc.Sections {
+		for _, b := range s.Blocks {
+			if d, ok := b.(Diagram); ok {
+				dg = d
+			}
+		}
+	}
+	labels := []string{}
+	for i, s := range dg.Segments {
+		labels = append(labels, s.Label)
+		if i > 0 && abs(s.ProductIn-dg.Segments[i-1].ProductOut) > 1e-9 {
+			t.Errorf("%s starts at %g, previous ends at %g", s.Label, s.ProductIn, dg.Segments[i-1].ProductOut)
+		}
+	}
+	if strings.Join(labels, "/") != "regeneration (raw)/heating/holding tube/regeneration (pasteurized)/cooling: chilled water" {
+		t.Errorf("segments %v", labels)
+	}
+	if dg.Segments[0].ProductIn != 5 || abs(dg.Segments[4].ProductOut-4) > 1e-9 || dg.Unit != "°C" || dg.Setpoint != 72.5 {
+		t.Errorf("ends %g → %g %s", dg.Segments[0].ProductIn, dg.Segments[4].ProductOut, dg.Unit)
+	}
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+func TestRenderIsDeterministicAndVerifiable(t *testing.T) {
+	for _, name := range demos {
+		_, doc := demo(t, name)
+		a, pages, err := Render(doc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, _, _ := Render(doc)
+		if !bytes.Equal(a, b) {
+			t.Errorf("%s: two renders differ", name)
+		}
+		if pages < 2 {
+			t.Errorf("%s: %d pages", name, pages)
+		}
+		v, err := Verify(a, doc.PlantBytes)
+		if err != nil || !v.Match || v.RecordedSHA256 != doc.SHA256 {
+			t.Errorf("%s: verify %+v %v", name, v, err)
+		}
+		got, err := Attachment(a)
+		if err != nil || !bytes.Equal(got, doc.PlantBytes) {
+			t.Errorf("%s: attachment differs (%v)", name, err)
+		}
+	}
+}
+
+func TestVerifyTamper(t *testing.T) {
+	_, doc := demo(t, "htst-milk-si")
+	pdf, _, err := Render(doc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// One byte of the plant file changed: mismatch.
+	plant := append([]byte(nil), doc.PlantBytes...)
+	plant[len(plant)/2] ^= 0x01
+	if v, err := Verify(pdf, plant); err != nil || v.Match {
+		t.Errorf("tampered plant file: %+v %v", v, err)
+	}
+	// The recorded hash changed in the record: the attachment no longer matches it.
+	forged := bytes.Replace(pdf, []byte(KeywordPrefix+doc.SHA256[:1]), []byte(KeywordPrefix+string(rune(doc.SHA256[0]^1))), 1)
+	if v, err := Verify(forged, nil); err != nil || v.Match {
+		t.Errorf("forged hash: %+v %v", v, err)
+	}
+	// Not a record, or a record without its attachment: unreadable.
+	for _, bad := range [][]byte{[]byte("hello"), []byte("%PDF-1.3\n%%EOF"), bytes.Replace(pdf, []byte("/Type /EmbeddedFile"), []byte("/Type /EmbeddedFilX"), 1)} {
+		if _, err := Verify(bad, nil); !errors.Is(err, ErrUnreadable) {
+			t.Errorf("unreadable record accepted: %v", err)
+		}
+	}
+	// A damaged attachment stream is unreadable, not a crash.
+	i := bytes.Index(pdf, []byte("stream\nx"))
+	damaged := append([]byte(nil), pdf...)
+	for j := i + 9; j < i+40; j++ {
+		damaged[j] ^= 0xff
+	}
+	if _, err := Verify(damaged, nil); !errors.Is(err, ErrUnreadable) {
+		t.Errorf("damaged stream: %v", err)
+	}
+}
+
+func TestPrintable(t *testing.T) {
+	// Characters outside the embedded Go font become '?'; those in it stay.
+	if got := printable("72.5 °C ≥ 15 s · ε µ ± ² →"); got != "72.5 °C ≥ 15 s · ε µ ± ² →" {
+		t.Errorf("printable changed supported text: %q", got)
+	}
+	if got := printable("乳業 dairy"); got != "?? dairy" {
+		t.Errorf("printable(%q)", got)
+	}
+}
