@@ -75,7 +75,7 @@ type CrossError struct {
 	HotOut      float64 // °C
 	ColdIn      float64 // °C
 	ColdOut     float64 // °C
-	Hot, Cold   string // names of the two streams, e.g. "medium", "product"
+	Hot, Cold   string  // names of the two streams, e.g. "medium", "product"
 }
 
 func (e *CrossError) Error() string { return e.Section + ": " + e.Detail() }

@@ -81,9 +81,9 @@ func (s Section) Raw() regen.Section { return s.raw }
 type ProductProps struct {
 	Density         float64 `json:"density_kg_m3"`
 	SpecificHeat    float64 `json:"specific_heat_J_kgK"`
-	MassFlow        float64 `json:"mass_flow_kg_s"`      // at the normal rate
-	MaxMassFlow     float64 `json:"max_mass_flow_kg_s"`  // at the sealed maximum
-	ProductCapacity float64 `json:"capacity_W_K"`        // ṁ·cp at the normal rate
+	MassFlow        float64 `json:"mass_flow_kg_s"`     // at the normal rate
+	MaxMassFlow     float64 `json:"max_mass_flow_kg_s"` // at the sealed maximum
+	ProductCapacity float64 `json:"capacity_W_K"`       // ṁ·cp at the normal rate
 	FromComposition bool    `json:"from_composition"`
 }
 

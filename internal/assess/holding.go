@@ -26,7 +26,7 @@ type RowOut struct {
 	TimeS           float64 `json:"time_s"`
 	Applies         bool    `json:"applies"` // row temperature ≤ setpoint
 	RequiredLengthM float64 `json:"required_length_m"`
-	MaxFlowM3s      float64 `json:"max_flow_m3_s"` // largest flow up to which every flow meets the row
+	MaxFlowM3s      float64 `json:"max_flow_m3_s"`   // largest flow up to which every flow meets the row
 	MaxFlowCapped   bool    `json:"max_flow_capped"` // the search stopped at 20× the sealed maximum: at least this
 }
 

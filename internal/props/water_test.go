@@ -8,9 +8,9 @@ import (
 func TestIF97Region1Table5(t *testing.T) {
 	// Expected values: IAPWS R7-97(2012), Table 5 (verification values for region 1).
 	tests := []struct {
-		name         string
-		T, p         float64 // K, Pa
-		v, h, cp     float64 // m³/kg, J/kg, J/(kg·K); 0 = not tabulated here
+		name     string
+		T, p     float64 // K, Pa
+		v, h, cp float64 // m³/kg, J/kg, J/(kg·K); 0 = not tabulated here
 	}{
 		{"300 K 3 MPa", 300, 3e6, 0.100215168e-2, 115.331273e3, 4.17301218e3},
 		{"300 K 80 MPa", 300, 80e6, 0.971180894e-3, 184.142828e3, 4.01008987e3},

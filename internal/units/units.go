@@ -151,9 +151,9 @@ var table = map[string]unitDef{
 	"Wh": {3600, dEnergy, false, 0}, "kWh": {3.6e6, dEnergy, false, 0},
 	"Btu": {btu, dEnergy, true, 0}, "BTU": {btu, dEnergy, true, 0},
 	"kcal": {4186.8, dEnergy, false, 0},
-	"W": {1, dPower, false, 0}, "kW": {1e3, dPower, false, 0}, "MW": {1e6, dPower, false, 0},
+	"W":    {1, dPower, false, 0}, "kW": {1e3, dPower, false, 0}, "MW": {1e6, dPower, false, 0},
 	"cP": {1e-3, dVisc, false, 0}, "cp": {1e-3, dVisc, false, 0},
-	"K": {1, dTemp, false, tempK},
+	"K":  {1, dTemp, false, tempK},
 	"°C": {1, dTemp, false, tempC}, "degC": {1, dTemp, false, tempC}, "℃": {1, dTemp, false, tempC},
 	"°F": {5.0 / 9.0, dTemp, true, tempF}, "degF": {5.0 / 9.0, dTemp, true, tempF}, "℉": {5.0 / 9.0, dTemp, true, tempF},
 }
