@@ -421,7 +421,7 @@ func axisRange(lo, hi float64) (float64, float64, float64) {
 	if hi-lo < 1e-9 {
 		lo, hi = lo-1, hi+1
 	}
-	raw := (hi - lo) / 6
+	raw := (hi - lo) / 8
 	mag := math.Pow(10, math.Floor(math.Log10(raw)))
 	step := mag
 	for _, m := range []float64{1, 2, 2.5, 5, 10} {
@@ -463,7 +463,8 @@ func (r *renderer) diagram(dg Diagram) {
 			lo, hi = math.Min(lo, v), math.Max(hi, v)
 		}
 	}
-	ymin, ymax, step := axisRange(lo, hi)
+	pad := (hi - lo) * 0.05 // headroom for the labels, which sit above their points
+	ymin, ymax, step := axisRange(lo, hi+pad)
 	Y := func(v float64) float64 { return top + height - (v-ymin)/(ymax-ymin)*height }
 	// grid and axis
 	f.SetLineWidth(0.1)
@@ -488,6 +489,13 @@ func (r *renderer) diagram(dg Diagram) {
 	f.SetXY(left+width-40, Y(dg.Setpoint)-4)
 	f.CellFormat(40, 3.6, fmt.Sprintf("diversion setpoint %.1f %s", dg.Setpoint, dg.Unit), "", 0, "R", false, 0, "")
 	f.SetTextColor(0, 0, 0)
+	type valueLabel struct {
+		x, y, v float64
+		left    bool
+		col     [3]int
+		bold    bool
+	}
+	var labels []valueLabel
 	for i, s := range dg.Segments {
 		x0 := left + float64(i)*segW
 		x1 := x0 + segW
@@ -510,28 +518,59 @@ func (r *renderer) diagram(dg Diagram) {
 			f.Line(x0+2, Y(s.OtherAtLeft), x1-2, Y(s.OtherAtRight))
 			f.SetDashPattern(nil, 0)
 			r.arrow(x0+2, Y(s.OtherAtLeft), x1-2, Y(s.OtherAtRight), s.OtherLeftward, col)
-			f.SetTextColor(col[0], col[1], col[2])
-			r.font("", smallSize-0.5)
-			r.label(x0+1, Y(s.OtherAtLeft), s.OtherAtLeft, true)
-			r.label(x1-1, Y(s.OtherAtRight), s.OtherAtRight, false)
-			f.SetTextColor(0, 0, 0)
+			labels = append(labels, valueLabel{x0 + 3, Y(s.OtherAtLeft) - 0.5, s.OtherAtLeft, true, col, false},
+				valueLabel{x1 - 3, Y(s.OtherAtRight) - 0.5, s.OtherAtRight, false, col, false})
 		}
 		// product
 		r.setDraw(colProduct)
 		f.SetLineWidth(0.9)
 		f.Line(x0, Y(s.ProductIn), x1, Y(s.ProductOut))
-		f.SetTextColor(colProduct[0], colProduct[1], colProduct[2])
-		r.font("B", smallSize-0.5)
 		if i == 0 {
-			r.label(x0+1, Y(s.ProductIn)+4, s.ProductIn, true)
+			labels = append(labels, valueLabel{x0 + 1, Y(s.ProductIn) + 4.5, s.ProductIn, true, colProduct, true})
 		}
-		r.label(x1-1, Y(s.ProductOut)+4, s.ProductOut, false)
-		f.SetTextColor(0, 0, 0)
+		labels = append(labels, valueLabel{x1 - 1, Y(s.ProductOut) + 4.5, s.ProductOut, false, colProduct, true})
 		// segment label under the plot
 		r.font("", smallSize-0.5)
 		f.SetXY(x0, top+height+1.5)
 		f.MultiCell(segW, 3.2, printable(s.Label), "", "C", false)
 	}
+	// value labels last, on white, so that no line crosses them; a label that
+	// would cover one already placed moves down (or up) a step.
+	type box struct{ x0, y0, x1, y1 float64 }
+	var placed []box
+	overlaps := func(b box) bool {
+		for _, p := range placed {
+			if b.x0 < p.x1 && p.x0 < b.x1 && b.y0 < p.y1 && p.y0 < b.y1 {
+				return true
+			}
+		}
+		return false
+	}
+	for _, l := range labels {
+		style := ""
+		if l.bold {
+			style = "B"
+		}
+		r.font(style, smallSize-0.5)
+		w := f.GetStringWidth(fmt.Sprintf("%.1f", l.v)) + 1
+		at := func(y float64) box {
+			if l.left {
+				return box{l.x, y - 3.6, l.x + w, y - 0.4}
+			}
+			return box{l.x - w, y - 3.6, l.x, y - 0.4}
+		}
+		y := l.y
+		for _, dy := range []float64{0, -3.6, 3.6, -7.2, 7.2} {
+			if !overlaps(at(l.y + dy)) {
+				y = l.y + dy
+				break
+			}
+		}
+		placed = append(placed, at(y))
+		f.SetTextColor(l.col[0], l.col[1], l.col[2])
+		r.label(l.x, y, l.v, l.left)
+	}
+	f.SetTextColor(0, 0, 0)
 	// frame
 	f.SetDrawColor(0, 0, 0)
 	f.SetLineWidth(0.3)
