@@ -298,3 +298,29 @@ func TestPlatesFor(t *testing.T) {
 		}
 	}
 }
+
+func TestArrangementComparison(t *testing.T) {
+	// Issue check, computed from the ε–NTU relations (Incropera Table 11.4): at a
+	// regeneration ratio of 0.45 with C_r = 1, counterflow needs NTU = 0.45/0.55 =
+	// 0.818182 and co-current NTU = −ln(1 − 0.9)/2 = 1.151293, so co-current needs
+	// 1.151293/0.818182 = 1.407 times the area; at 0.5 co-current is impossible.
+	sec, err := Regeneration(RegenSpec{Surface: Surface{U: 3000, PlateArea: 0.3}, Ratio: 0.45}, 10000, 5, 75)
+	if err != nil {
+		t.Fatal(err)
+	}
+	co, err := AreaInArrangement(sec, OtherArrangement(sec.Arrangement))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ratio := co / sec.RequiredArea; !near(ratio, math.Log(10)/2/(0.45/0.55), 1e-12) || !near(ratio, 1.407, 0.001) {
+		t.Errorf("co-current/counterflow area %g, want 1.407", ratio)
+	}
+	same, _ := AreaInArrangement(sec, Counterflow)
+	if !near(same, sec.RequiredArea, 1e-12) {
+		t.Errorf("same arrangement area %g vs %g", same, sec.RequiredArea)
+	}
+	sec, _ = Regeneration(RegenSpec{Surface: Surface{U: 3000, PlateArea: 0.3}, Ratio: 0.5}, 10000, 5, 75)
+	if _, err := AreaInArrangement(sec, Cocurrent); !IsInfeasible(err) {
+		t.Errorf("co-current at 0.5: %v", err)
+	}
+}

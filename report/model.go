@@ -28,6 +28,8 @@ type Options struct {
 	Date       time.Time // the record date; also the PDF creation date
 	PlantBytes []byte    // the plant file exactly as read (attached, hashed)
 	PlantName  string    // file name for the attachment
+	// WhatIf, when set, adds the added-plates page (ratio and payback against plates).
+	WhatIf *assess.WhatIf
 }
 
 // Document is the record's content, in reading order.
@@ -190,7 +192,11 @@ func Build(res *assess.Result, opts Options) *Document {
 	if res.HoldingTube != nil {
 		doc.Sections = append(doc.Sections, holdingSection(res, d))
 	}
-	doc.Sections = append(doc.Sections, checksSection(res, d), cautionSection(res), signOffSection())
+	doc.Sections = append(doc.Sections, checksSection(res, d))
+	if opts.WhatIf != nil {
+		doc.Sections = append(doc.Sections, whatIfSection(opts.WhatIf, res, d))
+	}
+	doc.Sections = append(doc.Sections, cautionSection(res), signOffSection())
 	return doc
 }
 
@@ -524,4 +530,65 @@ func signOffSection() Section {
 		Paragraph{Text: "Signatures confirm that the inputs describe the plant as built and that the results were reviewed; they do not make this record a regulatory approval."},
 		SignOff{Roles: []string{"Prepared by", "Reviewed by", "Approved by"}},
 	}}
+}
+
+// WhatIfSweep is the sweep of added plates a record shows: about ten steps up
+// to doubling the installed plates.
+func WhatIfSweep(plates int) []int {
+	step := max(1, (plates+5)/10)
+	var out []int
+	for a := step; a <= max(plates, 10); a += step {
+		out = append(out, a)
+	}
+	return out
+}
+
+func whatIfSection(w *assess.WhatIf, res *assess.Result, d present.Display) Section {
+	duty := "kW"
+	if d.Sys == units.US {
+		duty = "Btu/h"
+	}
+	t := Table{Caption: "The whole line recomputed with plates added to the regenerator (normal rate).",
+		Columns: []Column{{Title: "added", Right: true}, {Title: "plates", Right: true}, {Title: "ratio", Right: true},
+			{Title: "heating " + duty, Right: true}, {Title: "saved " + duty, Right: true}, {Title: "energy kWh/yr", Right: true},
+			{Title: "cost " + w.Currency + "/yr", Right: true}, {Title: "payback years", Right: true}, {Title: "checks"}}}
+	ratio := Plot{Caption: "Regeneration ratio against regeneration plates.", XLabel: "regeneration plates", YLabel: "regeneration ratio, %"}
+	payback := Plot{Caption: "Simple payback against added plates.", XLabel: "added plates", YLabel: "payback, years"}
+	rs := Series{Name: "regeneration ratio"}
+	ps := Series{Name: "payback"}
+	for _, o := range append([]assess.PlatesOption{w.Baseline}, w.Options...) {
+		energy, cost, pb := "—", "—", "—"
+		if o.AnnualEnergySavedKWh != nil && o.AddedPlates > 0 {
+			energy, cost = fmt.Sprintf("%.0f", *o.AnnualEnergySavedKWh), fmt.Sprintf("%.0f", *o.AnnualCostSaved)
+		}
+		if o.PaybackYears != nil {
+			pb = fmt.Sprintf("%.2f", *o.PaybackYears)
+			ps.X = append(ps.X, float64(o.AddedPlates))
+			ps.Y = append(ps.Y, *o.PaybackYears)
+		}
+		checks := "all pass"
+		if !o.ChecksPass {
+			checks = "FAIL: " + strings.Join(o.FailedChecks, ", ")
+		}
+		added := fmt.Sprintf("+%d", o.AddedPlates)
+		if o.AddedPlates == 0 {
+			added = "baseline"
+		}
+		t.Rows = append(t.Rows, []string{added, fmt.Sprint(o.Plates), fmt.Sprintf("%.1f %%", o.RegenerationRatio*100),
+			d.Power(o.HeatingDutyKW * 1e3), d.Power((o.HeatingSavedKW + o.CoolingSavedKW) * 1e3), energy, cost, pb, checks})
+		rs.X = append(rs.X, float64(o.Plates))
+		rs.Y = append(rs.Y, o.RegenerationRatio*100)
+	}
+	ratio.Series = []Series{rs}
+	blocks := []Block{t, ratio}
+	if len(ps.X) > 1 {
+		payback.Series = []Series{ps}
+		blocks = append(blocks, payback)
+	}
+	notes := []string{"Saved is heating plus cooling: each equals C · Δratio · (setpoint − raw inlet)."}
+	if w.KneeAdded != nil {
+		notes = append(notes, fmt.Sprintf("Knee: beyond +%d plates each further 10 plates save less than %.0f %% of what the first 10 saved.", *w.KneeAdded, w.KneeFraction*100))
+	}
+	blocks = append(blocks, Bullets{Items: notes})
+	return Section{Heading: "What if: added regeneration plates", Blocks: blocks}
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 	"time"
 
@@ -433,6 +434,18 @@ func axisRange(lo, hi float64) (float64, float64, float64) {
 	return math.Floor(lo/step) * step, math.Ceil(hi/step) * step, step
 }
 
+// tick formats an axis value with as many decimals as the step needs.
+func tick(v, step float64) string {
+	dec := 0
+	for s := step; s < 0.999999 && dec < 6; s *= 10 {
+		dec++
+	}
+	if math.Abs(step*math.Pow(10, float64(dec))-math.Round(step*math.Pow(10, float64(dec)))) > 1e-6 {
+		dec++ // steps such as 2.5
+	}
+	return strconv.FormatFloat(v, 'f', dec, 64)
+}
+
 func (r *renderer) ensure(h float64) {
 	_, ph := r.f.GetPageSize()
 	if r.f.GetY()+h > ph-margin-4 {
@@ -470,10 +483,11 @@ func (r *renderer) diagram(dg Diagram) {
 	f.SetLineWidth(0.1)
 	r.setDraw(colGrid)
 	r.font("", smallSize)
-	for v := ymin; v <= ymax+step/2; v += step {
+	for i := 0; ymin+float64(i)*step <= ymax+step/2; i++ {
+		v := ymin + float64(i)*step
 		f.Line(left, Y(v), left+width, Y(v))
 		f.SetXY(margin, Y(v)-1.8)
-		f.CellFormat(12, 3.6, fmt.Sprintf("%g", v), "", 0, "R", false, 0, "")
+		f.CellFormat(12, 3.6, tick(v, step), "", 0, "R", false, 0, "")
 	}
 	f.SetXY(margin, top-5.5)
 	f.CellFormat(12, 3.6, printable(dg.Unit), "", 0, "R", false, 0, "")
@@ -645,12 +659,15 @@ func (r *renderer) plot(p Plot) {
 	left := margin + 14
 	width := r.w - 18
 	height := plotH - 20
-	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), 0.0, math.Inf(-1)
+	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	for _, s := range p.Series {
 		for i := range s.X {
 			xlo, xhi = math.Min(xlo, s.X[i]), math.Max(xhi, s.X[i])
-			yhi = math.Max(yhi, s.Y[i])
+			ylo, yhi = math.Min(ylo, s.Y[i]), math.Max(yhi, s.Y[i])
 		}
+	}
+	if ylo > 0 && ylo < 0.5*yhi {
+		ylo = 0 // start at zero unless the data sit far above it
 	}
 	x0, x1, xs := axisRange(xlo, xhi)
 	y0, y1, ys := axisRange(ylo, yhi)
@@ -659,15 +676,17 @@ func (r *renderer) plot(p Plot) {
 	f.SetLineWidth(0.1)
 	r.setDraw(colGrid)
 	r.font("", smallSize)
-	for v := y0; v <= y1+ys/2; v += ys {
+	for i := 0; y0+float64(i)*ys <= y1+ys/2; i++ {
+		v := y0 + float64(i)*ys
 		f.Line(left, Y(v), left+width, Y(v))
 		f.SetXY(margin, Y(v)-1.8)
-		f.CellFormat(12, 3.6, fmt.Sprintf("%g", v), "", 0, "R", false, 0, "")
+		f.CellFormat(12, 3.6, tick(v, ys), "", 0, "R", false, 0, "")
 	}
-	for v := x0; v <= x1+xs/2; v += xs {
+	for i := 0; x0+float64(i)*xs <= x1+xs/2; i++ {
+		v := x0 + float64(i)*xs
 		f.Line(X(v), top, X(v), top+height)
 		f.SetXY(X(v)-8, top+height+0.8)
-		f.CellFormat(16, 3.6, fmt.Sprintf("%g", v), "", 0, "C", false, 0, "")
+		f.CellFormat(16, 3.6, tick(v, xs), "", 0, "C", false, 0, "")
 	}
 	f.SetDrawColor(0, 0, 0)
 	f.SetLineWidth(0.3)
@@ -689,6 +708,16 @@ func (r *renderer) plot(p Plot) {
 		items[i] = legendItem{s.Name, seriesCols[i%len(seriesCols)], false}
 	}
 	r.legend(left, top+height+9, items)
+	// points, so that a short series still reads
+	for i, s := range p.Series {
+		col := seriesCols[i%len(seriesCols)]
+		f.SetFillColor(col[0], col[1], col[2])
+		if len(s.X) <= 30 {
+			for j := range s.X {
+				f.Circle(X(s.X[j]), Y(s.Y[j]), 0.7, "F")
+			}
+		}
+	}
 	f.SetY(top + height + 15)
 }
 

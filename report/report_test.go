@@ -194,3 +194,59 @@ func TestPrintable(t *testing.T) {
 		t.Errorf("printable(%q)", got)
 	}
 }
+
+func TestTickLabels(t *testing.T) {
+	// Axis labels carry the step's decimals and no floating-point noise.
+	for _, c := range []struct {
+		v, step float64
+		want    string
+	}{{3.8000000000000016, 0.2, "3.8"}, {20, 10, "20"}, {2.5, 2.5, "2.5"}, {0.05, 0.05, "0.05"}, {-20, 20, "-20"}} {
+		if got := tick(c.v, c.step); got != c.want {
+			t.Errorf("tick(%v, %v) = %q, want %q", c.v, c.step, got, c.want)
+		}
+	}
+}
+
+func TestWhatIfPage(t *testing.T) {
+	// With an economics block and a rated regenerator the record gains the what-if
+	// page: a table row per option and the ratio and payback plots.
+	p, err := plantfile.Load("../testdata/demo/cider-us.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, _ := assess.Run(p)
+	w, err := assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction)
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := Build(res, Options{Date: day, PlantBytes: p.Source, WhatIf: w})
+	for _, s := range doc.Sections {
+		if s.Heading != "What if: added regeneration plates" {
+			continue
+		}
+		plots, rows := 0, 0
+		for _, b := range s.Blocks {
+			switch v := b.(type) {
+			case Plot:
+				plots++
+			case Table:
+				rows = len(v.Rows)
+			}
+		}
+		if plots != 2 || rows != len(w.Options)+1 {
+			t.Errorf("what-if page: %d plots, %d rows", plots, rows)
+		}
+		return
+	}
+	t.Error("no what-if page")
+}
+
+func TestWhatIfSweep(t *testing.T) {
+	// About ten steps up to doubling the plates (the project's choice, README).
+	if got := WhatIfSweep(40); len(got) != 10 || got[0] != 4 || got[9] != 40 {
+		t.Errorf("WhatIfSweep(40) = %v", got)
+	}
+	if got := WhatIfSweep(3); got[0] != 1 || got[len(got)-1] != 10 {
+		t.Errorf("WhatIfSweep(3) = %v", got)
+	}
+}

@@ -86,6 +86,9 @@ var badCases = map[string]badCase{
 	"organisms-without-tube":         {1, "holding_tube", "judged in the holding tube"},
 	"legal-row-bare-time":            {25, "legal_minimums[0].time", "has no unit"},
 	"pu-not-boolean":                 {18, "holding_tube.pu", "true or false"},
+	"economics-negative-price":       {33, "economics.heat_price_per_kWh", "cannot be negative"},
+	"economics-missing-plate-cost":   {31, "economics.plate_cost", "missing"},
+	"economics-hours":                {31, "economics.operating_hours_per_year", "8784 hours"},
 }
 
 const badDir = "../../testdata/bad"

@@ -21,6 +21,8 @@ type checkOptions struct {
 	record string // also write the validation record here
 	date   string // record date YYYY-MM-DD
 	force  bool   // overwrite the record
+	// compare adds the area each section would need in the other arrangement.
+	compare bool
 }
 
 func newCheckCmd(stdout io.Writer) *cobra.Command {
@@ -48,6 +50,7 @@ and each check with PASS or FAIL, the required and actual values and the margin.
 	cmd.Flags().StringVar(&opts.record, "record", "", "also write the validation record (PDF) to this file, as 'pasval report' does")
 	cmd.Flags().StringVar(&opts.date, "date", "", "record date YYYY-MM-DD for --record (default: today)")
 	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the --record file if it exists")
+	cmd.Flags().BoolVar(&opts.compare, "compare-arrangements", false, "also show the area each section would need in the other arrangement (counterflow / co-current)")
 	return cmd
 }
 
@@ -83,6 +86,9 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 	res, err := assess.Run(p)
 	if err != nil {
 		return err
+	}
+	if opts.compare {
+		assess.CompareArrangements(res)
 	}
 	if opts.record != "" {
 		// Written first, so that a refusal (file exists) comes before any output.
@@ -133,6 +139,9 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display) {
 
 	if len(res.Sections) > 0 {
 		writeSections(w, res, d)
+	}
+	if len(res.ArrangementComparison) > 0 {
+		writeComparison(w, res, d)
 	}
 	if res.HoldingTube != nil {
 		writeHolding(w, res, d)
@@ -234,4 +243,26 @@ func writeChecks(w io.Writer, res *assess.Result, d present.Display) {
 	} else {
 		fmt.Fprintf(w, "\nResult: FAIL, %d of %d checks fail\n", failed, len(res.Checks))
 	}
+}
+
+func writeComparison(w io.Writer, res *assess.Result, d present.Display) {
+	au := d.Unit(units.Area)
+	fmt.Fprintln(w, "\nArrangement comparison (same duty between the same temperatures)")
+	t := newTable("section", "arrangement", ">area "+au, "other", ">other area "+au, ">ratio", "note")
+	for _, c := range res.ArrangementComparison {
+		label := c.Section
+		if c.Stage != "" {
+			label += ": " + c.Stage
+		}
+		other, ratio := "impossible", "—"
+		if c.OtherAreaM2 != nil {
+			other, ratio = d.Num(*c.OtherAreaM2, units.Area, 2), fmt.Sprintf("%.3f×", *c.AreaRatio)
+		}
+		note := c.Note
+		if c.OtherAreaM2 != nil {
+			note = ""
+		}
+		t.add(label, c.Arrangement, d.Num(c.AreaM2, units.Area, 2), c.Other, other, ratio, note)
+	}
+	t.write(w)
 }

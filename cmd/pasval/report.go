@@ -95,7 +95,15 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if same, _ := sameFile(path, res.Plant.File); same {
 		return usagef("the record %s would overwrite the plant file", path)
 	}
-	doc := report.Build(res, report.Options{Date: date, PlantBytes: res.Plant.Source, PlantName: filepath.Base(res.Plant.File)})
+	opts := report.Options{Date: date, PlantBytes: res.Plant.Source, PlantName: filepath.Base(res.Plant.File)}
+	if p := res.Plant; p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0 {
+		w, err := assess.AddPlates(p, report.WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction)
+		if err != nil {
+			return err
+		}
+		opts.WhatIf = w
+	}
+	doc := report.Build(res, opts)
 	pdf, pages, err := report.Render(doc)
 	if err != nil {
 		return err

@@ -57,7 +57,7 @@ authority and the local regulator.`,
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
-	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newInitCmd(stdout))
+	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout))
 	return root
 }
 

@@ -96,6 +96,8 @@ type Result struct {
 	Sections          []Section    `json:"sections"`
 	RegenerationRatio *float64     `json:"regeneration_ratio"`
 	HoldingTube       *HoldingTube `json:"holding_tube,omitempty"`
+	// ArrangementComparison is filled by CompareArrangements (check --compare-arrangements).
+	ArrangementComparison []ArrangementComparison `json:"arrangement_comparison,omitempty"`
 	Lethality         []Lethality  `json:"lethality"`
 	Checks            []Check      `json:"checks"`
 	Warnings          []string     `json:"warnings"`

@@ -92,6 +92,17 @@ type Plant struct {
 	HoldingTube   *HoldingTube
 	Organisms     []Organism
 	LegalMinimums []LegalRow
+	Economics     *Economics
+}
+
+// Economics prices energy and plates for the what-if of added regeneration plates.
+type Economics struct {
+	Currency              string  // free text, e.g. USD
+	OperatingHoursPerYear float64 // h/yr, 0–8784
+	HeatPricePerKWh       float64 // per kWh of heat delivered to the heating medium
+	CoolingPricePerKWh    float64 // per kWh of heat removed by the cooling medium
+	PlateCost             float64 // per added plate, installed
+	Pos                   Pos
 }
 
 // RecordField is a free-text line for reports (site, line, product, …).

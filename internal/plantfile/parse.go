@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"regexp"
 	"strconv"
@@ -23,7 +24,7 @@ const MaxFileSize = 1 << 20
 
 // Top-level keys, in the order the documentation gives them.
 var topKeys = []string{"record", "product", "flow", "process", "regeneration", "heating", "cooling",
-	"holding_tube", "organisms", "legal_minimums"}
+	"holding_tube", "organisms", "legal_minimums", "economics"}
 
 var recordKeys = []string{"site", "line", "product", "schedule", "prepared_by", "notes"}
 
@@ -250,6 +251,7 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 			}
 		}
 	}
+	defer d.decodeEconomics(p, top)
 	defer d.decodeHolding(p, top)
 	if prod := top.sub("product", true, "name", "density", "specific_heat", "conductivity", "composition", "viscosity", "power_law"); prod != nil {
 		d.decodeProduct(&p.Product, prod)
@@ -350,6 +352,38 @@ func (d *decoder) decodeHolding(p *Plant, top *object) {
 			Temperature: o.quantity("temperature", units.Temperature, true),
 			Time:        o.quantity("time", units.Time, true)})
 	}
+}
+
+func (d *decoder) decodeEconomics(p *Plant, top *object) {
+	ec := top.sub("economics", false, "currency", "operating_hours_per_year", "heat_price_per_kWh", "cooling_price_per_kWh", "plate_cost")
+	if ec == nil {
+		return
+	}
+	e := &Economics{Pos: d.pos(ec.node), Currency: ec.text("currency", false)}
+	if e.Currency == "" {
+		e.Currency = "currency units"
+	}
+	for _, f := range []struct {
+		key string
+		dst *float64
+		max float64
+	}{
+		{"operating_hours_per_year", &e.OperatingHoursPerYear, 8784},
+		{"heat_price_per_kWh", &e.HeatPricePerKWh, math.Inf(1)},
+		{"cooling_price_per_kWh", &e.CoolingPricePerKWh, math.Inf(1)},
+		{"plate_cost", &e.PlateCost, math.Inf(1)},
+	} {
+		v, pos, ok := ec.number(f.key, true)
+		if ok && !(v >= 0 && v <= f.max) {
+			what := "a price cannot be negative"
+			if f.key == "operating_hours_per_year" {
+				what = "expected 0 to 8784 hours a year"
+			}
+			d.errs = append(d.errs, &Error{Pos: pos, Field: "economics." + f.key, Msg: fmt.Sprintf("%s, found %g", what, v)})
+		}
+		*f.dst = v
+	}
+	p.Economics = e
 }
 
 func (d *decoder) decodeProduct(pr *Product, o *object) {

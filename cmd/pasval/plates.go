@@ -1,0 +1,213 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"pasval/internal/assess"
+	"pasval/internal/plantfile"
+	"pasval/internal/present"
+	"pasval/internal/units"
+)
+
+type platesOptions struct {
+	file  string
+	add   string // "10,20,40"
+	sweep string // "FROM:TO:STEP"
+	knee  float64
+	units string
+	json  bool
+}
+
+func newPlatesCmd(stdout io.Writer) *cobra.Command {
+	var opts platesOptions
+	cmd := &cobra.Command{
+		Use:   "plates PLANT.yaml (--add N,N,… | --sweep FROM:TO:STEP)",
+		Short: "What if the regenerator had more plates: ratio, duties, energy, money, payback",
+		Long: `plates recomputes the whole line with plates added to a rated regenerator
+(plates: N in the plant file) and prints, for the baseline and each option,
+the regeneration ratio, the temperatures leaving regeneration, the heating and
+cooling duties, the heating-medium inlet needed and cooling outlet reached
+(when those sections are rated), whether every check still passes, and the
+savings. With an economics block the savings are priced:
+
+  heating saved = cooling saved = C · Δratio · (setpoint − raw inlet)
+  annual cost saved = (heating saved · heat price + cooling saved · cooling price) · hours
+  payback = added plates · plate cost / annual cost saved
+
+--sweep also marks the knee: beyond it each further 10 plates save less than
+--knee-fraction of what the first 10 saved.`,
+		Example: `  pasval plates testdata/demo/cider-us.yaml --add 10,20,40
+  pasval plates line2.yaml --sweep 5:60:5
+  pasval plates line2.yaml --add 20 --json`,
+		Args: argsFile,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.file = args[0]
+			return runPlates(opts, stdout)
+		},
+	}
+	cmd.Long += "\n" + exitStatusHelp + "\n  (1 here: the baseline or an option fails a check)"
+	cmd.Flags().StringVar(&opts.add, "add", "", "plates to add, comma-separated (e.g. 10,20,40)")
+	cmd.Flags().StringVar(&opts.sweep, "sweep", "", "a range of added plates FROM:TO:STEP (e.g. 5:60:5)")
+	cmd.Flags().Float64Var(&opts.knee, "knee-fraction", assess.DefaultKneeFraction, "knee: where 10 more plates save less than this fraction of the first 10")
+	cmd.Flags().StringVar(&opts.units, "units", "", "units for printed values: si or us (default: us when the hold setpoint is in °F)")
+	cmd.Flags().BoolVar(&opts.json, "json", false, "print the results as JSON (SI units, every key names its unit)")
+	return cmd
+}
+
+// parseAdded reads --add or --sweep into a list of added plates.
+func parseAdded(add, sweep string) ([]int, error) {
+	if (add == "") == (sweep == "") {
+		return nil, usagef("give exactly one of --add N,N,… and --sweep FROM:TO:STEP")
+	}
+	if add != "" {
+		var out []int
+		for _, f := range strings.Split(add, ",") {
+			n, err := strconv.Atoi(strings.TrimSpace(f))
+			if err != nil || n < 1 || n > 10000 {
+				return nil, usagef("--add takes whole numbers of plates from 1 to 10000, not %q", f)
+			}
+			out = append(out, n)
+		}
+		return out, nil
+	}
+	parts := strings.Split(sweep, ":")
+	if len(parts) != 3 {
+		return nil, usagef("--sweep takes FROM:TO:STEP, e.g. 5:60:5, not %q", sweep)
+	}
+	var v [3]int
+	for i, s := range parts {
+		n, err := strconv.Atoi(strings.TrimSpace(s))
+		if err != nil {
+			return nil, usagef("--sweep takes whole numbers FROM:TO:STEP, not %q", sweep)
+		}
+		v[i] = n
+	}
+	from, to, step := v[0], v[1], v[2]
+	if from < 1 || to < from || step < 1 || to > 10000 || (to-from)/step > 200 {
+		return nil, usagef("--sweep %q: need 1 ≤ FROM ≤ TO ≤ 10000, STEP ≥ 1 and at most 200 options", sweep)
+	}
+	var out []int
+	for n := from; n <= to; n += step {
+		out = append(out, n)
+	}
+	return out, nil
+}
+
+func runPlates(opts platesOptions, out io.Writer) error {
+	added, err := parseAdded(opts.add, opts.sweep)
+	if err != nil {
+		return err
+	}
+	if !(opts.knee > 0 && opts.knee < 1) {
+		return usagef("--knee-fraction must be between 0 and 1, not %g", opts.knee)
+	}
+	if opts.units != "" && opts.units != "si" && opts.units != "us" {
+		return usagef("--units must be si or us, not %q", opts.units)
+	}
+	p, err := plantfile.Load(opts.file)
+	if err != nil {
+		return err
+	}
+	sys, err := parseSystem(opts.units, p)
+	if err != nil {
+		return err
+	}
+	w, err := assess.AddPlates(p, added, opts.knee)
+	if err != nil {
+		return err
+	}
+	if opts.json {
+		enc := json.NewEncoder(out)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(w); err != nil {
+			return err
+		}
+	} else {
+		writePlates(out, p, w, present.Display{Sys: sys}, opts.sweep != "")
+	}
+	if !w.Baseline.ChecksPass {
+		return errChecksFailed
+	}
+	for _, o := range w.Options {
+		if !o.ChecksPass {
+			return errChecksFailed
+		}
+	}
+	return nil
+}
+
+func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.Display, sweep bool) {
+	fmt.Fprintf(w, "pasval · added regeneration plates for %s\n", p.File)
+	duty := "kW"
+	if d.Sys == units.US {
+		duty = "Btu/h"
+	}
+	tu := d.Unit(units.Temperature)
+	all := append([]assess.PlatesOption{wi.Baseline}, wi.Options...)
+	kneeMark := func(o assess.PlatesOption) string {
+		if wi.KneeAdded != nil && *wi.KneeAdded == o.AddedPlates {
+			return "◀ knee"
+		}
+		return ""
+	}
+	fmt.Fprintf(w, "\nLine with added plates (normal rate)\n")
+	t := newTable(">added", ">plates", ">ratio", ">raw out "+tu, ">pasteurized out "+tu, ">heating "+duty, ">cooling "+duty,
+		">medium needed "+tu, ">cooling outlet "+tu, "checks", "")
+	for _, o := range all {
+		med, cool := "—", "—"
+		if o.HeatingMediumRequiredC != nil {
+			med = d.Num(*o.HeatingMediumRequiredC, units.Temperature, 1)
+		}
+		if o.CoolingOutletC != nil {
+			cool = d.Num(*o.CoolingOutletC, units.Temperature, 1)
+		}
+		checks := "all pass"
+		if !o.ChecksPass {
+			checks = "FAIL: " + strings.Join(o.FailedChecks, ", ")
+		}
+		label := fmt.Sprintf("+%d", o.AddedPlates)
+		if o.AddedPlates == 0 {
+			label = "baseline"
+		}
+		t.add(label, fmt.Sprint(o.Plates), fmt.Sprintf("%.1f %%", o.RegenerationRatio*100), d.Num(o.RawOutC, units.Temperature, 1),
+			d.Num(o.PasteurizedOutC, units.Temperature, 1), d.Power(o.HeatingDutyKW*1e3), d.Power(o.CoolingDutyKW*1e3), med, cool, checks, kneeMark(o))
+	}
+	t.write(w)
+
+	fmt.Fprintf(w, "\nSavings against the baseline\n")
+	cur := wi.Currency
+	t = newTable(">added", ">heating saved "+duty, ">cooling saved "+duty, ">energy kWh/yr", ">cost "+cur+"/yr", ">payback years", "")
+	for _, o := range wi.Options {
+		energy, cost, payback := "—", "—", "—"
+		if o.AnnualEnergySavedKWh != nil {
+			energy = fmt.Sprintf("%.0f", *o.AnnualEnergySavedKWh)
+			cost = fmt.Sprintf("%.0f", *o.AnnualCostSaved)
+		}
+		if o.PaybackYears != nil {
+			payback = fmt.Sprintf("%.2f", *o.PaybackYears)
+		}
+		t.add(fmt.Sprintf("+%d", o.AddedPlates), d.Power(o.HeatingSavedKW*1e3), d.Power(o.CoolingSavedKW*1e3), energy, cost, payback, kneeMark(o))
+	}
+	t.write(w)
+	if p.Economics == nil {
+		fmt.Fprintln(w, "\n  (no economics block in the plant file: energy rates only, no annual figures or payback)")
+	} else {
+		e := p.Economics
+		fmt.Fprintf(w, "\n  %g operating hours a year; heat %g and cooling %g %s per kWh; %g %s per added plate installed\n",
+			e.OperatingHoursPerYear, e.HeatPricePerKWh, e.CoolingPricePerKWh, e.Currency, e.PlateCost, e.Currency)
+	}
+	if sweep {
+		if wi.KneeAdded != nil {
+			fmt.Fprintf(w, "  knee: beyond +%d plates each further 10 plates save less than %.0f %% of what the first 10 saved\n", *wi.KneeAdded, wi.KneeFraction*100)
+		} else {
+			fmt.Fprintf(w, "  no knee in this range: every 10 plates still save at least %.0f %% of what the first 10 saved\n", wi.KneeFraction*100)
+		}
+	}
+	fmt.Fprint(w, "\n"+wrap(wi.Caution, "Caution:", 88))
+}

@@ -1,0 +1,116 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func TestPlatesCommand(t *testing.T) {
+	path := filepath.Join(demoDir, "cider-us.yaml")
+	out, errs, code := runBinary(t, "plates", path, "--add", "10,20,40")
+	if code != 0 {
+		t.Fatalf("exit %d %s", code, errs)
+	}
+	for _, want := range []string{"baseline", "+10", "+20", "+40", "payback years", "USD", "Caution:"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q", want)
+		}
+	}
+	out, _, code = runBinary(t, "plates", path, "--add", "20,10,40", "--json")
+	var w struct {
+		Baseline struct {
+			Plates            int
+			RegenerationRatio float64 `json:"regeneration_ratio"`
+			HeatingDutyKW     float64 `json:"heating_duty_kW"`
+			CoolingDutyKW     float64 `json:"cooling_duty_kW"`
+		}
+		Options []struct {
+			AddedPlates            int      `json:"added_plates"`
+			Plates                 int      `json:"plates"`
+			RegenerationRatio      float64  `json:"regeneration_ratio"`
+			HeatingSavedKW         float64  `json:"heating_saved_kW"`
+			CoolingSavedKW         float64  `json:"cooling_saved_kW"`
+			AnnualEnergySavedKWh   *float64 `json:"annual_energy_saved_kWh"`
+			AnnualCostSaved        *float64 `json:"annual_cost_saved"`
+			PaybackYears           *float64 `json:"payback_years"`
+			HeatingMediumRequiredC *float64 `json:"heating_medium_required_C"`
+			CoolingOutletC         *float64 `json:"cooling_outlet_C"`
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &w); err != nil || code != 0 {
+		t.Fatalf("%v exit %d", err, code)
+	}
+	if w.Baseline.Plates != 40 || len(w.Options) != 3 || w.Options[0].AddedPlates != 10 || w.Options[2].Plates != 80 {
+		t.Fatalf("options %+v", w.Options)
+	}
+	for _, o := range w.Options {
+		// ε rises with plates; savings positive and equal on both sides; payback =
+		// added × 340 USD / annual cost (economics block of the demo).
+		if !(o.RegenerationRatio > w.Baseline.RegenerationRatio) || math.Abs(o.HeatingSavedKW-o.CoolingSavedKW) > 1e-9*o.HeatingSavedKW {
+			t.Errorf("+%d: %+v", o.AddedPlates, o)
+		}
+		if o.PaybackYears == nil || math.Abs(*o.PaybackYears-float64(o.AddedPlates)*340 / *o.AnnualCostSaved) > 1e-9 {
+			t.Errorf("+%d payback %v", o.AddedPlates, o.PaybackYears)
+		}
+		if o.HeatingMediumRequiredC == nil || o.CoolingOutletC == nil {
+			t.Errorf("+%d: rated heating and cooling results missing", o.AddedPlates)
+		}
+	}
+	// Sweep with a knee.
+	out, _, code = runBinary(t, "plates", path, "--sweep", "10:150:10")
+	if code != 0 || !strings.Contains(out, "◀ knee") || !strings.Contains(out, "knee: beyond +") {
+		t.Errorf("sweep: exit %d\n%s", code, out)
+	}
+	// A sized regenerator is refused with the hint; usage errors exit 2.
+	for _, args := range [][]string{
+		{"plates", filepath.Join(demoDir, "htst-milk-si.yaml"), "--add", "10"},
+		{"plates", path},
+		{"plates", path, "--add", "10", "--sweep", "1:2:1"},
+		{"plates", path, "--add", "ten"},
+		{"plates", path, "--add", "-5"},
+		{"plates", path, "--sweep", "10:5:1"},
+		{"plates", path, "--sweep", "1:100000:1"},
+		{"plates", path, "--add", "10", "--knee-fraction", "2"},
+	} {
+		if _, errs, code := runBinary(t, args...); code != 2 || errs == "" {
+			t.Errorf("%v: exit %d %q", args, code, errs)
+		}
+	}
+	_, errs, _ = runBinary(t, "plates", filepath.Join(demoDir, "htst-milk-si.yaml"), "--add", "10")
+	if !strings.Contains(errs, "rating mode") || !strings.Contains(errs, "regeneration.plates") {
+		t.Errorf("hint missing: %q", errs)
+	}
+}
+
+func TestCompareArrangements(t *testing.T) {
+	// The SI demo's 92 % regenerator cannot be co-current (ceiling 50 % at C_r = 1,
+	// DOMAIN.md §2); heating and cooling can, with more area.
+	out, _, code := runBinary(t, "check", "--json", "--compare-arrangements", filepath.Join(demoDir, "htst-milk-si.yaml"))
+	var r struct {
+		Comparison []struct {
+			Section     string   `json:"section"`
+			Other       string   `json:"other_arrangement"`
+			OtherAreaM2 *float64 `json:"other_area_m2"`
+			AreaRatio   *float64 `json:"area_ratio"`
+			Note        string   `json:"note"`
+		} `json:"arrangement_comparison"`
+	}
+	if err := json.Unmarshal([]byte(out), &r); err != nil || code != 0 || len(r.Comparison) != 3 {
+		t.Fatalf("%v exit %d %+v", err, code, r)
+	}
+	if c := r.Comparison[0]; c.Section != "regeneration" || c.OtherAreaM2 != nil || !strings.Contains(c.Note, "co-current flow cannot") {
+		t.Errorf("regeneration: %+v", c)
+	}
+	for _, c := range r.Comparison[1:] {
+		if c.AreaRatio == nil || !(*c.AreaRatio > 1) || c.Other != "cocurrent" {
+			t.Errorf("%s: %+v", c.Section, c)
+		}
+	}
+	text, _, _ := runBinary(t, "check", "--compare-arrangements", filepath.Join(demoDir, "htst-milk-si.yaml"))
+	if !strings.Contains(text, "Arrangement comparison") || !strings.Contains(text, "impossible") {
+		t.Errorf("text output:\n%s", text)
+	}
+}
