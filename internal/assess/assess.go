@@ -126,6 +126,7 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	if p.Regeneration != nil && p.Regeneration.Pressure != nil {
 		regeneratorPressure(p, res)
 	}
+	sanityWarnings(p, res)
 	res.Pass = true
 	for _, c := range res.Checks {
 		res.Pass = res.Pass && c.Pass

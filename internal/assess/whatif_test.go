@@ -2,6 +2,7 @@ package assess
 
 import (
 	"math"
+	"os"
 	"strings"
 	"testing"
 
@@ -127,4 +128,13 @@ func TestAddPlatesNeedsRating(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "rating mode") {
 		t.Errorf("sized regenerator: %v", err)
 	}
+}
+
+func mustRead(t *testing.T, path string) []byte {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
 }

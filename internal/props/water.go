@@ -128,3 +128,46 @@ func MediumPressure(tempC float64) float64 {
 func Water(tempC float64) (WaterState, error) {
 	return IF97Region1(tempC+273.15, MediumPressure(tempC))
 }
+
+// IAPWS 2008 viscosity constants (IAPWS R12-08, Eqs. 11–12, Tables 1–2).
+var (
+	viscH0 = [4]float64{1.67752, 2.20462, 0.6366564, -0.241605}
+	viscI  = [21]float64{0, 1, 2, 3, 0, 1, 2, 3, 5, 0, 1, 2, 3, 4, 0, 1, 0, 3, 4, 3, 5}
+	viscJ  = [21]float64{0, 0, 0, 0, 1, 1, 1, 1, 1, 2, 2, 2, 2, 2, 3, 3, 4, 4, 5, 6, 6}
+	viscH1 = [21]float64{0.520094, 0.850895e-1, -0.108374e1, -0.289555, 0.222531, 0.999115,
+		0.188797e1, 0.126613e1, 0.120573, -0.281378, -0.906851, -0.772479,
+		-0.489837, -0.257040, 0.161913, 0.257399, -0.325372e-1, 0.698452e-1,
+		0.872102e-2, -0.435673e-2, -0.593264e-3}
+)
+
+// ViscosityIAPWS2008 is the viscosity of water, Pa·s, for industrial use
+// (no critical enhancement, μ₂ = 1):
+//
+//	μ/μ* = μ₀(T̄) · μ₁(T̄, ρ̄),  T̄ = T/647.096 K,  ρ̄ = ρ/322 kg/m³,  μ* = 1 µPa·s
+//	μ₀ = 100 √T̄ / Σᵢ Hᵢ/T̄ⁱ
+//	μ₁ = exp(ρ̄ Σᵢ (1/T̄ − 1)ⁱ Σⱼ Hᵢⱼ (ρ̄ − 1)ʲ)
+//
+// T in K, ρ in kg/m³. References: IAPWS R12-08 (2008), Eqs. 10–12.
+func ViscosityIAPWS2008(tempK, density float64) float64 {
+	tr := tempK / 647.096
+	dr := density / 322.0
+	var s0 float64
+	for i, h := range viscH0 {
+		s0 += h / math.Pow(tr, float64(i))
+	}
+	mu0 := 100 * math.Sqrt(tr) / s0
+	var s1 float64
+	for k := range viscH1 {
+		s1 += math.Pow(1/tr-1, viscI[k]) * viscH1[k] * math.Pow(dr-1, viscJ[k])
+	}
+	return mu0 * math.Exp(dr*s1) * 1e-6
+}
+
+// WaterViscosity is liquid water's viscosity at tempC and MediumPressure, Pa·s.
+func WaterViscosity(tempC float64) (float64, error) {
+	w, err := Water(tempC)
+	if err != nil {
+		return 0, err
+	}
+	return ViscosityIAPWS2008(tempC+273.15, w.Density), nil
+}

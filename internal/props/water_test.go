@@ -72,3 +72,22 @@ func TestWaterAtMediumConditions(t *testing.T) {
 		t.Error("steam at 1 bar accepted as liquid")
 	}
 }
+
+func TestViscosityIAPWS2008(t *testing.T) {
+	// IAPWS R12-08, Table 4 (verification values without critical enhancement):
+	// 298.15 K, 998 kg/m³: 889.735100 µPa·s; 373.15 K, 1000 kg/m³: 307.883622 µPa·s.
+	for _, c := range []struct{ T, rho, want float64 }{
+		{298.15, 998, 889.735100e-6},
+		{373.15, 1000, 307.883622e-6},
+	} {
+		// Table 4 prints nine significant digits.
+		if got := ViscosityIAPWS2008(c.T, c.rho); math.Abs(got-c.want) > 2e-9*c.want {
+			t.Errorf("μ(%g K, %g kg/m³) = %.9g, want %.9g", c.T, c.rho, got, c.want)
+		}
+	}
+	// At 1 atm and 20 °C: 1.0016 mPa·s (computed with python3-iapws 1.5.2:
+	// _Viscosity(1/_Region1(293.15, 0.101325)["v"], 293.15)).
+	if mu, err := WaterViscosity(20); err != nil || math.Abs(mu-1.0016e-3) > 0.0001e-3 {
+		t.Errorf("water at 20 °C: %g %v", mu, err)
+	}
+}
