@@ -20,6 +20,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode"
 )
 
 // Dim holds the exponents of mass, length, time and temperature.
@@ -169,6 +170,9 @@ func init() {
 // A bare number is refused for any dimensional kind.
 func Parse(s string, k Kind) (Value, error) {
 	in := strings.TrimSpace(s)
+	if strings.IndexFunc(in, unicode.IsControl) >= 0 {
+		return Value{}, errorf(s, "%q contains a control character (a line break or tab inside the value); write the value on one line", s)
+	}
 	if in == "" {
 		return Value{}, errorf(s, "empty value: expected %s such as %s", Article(k.Name), k.Example)
 	}
