@@ -103,7 +103,7 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 			return err
 		}
 	} else {
-		writeCheck(out, res, present.Display{Sys: sys})
+		writeCheck(out, res, present.Display{Sys: sys}, useColour(out))
 	}
 	if !res.Pass {
 		return errChecksFailed
@@ -111,7 +111,7 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 	return nil
 }
 
-func writeCheck(w io.Writer, res *assess.Result, d present.Display) {
+func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool) {
 	p := res.Plant
 	fmt.Fprintf(w, "pasval %s · check of %s\n", res.Version, p.File)
 	var ids []string
@@ -146,7 +146,7 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display) {
 	if res.HoldingTube != nil {
 		writeHolding(w, res, d)
 	}
-	writeChecks(w, res, d)
+	writeChecks(w, res, d, colour)
 	if len(res.Warnings) > 0 {
 		fmt.Fprintln(w, "\nWarnings")
 		for _, m := range res.Warnings {
@@ -212,7 +212,7 @@ func mediumName(p *plantfile.Plant, s assess.Section) string {
 	return ""
 }
 
-func writeChecks(w io.Writer, res *assess.Result, d present.Display) {
+func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool) {
 	fmt.Fprintln(w, "\nChecks")
 	if len(res.Checks) == 0 {
 		fmt.Fprintln(w, "  none apply: every section is in sizing mode and no holding tube or kinetics are described")
@@ -220,6 +220,7 @@ func writeChecks(w io.Writer, res *assess.Result, d present.Display) {
 		return
 	}
 	t := newTable("check", "result", ">required", ">actual", ">margin", "note")
+	t.colour = colour
 	failed := 0
 	for _, c := range res.Checks {
 		verdict := "PASS"

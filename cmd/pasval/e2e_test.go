@@ -264,7 +264,7 @@ func TestStarterFilesCheck(t *testing.T) {
 		if code := run([]string{"init", "--units", u}, &out, &errb); code != 0 {
 			t.Fatalf("init %s: %d", u, code)
 		}
-		if !strings.HasPrefix(out.String(), "# pasval plant file") {
+		if !strings.HasPrefix(out.String(), "# yaml-language-server: $schema=pasval-plant.schema.json\n# pasval plant file") {
 			t.Errorf("init %s output starts %q", u, out.String()[:40])
 		}
 		p := filepath.Join(t.TempDir(), "starter.yaml")

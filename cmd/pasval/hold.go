@@ -105,7 +105,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 		writeSetpointTable(out, res, rep.SetpointTable, d)
 		only := *res
 		only.Checks = rep.Checks
-		writeChecks(out, &only, d)
+		writeChecks(out, &only, d, useColour(out))
 		if len(rep.Warnings) > 0 {
 			fmt.Fprintln(out, "\nWarnings")
 			for _, m := range rep.Warnings {

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -57,7 +58,17 @@ authority and the local regulator.`,
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
-	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout))
+	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
+	for _, c := range root.Commands() {
+		switch c.Name() {
+		case "check", "hold", "report", "plates":
+			c.ValidArgsFunction = completePlantFile
+		case "verify":
+			c.ValidArgsFunction = completeRecord
+		case "init", "schema":
+			c.ValidArgsFunction = cobra.NoFileCompletions
+		}
+	}
 	return root
 }
 
@@ -88,6 +99,39 @@ func exitCode(err error, stderr io.Writer) int {
 	// cobra's own argument and command errors are usage errors too.
 	fmt.Fprintf(stderr, "pasval: %s\n", strings.TrimSpace(msg))
 	return exitInput
+}
+
+// completePlantFile offers *.yaml and *.yml files for a plant-file argument.
+func completePlantFile(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
+	if len(args) > 0 {
+		return nil, cobra.ShellCompDirectiveNoFileComp
+	}
+	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+}
+
+// completeRecord offers a PDF first, then a plant file.
+func completeRecord(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
+	switch len(args) {
+	case 0:
+		return []string{"pdf"}, cobra.ShellCompDirectiveFilterFileExt
+	case 1:
+		return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+	}
+	return nil, cobra.ShellCompDirectiveNoFileComp
+}
+
+// useColour is true when w is a terminal and neither NO_COLOR nor TERM=dumb
+// asks for plain text (https://no-color.org).
+func useColour(w io.Writer) bool {
+	if os.Getenv("NO_COLOR") != "" || os.Getenv("TERM") == "dumb" {
+		return false
+	}
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }
 
 // argsFile requires exactly one plant-file argument.

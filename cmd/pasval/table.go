@@ -12,6 +12,7 @@ type table struct {
 	headers []string
 	right   []bool
 	rows    [][]string
+	colour  bool // paint PASS green and FAIL red (terminals only)
 }
 
 func newTable(headers ...string) *table {
@@ -51,6 +52,15 @@ func (t *table) write(w io.Writer) {
 			}
 			pad := strings.Repeat(" ", width[i]-utf8.RuneCountInString(c))
 			last := i == len(t.headers)-1
+			if t.colour {
+				// after measuring, so that escape codes never upset the alignment
+				switch c {
+				case "PASS":
+					c = "\x1b[32mPASS\x1b[0m"
+				case "FAIL":
+					c = "\x1b[1;31mFAIL\x1b[0m"
+				}
+			}
 			switch {
 			case t.right[i]:
 				b.WriteString(pad + c)

@@ -1,0 +1,119 @@
+package schema
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/santhosh-tekuri/jsonschema/v6"
+	"gopkg.in/yaml.v3"
+)
+
+func compile(t *testing.T) *jsonschema.Schema {
+	t.Helper()
+	raw, err := json.Marshal(PlantFile())
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(raw))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := jsonschema.NewCompiler()
+	if err := c.AddResource(ID, doc); err != nil {
+		t.Fatal(err)
+	}
+	s, err := c.Compile(ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// instance reads a YAML plant file as a JSON value; ok is false when the file
+// is not YAML that maps to JSON (those are refused before any schema applies).
+func instance(t *testing.T, path string) (any, bool) {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var v any
+	if err := yaml.Unmarshal(data, &v); err != nil || v == nil {
+		return nil, false
+	}
+	raw, err := json.Marshal(v)
+	if err != nil {
+		return nil, false
+	}
+	inst, err := jsonschema.UnmarshalJSON(bytes.NewReader(raw))
+	return inst, err == nil
+}
+
+func TestDemosAndStartersMatchTheSchema(t *testing.T) {
+	s := compile(t)
+	files, _ := filepath.Glob("../../testdata/demo/*.yaml")
+	more, _ := filepath.Glob("../../testdata/equivalence/*.yaml")
+	starters, _ := filepath.Glob("../../cmd/pasval/starter/*.yaml")
+	files = append(append(files, more...), starters...)
+	if len(files) < 6 {
+		t.Fatalf("only %d files", len(files))
+	}
+	for _, f := range files {
+		inst, ok := instance(t, f)
+		if !ok {
+			t.Errorf("%s is not YAML", f)
+			continue
+		}
+		if err := s.Validate(inst); err != nil {
+			t.Errorf("%s fails the schema: %v", f, err)
+		}
+	}
+}
+
+// structural lists the bad-input files whose fault is structural (a key, a type,
+// a missing field, a value that is not "number unit"): the schema must refuse
+// them. The other bad files are faults of dimension or of rules across fields,
+// which pasval checks and the schema need not.
+var structural = []string{
+	"typo-key", "typo-top-key", "missing-product", "missing-setpoint", "missing-unit-temperature", "missing-unit-flow",
+	"product-is-list", "ratio-and-plates", "no-ratio-no-plates", "unknown-medium", "bad-arrangement", "fractional-plates",
+	"null-value", "viscosity-bare-temperature", "organism-bare-z", "legal-row-bare-time", "pu-not-boolean", "organism-typo-key",
+	"holding-both-diameters", "economics-missing-plate-cost", "nan-value", "inf-value",
+}
+
+func TestStructurallyBadFilesFailTheSchema(t *testing.T) {
+	s := compile(t)
+	for _, name := range structural {
+		inst, ok := instance(t, filepath.Join("../../testdata/bad", name+".yaml"))
+		if !ok {
+			t.Errorf("%s: not readable as YAML", name)
+			continue
+		}
+		if err := s.Validate(inst); err == nil {
+			t.Errorf("%s passes the schema", name)
+		}
+	}
+}
+
+func TestPatterns(t *testing.T) {
+	// The schema's quantity patterns against the unit parser's own examples.
+	for _, c := range []struct {
+		pattern, in string
+		ok          bool
+	}{
+		{TemperaturePattern, "72.5 °C", true}, {TemperaturePattern, "161°F", true}, {TemperaturePattern, "72.5", false},
+		{TemperaturePattern, "72 L/h", false}, {QuantityPattern, "10000 L/h", true}, {QuantityPattern, "3.93 kJ/(kg*K)", true},
+		{QuantityPattern, "10000", false}, {QuantityPattern, "NaN kg/m3", false}, {NumberPattern, "92 %", true}, {NumberPattern, "0.92", true},
+	} {
+		if got := match(c.pattern, c.in); got != c.ok {
+			t.Errorf("%q against %s: %v", c.in, c.pattern, got)
+		}
+	}
+	if !strings.HasPrefix(ID, "https://") {
+		t.Error("schema id")
+	}
+}
