@@ -52,7 +52,7 @@ func TestPlatesCommand(t *testing.T) {
 		if !(o.RegenerationRatio > w.Baseline.RegenerationRatio) || math.Abs(o.HeatingSavedKW-o.CoolingSavedKW) > 1e-9*o.HeatingSavedKW {
 			t.Errorf("+%d: %+v", o.AddedPlates, o)
 		}
-		if o.PaybackYears == nil || math.Abs(*o.PaybackYears-float64(o.AddedPlates)*340 / *o.AnnualCostSaved) > 1e-9 {
+		if o.PaybackYears == nil || math.Abs(*o.PaybackYears - float64(o.AddedPlates)*340 / *o.AnnualCostSaved) > 1e-9 {
 			t.Errorf("+%d payback %v", o.AddedPlates, o.PaybackYears)
 		}
 		if o.HeatingMediumRequiredC == nil || o.CoolingOutletC == nil {

@@ -98,11 +98,11 @@ type Result struct {
 	HoldingTube       *HoldingTube `json:"holding_tube,omitempty"`
 	// ArrangementComparison is filled by CompareArrangements (check --compare-arrangements).
 	ArrangementComparison []ArrangementComparison `json:"arrangement_comparison,omitempty"`
-	Lethality         []Lethality  `json:"lethality"`
-	Checks            []Check      `json:"checks"`
-	Warnings          []string     `json:"warnings"`
-	Pass              bool         `json:"pass"`
-	Caution           string       `json:"caution"`
+	Lethality             []Lethality             `json:"lethality"`
+	Checks                []Check                 `json:"checks"`
+	Warnings              []string                `json:"warnings"`
+	Pass                  bool                    `json:"pass"`
+	Caution               string                  `json:"caution"`
 
 	Plant *plantfile.Plant `json:"-"`
 }

@@ -16,7 +16,7 @@ const (
 	uMin, uMax             = 300.0, 10000.0 // W/(m²·K)
 	plateAreaMin           = 0.02           // m² per plate
 	plateAreaMax           = 4.0
-	densityMin, densityMax = 950.0, 1400.0 // kg/m³, liquid foods
+	densityMin, densityMax = 950.0, 1400.0  // kg/m³, liquid foods
 	cpMin, cpMax           = 2000.0, 4300.0 // J/(kg·K)
 	foulingMax             = 1e-3           // m²·K/W
 	outerCoefficientMax    = 50.0           // W/(m²·K), a bare or insulated tube in still air
