@@ -141,6 +141,15 @@ func (Diagram) blockKind() string   { return "diagram" }
 func (Plot) blockKind() string      { return "plot" }
 func (SignOff) blockKind() string   { return "signoff" }
 
+// tableFrom turns a shared grid into a record table.
+func tableFrom(caption string, g present.Grid) Table {
+	t := Table{Caption: caption, Rows: g.Rows}
+	for i, h := range g.Headers {
+		t.Columns = append(t.Columns, Column{Title: h, Right: g.Right[i]})
+	}
+	return t
+}
+
 // Statement is printed on the cover.
 const Statement = "This record documents an engineering calculation made with pasval from the plant file " +
 	"attached to it. It is not a regulatory approval, an inspection or a process-authority letter."
@@ -218,29 +227,11 @@ func buildCover(res *assess.Result, doc *Document) Cover {
 		[2]string{"Plant file SHA-256", res.InputSHA256},
 		[2]string{"Tool", "pasval " + res.Version},
 	)
-	failed := 0
 	for _, ch := range res.Checks {
-		c.Verdicts = append(c.Verdicts, Verdict{Check: checkLabel(ch), Pass: ch.Pass})
-		if !ch.Pass {
-			failed++
-		}
+		c.Verdicts = append(c.Verdicts, Verdict{Check: present.CheckLabel(ch), Pass: ch.Pass})
 	}
-	switch {
-	case len(res.Checks) == 0:
-		c.Overall = "No check applies: nothing was judged."
-	case failed == 0:
-		c.Overall = fmt.Sprintf("PASS: all %d checks pass.", len(res.Checks))
-	default:
-		c.Overall = fmt.Sprintf("FAIL: %d of %d checks fail.", failed, len(res.Checks))
-	}
+	c.Overall = "Result: " + present.Overall(res) + "."
 	return c
-}
-
-func checkLabel(c assess.Check) string {
-	if c.Organism != "" {
-		return c.ID + " (" + c.Organism + ")"
-	}
-	return c.ID
 }
 
 func inputsSection(res *assess.Result) Section {
@@ -284,55 +275,16 @@ func methodSection(res *assess.Result) Section {
 }
 
 func heatSection(res *assess.Result, d present.Display) Section {
-	tu := d.Unit(units.Temperature)
-	au := d.Unit(units.Area)
-	duty := "kW"
-	if d.Sys == units.US {
-		duty = "Btu/h"
+	blocks := []Block{
+		tableFrom("Sections at the normal rate.", present.Sections(res, d)),
+		tableFrom("Temperatures, "+d.Unit(units.Temperature)+". Other stream: the pasteurized product in regeneration, the medium elsewhere; in rated heating its inlet is the temperature required.",
+			present.Temperatures(res, d)),
 	}
-	t := Table{Caption: "Sections at the normal rate.", Columns: []Column{{Title: "section"}, {Title: "mode"}, {Title: "flow"},
-		{Title: "duty " + duty, Right: true}, {Title: "LMTD " + d.Unit(units.TemperatureDifference), Right: true}, {Title: "NTU", Right: true},
-		{Title: "ε", Right: true}, {Title: "required " + au, Right: true}, {Title: "installed " + au, Right: true}, {Title: "plates", Right: true}}}
-	temps := Table{Caption: "Temperatures, " + tu + ". Other stream: the pasteurized product in regeneration, the medium elsewhere; in rated heating its inlet is the temperature required.",
-		Columns: []Column{{Title: "section"}, {Title: "product in", Right: true}, {Title: "product out", Right: true},
-			{Title: "other in", Right: true}, {Title: "other out", Right: true}, {Title: "other stream"}}}
-	for _, s := range res.Sections {
-		label := s.Name
-		if s.Stage != "" {
-			label += ": " + s.Stage
-		}
-		t.Rows = append(t.Rows, []string{label, s.Mode, s.Arrangement, d.Power(s.DutyKW * 1e3), d.Num(s.LMTDK, units.TemperatureDifference, 2),
-			fmt.Sprintf("%.2f", s.NTU), fmt.Sprintf("%.3f", s.Effectiveness), d.Num(s.RequiredAreaM2, units.Area, 2),
-			d.Num(s.InstalledAreaM2, units.Area, 2), fmt.Sprintf("%d", s.Plates)})
-		other := otherName(res, s)
-		if s.MediumAvailableC != nil {
-			other += " (available " + d.With(*s.MediumAvailableC, units.Temperature, 1) + ")"
-		}
-		temps.Rows = append(temps.Rows, []string{label, d.Num(s.ProductInC, units.Temperature, 2), d.Num(s.ProductOutC, units.Temperature, 2),
-			d.Num(s.OtherInC, units.Temperature, 2), d.Num(s.OtherOutC, units.Temperature, 2), other})
-	}
-	blocks := []Block{t, temps}
 	if res.RegenerationRatio != nil {
 		blocks = append(blocks, KeyValues{Pairs: [][2]string{{"regeneration ratio", fmt.Sprintf("%.1f %%", *res.RegenerationRatio*100)}}})
 	}
 	blocks = append(blocks, temperatureDiagram(res, d))
 	return Section{Heading: "Heat exchange", Blocks: blocks}
-}
-
-func otherName(res *assess.Result, s assess.Section) string {
-	p := res.Plant
-	switch {
-	case s.Name == "regeneration":
-		return "pasteurized product"
-	case s.Name == "heating" && p.Heating != nil:
-		return p.Heating.Medium.Name
-	}
-	for _, c := range p.Cooling {
-		if c.Name == s.Stage {
-			return c.Medium.Name
-		}
-	}
-	return ""
 }
 
 // temperatureDiagram lays the product path out in process order: raw side of
@@ -348,128 +300,55 @@ func temperatureDiagram(res *assess.Result, d present.Display) Diagram {
 			regen = &res.Sections[i]
 		}
 	}
-	counter := func(s assess.Section) bool { return s.Arrangement == "counterflow" }
+	// stretch lays one section along the product path: product left to right;
+	// the other stream enters at the right when counterflow.
+	stretch := func(label string, s assess.Section, productIn, productOut, otherIn, otherOut float64, other string, hot, isProduct bool) Segment {
+		seg := Segment{Label: label, ProductIn: T(productIn), ProductOut: T(productOut), Other: other, OtherIsHot: hot, OtherIsProduct: isProduct}
+		if s.Arrangement == "counterflow" {
+			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(otherOut), T(otherIn), true
+		} else {
+			seg.OtherAtLeft, seg.OtherAtRight = T(otherIn), T(otherOut)
+		}
+		return seg
+	}
 	if regen != nil {
 		s := *regen
-		// Raw side: product left→right; the pasteurized product enters at the right when counterflow.
-		seg := Segment{Label: "regeneration (raw)", ProductIn: T(s.ProductInC), ProductOut: T(s.ProductOutC), Other: "pasteurized product",
-			OtherIsHot: true, OtherIsProduct: true}
-		if counter(s) {
-			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.OtherOutC), T(s.OtherInC), true
-		} else {
-			seg.OtherAtLeft, seg.OtherAtRight = T(s.OtherInC), T(s.OtherOutC)
-		}
-		dg.Segments = append(dg.Segments, seg)
+		dg.Segments = append(dg.Segments, stretch("regeneration (raw)", s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, "pasteurized product", true, true))
 	}
 	for _, s := range res.Sections {
-		if s.Name != "heating" {
-			continue
+		if s.Name == "heating" {
+			dg.Segments = append(dg.Segments, stretch("heating", s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, present.OtherStream(res.Plant, s), true, false))
 		}
-		seg := Segment{Label: "heating", ProductIn: T(s.ProductInC), ProductOut: T(s.ProductOutC), Other: otherName(res, s), OtherIsHot: true}
-		if counter(s) {
-			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.OtherOutC), T(s.OtherInC), true
-		} else {
-			seg.OtherAtLeft, seg.OtherAtRight = T(s.OtherInC), T(s.OtherOutC)
-		}
-		dg.Segments = append(dg.Segments, seg)
 	}
 	if h := res.HoldingTube; h != nil {
 		// At the normal rate, like the sections: the heater delivers HeatingOutletC.
 		dg.Segments = append(dg.Segments, Segment{Label: "holding tube", ProductIn: T(h.HeatingOutletC), ProductOut: T(h.OutletTemperatureC)})
 	}
 	if regen != nil {
+		// The pasteurized side: the product here is the regenerator's other stream.
 		s := *regen
-		seg := Segment{Label: "regeneration (pasteurized)", ProductIn: T(s.OtherInC), ProductOut: T(s.OtherOutC), Other: "raw product", OtherIsProduct: true}
-		if counter(s) {
-			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.ProductOutC), T(s.ProductInC), true
-		} else {
-			seg.OtherAtLeft, seg.OtherAtRight = T(s.ProductInC), T(s.ProductOutC)
-		}
-		dg.Segments = append(dg.Segments, seg)
+		dg.Segments = append(dg.Segments, stretch("regeneration (pasteurized)", s, s.OtherInC, s.OtherOutC, s.ProductInC, s.ProductOutC, "raw product", false, true))
 	}
 	for _, s := range res.Sections {
-		if s.Name != "cooling" {
-			continue
+		if s.Name == "cooling" {
+			dg.Segments = append(dg.Segments, stretch("cooling: "+s.Stage, s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, present.OtherStream(res.Plant, s), false, false))
 		}
-		seg := Segment{Label: "cooling: " + s.Stage, ProductIn: T(s.ProductInC), ProductOut: T(s.ProductOutC), Other: otherName(res, s)}
-		if counter(s) {
-			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(s.OtherOutC), T(s.OtherInC), true
-		} else {
-			seg.OtherAtLeft, seg.OtherAtRight = T(s.OtherInC), T(s.OtherOutC)
-		}
-		dg.Segments = append(dg.Segments, seg)
 	}
 	return dg
 }
 
 func holdingSection(res *assess.Result, d present.Display) Section {
 	h := res.HoldingTube
-	p := res.Plant
-	kv := KeyValues{}
-	add := func(k, v string) { kv.Pairs = append(kv.Pairs, [2]string{k, v}) }
-	geom := fmt.Sprintf("inner diameter %s, length %s, hold-up %s", d.Small(h.InnerDiameterM), d.With(h.LengthM, units.Length, 2), d.With(h.VolumeL/1e3, units.Volume, 1))
-	if p.HoldingTube.SanitaryTube.Set {
-		geom = p.HoldingTube.SanitaryTube.Text + " sanitary tube, " + geom
-	}
-	add("tube", geom)
-	if h.Slope != nil {
-		add("slope", fmt.Sprintf("%s (minimum %s)", present.Slope(*h.Slope, d), present.Slope(h.MinSlope, d)))
-	}
-	add("judged flow", d.With(h.MaxFlowM3s, units.VolumeFlow, 0)+" (sealed maximum)")
-	if p.Product.PowerLaw != nil {
-		add("rheology", fmt.Sprintf("power law, n = %.3g, K = %s", h.FlowIndex, p.Product.PowerLaw.Consistency.Text))
-	} else {
-		add("viscosity at the setpoint", d.With(h.ViscosityPas, units.Viscosity, 3))
-	}
-	ratio := fmt.Sprintf("%.3f", h.FastestToMean)
-	if h.FastestToMeanOverridden {
-		ratio += " (entered)"
-	}
-	add("mean velocity", d.With(h.MeanVelocity, units.Length, 3)+"/s")
-	add("Reynolds number", fmt.Sprintf("%.0f (%s)", h.Reynolds, h.Regime))
-	add("fastest-to-mean ratio", ratio)
-	add("fastest-particle residence", fmt.Sprintf("%.2f s", h.MinResidenceS))
-	add("mean residence", fmt.Sprintf("%.2f s", h.MeanResidenceS))
-	add("tube inlet → outlet", d.With(h.InletTemperatureC, units.Temperature, 2)+" → "+d.With(h.OutletTemperatureC, units.Temperature, 2))
-	if h.PasteurizationUnits != nil {
-		add("pasteurization units", fmt.Sprintf("%.2f PU (60 °C, z = 7 °C)", *h.PasteurizationUnits))
-	}
-	blocks := []Block{kv}
+	blocks := []Block{KeyValues{Pairs: append([][2]string{{"judged flow", d.With(h.MaxFlowM3s, units.VolumeFlow, 0) + " (sealed maximum)"}},
+		present.HoldingFacts(res, d)...)}}
 	if len(h.Rows) > 0 {
-		t := Table{Caption: "Legal minimums as entered; the judged row is marked. Rows are never interpolated.",
-			Columns: []Column{{Title: "row", Right: true}, {Title: "temperature", Right: true}, {Title: "time", Right: true}, {Title: "applies"},
-				{Title: "length needed", Right: true}, {Title: "max flow", Right: true}}}
-		for i, r := range h.Rows {
-			applies := "no (above setpoint)"
-			if r.Applies {
-				applies = "yes"
-				if h.Legal != nil && h.Legal.RowIndex == i {
-					applies = "yes: judged"
-				}
-			}
-			mf := d.With(r.MaxFlowM3s, units.VolumeFlow, 0)
-			if r.MaxFlowCapped {
-				mf = "≥ " + mf
-			}
-			t.Rows = append(t.Rows, []string{fmt.Sprintf("%d", i+1), d.With(r.TemperatureC, units.Temperature, 1), fmt.Sprintf("%g s", r.TimeS),
-				applies, d.With(r.RequiredLengthM, units.Length, 2), mf})
-		}
-		blocks = append(blocks, t)
+		blocks = append(blocks, tableFrom("Legal minimums as entered; the judged row is marked. Rows are never interpolated.", present.LegalRows(res, d)))
 	}
 	if len(res.Lethality) > 0 {
-		t := Table{Caption: "Log reduction of the fastest particle at the sealed maximum flow.",
-			Columns: []Column{{Title: "organism"}, {Title: "D at setpoint", Right: true}, {Title: "log reduction", Right: true},
-				{Title: "required", Right: true}, {Title: "equivalent time", Right: true}}}
 		plot := Plot{Caption: "Accumulated log reduction of the fastest particle along the holding tube.",
 			XLabel: "distance from the tube inlet, " + d.Unit(units.Length), YLabel: "log reduction"}
+		m := h.Model
 		for i, l := range res.Lethality {
-			req := "—"
-			if p.Organisms[i].RequiredSet {
-				req = fmt.Sprintf("%.2f", l.RequiredLogReduction)
-			}
-			t.Rows = append(t.Rows, []string{l.Organism, fmt.Sprintf("%.4g s", l.DAtSetpointS), fmt.Sprintf("%.2f", l.LogReduction), req,
-				fmt.Sprintf("%.2f s", l.EquivalentTimeS)})
-			m := h.Model
 			pts := lethality.Accumulated(m.Profile, m.Hyd.FastestToMean*m.Hyd.MeanVelocity, m.Organisms[i], 100)
 			s := Series{Name: l.Organism}
 			for _, pt := range pts {
@@ -478,7 +357,7 @@ func holdingSection(res *assess.Result, d present.Display) Section {
 			}
 			plot.Series = append(plot.Series, s)
 		}
-		blocks = append(blocks, t, plot)
+		blocks = append(blocks, tableFrom("Log reduction of the fastest particle at the sealed maximum flow.", present.Lethality(res)), plot)
 	}
 	if len(res.Warnings) > 0 {
 		blocks = append(blocks, Paragraph{Text: "Warnings:", Emphasis: true}, Bullets{Items: res.Warnings})
@@ -487,30 +366,12 @@ func holdingSection(res *assess.Result, d present.Display) Section {
 }
 
 func checksSection(res *assess.Result, d present.Display) Section {
-	t := Table{Columns: []Column{{Title: "check"}, {Title: "result"}, {Title: "required", Right: true}, {Title: "actual", Right: true},
-		{Title: "margin", Right: true}, {Title: "note"}}}
-	for _, c := range res.Checks {
-		verdict := "PASS"
-		if !c.Pass {
-			verdict = "FAIL"
-		}
-		op := "≥ "
-		if c.Limit == "max" {
-			op = "≤ "
-		}
-		t.Rows = append(t.Rows, []string{checkLabel(c), verdict, op + present.CheckValue(c.Required, c.Unit, d),
-			present.CheckValue(c.Actual, c.Unit, d), present.CheckMargin(c, d), c.Note})
-	}
-	blocks := []Block{t}
+	blocks := []Block{tableFrom("", present.Checks(res, d))}
 	if len(res.Checks) == 0 {
 		blocks = []Block{Paragraph{Text: "No check applies: every section is in sizing mode and no holding tube, kinetics or pressures are described."}}
 	}
-	blocks = append(blocks, Paragraph{Text: "Result: " + buildCoverOverall(res), Emphasis: true})
+	blocks = append(blocks, Paragraph{Text: "Result: " + present.Overall(res) + ".", Emphasis: true})
 	return Section{Heading: "Checks", Blocks: blocks}
-}
-
-func buildCoverOverall(res *assess.Result) string {
-	return buildCover(res, &Document{}).Overall
 }
 
 func cautionSection(res *assess.Result) Section {
@@ -544,10 +405,7 @@ func WhatIfSweep(plates int) []int {
 }
 
 func whatIfSection(w *assess.WhatIf, res *assess.Result, d present.Display) Section {
-	duty := "kW"
-	if d.Sys == units.US {
-		duty = "Btu/h"
-	}
+	duty := d.DutyUnit()
 	t := Table{Caption: "The whole line recomputed with plates added to the regenerator (normal rate).",
 		Columns: []Column{{Title: "added", Right: true}, {Title: "plates", Right: true}, {Title: "ratio", Right: true},
 			{Title: "heating " + duty, Right: true}, {Title: "saved " + duty, Right: true}, {Title: "energy kWh/yr", Right: true},
@@ -566,15 +424,8 @@ func whatIfSection(w *assess.WhatIf, res *assess.Result, d present.Display) Sect
 			ps.X = append(ps.X, float64(o.AddedPlates))
 			ps.Y = append(ps.Y, *o.PaybackYears)
 		}
-		checks := "all pass"
-		if !o.ChecksPass {
-			checks = "FAIL: " + strings.Join(o.FailedChecks, ", ")
-		}
-		added := fmt.Sprintf("+%d", o.AddedPlates)
-		if o.AddedPlates == 0 {
-			added = "baseline"
-		}
-		t.Rows = append(t.Rows, []string{added, fmt.Sprint(o.Plates), fmt.Sprintf("%.1f %%", o.RegenerationRatio*100),
+		checks := present.ChecksText(o)
+		t.Rows = append(t.Rows, []string{present.AddedLabel(o), fmt.Sprint(o.Plates), fmt.Sprintf("%.1f %%", o.RegenerationRatio*100),
 			d.Power(o.HeatingDutyKW * 1e3), d.Power((o.HeatingSavedKW + o.CoolingSavedKW) * 1e3), energy, cost, pb, checks})
 		rs.X = append(rs.X, float64(o.Plates))
 		rs.Y = append(rs.Y, o.RegenerationRatio*100)

@@ -455,15 +455,37 @@ func (r *renderer) ensure(h float64) {
 
 func (r *renderer) setDraw(c [3]int) { r.f.SetDrawColor(c[0], c[1], c[2]) }
 
+// figure keeps a figure of height h on one page, prints its caption and
+// returns the top of the drawing area. Automatic page breaks are off until the
+// caller restores them, so that no label starts a page of its own.
+func (r *renderer) figure(h float64, caption string) float64 {
+	f := r.f
+	r.ensure(h)
+	f.SetAutoPageBreak(false, 0)
+	r.font("", smallSize)
+	f.MultiCell(r.w, lineH*smallSize/bodySize, printable(caption), "", "L", false)
+	return f.GetY() + 8
+}
+
+// yGrid draws horizontal grid lines with their values from lo to hi.
+func (r *renderer) yGrid(left, width, lo, hi, step float64, Y func(float64) float64) {
+	f := r.f
+	f.SetLineWidth(0.1)
+	r.setDraw(colGrid)
+	r.font("", smallSize)
+	for i := 0; lo+float64(i)*step <= hi+step/2; i++ {
+		v := lo + float64(i)*step
+		f.Line(left, Y(v), left+width, Y(v))
+		f.SetXY(margin, Y(v)-1.8)
+		f.CellFormat(12, 3.6, tick(v, step), "", 0, "R", false, 0, "")
+	}
+}
+
 // diagram draws the temperature diagram as vector graphics.
 func (r *renderer) diagram(dg Diagram) {
 	f := r.f
-	r.ensure(diagramH + 26)
-	f.SetAutoPageBreak(false, 0)
+	top := r.figure(diagramH+26, dg.Caption)
 	defer f.SetAutoPageBreak(true, margin+4)
-	r.font("", smallSize)
-	f.MultiCell(r.w, lineH*smallSize/bodySize, printable(dg.Caption), "", "L", false)
-	top := f.GetY() + 8
 	left := margin + 14
 	width := r.w - 16
 	height := diagramH - 18
@@ -480,15 +502,7 @@ func (r *renderer) diagram(dg Diagram) {
 	ymin, ymax, step := axisRange(lo, hi+pad)
 	Y := func(v float64) float64 { return top + height - (v-ymin)/(ymax-ymin)*height }
 	// grid and axis
-	f.SetLineWidth(0.1)
-	r.setDraw(colGrid)
-	r.font("", smallSize)
-	for i := 0; ymin+float64(i)*step <= ymax+step/2; i++ {
-		v := ymin + float64(i)*step
-		f.Line(left, Y(v), left+width, Y(v))
-		f.SetXY(margin, Y(v)-1.8)
-		f.CellFormat(12, 3.6, tick(v, step), "", 0, "R", false, 0, "")
-	}
+	r.yGrid(left, width, ymin, ymax, step, Y)
 	f.SetXY(margin, top-5.5)
 	f.CellFormat(12, 3.6, printable(dg.Unit), "", 0, "R", false, 0, "")
 	n := len(dg.Segments)
@@ -650,12 +664,8 @@ func (r *renderer) arrow(x0, y0, x1, y1 float64, leftward bool, col [3]int) {
 // plot draws x–y series with axes, grid and a legend.
 func (r *renderer) plot(p Plot) {
 	f := r.f
-	r.ensure(plotH + 24)
-	f.SetAutoPageBreak(false, 0)
+	top := r.figure(plotH+24, p.Caption)
 	defer f.SetAutoPageBreak(true, margin+4)
-	r.font("", smallSize)
-	f.MultiCell(r.w, lineH*smallSize/bodySize, printable(p.Caption), "", "L", false)
-	top := f.GetY() + 8
 	left := margin + 14
 	width := r.w - 18
 	height := plotH - 20
@@ -673,15 +683,7 @@ func (r *renderer) plot(p Plot) {
 	y0, y1, ys := axisRange(ylo, yhi)
 	X := func(v float64) float64 { return left + (v-x0)/(x1-x0)*width }
 	Y := func(v float64) float64 { return top + height - (v-y0)/(y1-y0)*height }
-	f.SetLineWidth(0.1)
-	r.setDraw(colGrid)
-	r.font("", smallSize)
-	for i := 0; y0+float64(i)*ys <= y1+ys/2; i++ {
-		v := y0 + float64(i)*ys
-		f.Line(left, Y(v), left+width, Y(v))
-		f.SetXY(margin, Y(v)-1.8)
-		f.CellFormat(12, 3.6, tick(v, ys), "", 0, "R", false, 0, "")
-	}
+	r.yGrid(left, width, y0, y1, ys, Y)
 	for i := 0; x0+float64(i)*xs <= x1+xs/2; i++ {
 		v := x0 + float64(i)*xs
 		f.Line(X(v), top, X(v), top+height)

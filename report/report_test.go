@@ -10,6 +10,7 @@ import (
 
 	"pasval/internal/assess"
 	"pasval/internal/plantfile"
+	"pasval/internal/present"
 )
 
 var day = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
@@ -70,8 +71,8 @@ func TestDocumentModel(t *testing.T) {
 			}
 			all := text.String()
 			for _, c := range res.Checks {
-				if !strings.Contains(all, checkLabel(c)+" | ") {
-					t.Errorf("check %s missing from the checks table", checkLabel(c))
+				if !strings.Contains(all, present.CheckLabel(c)+" | ") {
+					t.Errorf("check %s missing from the checks table", present.CheckLabel(c))
 				}
 			}
 			for _, must := range append([]string{assess.Caution, "Prepared by,Reviewed by,Approved by"}, AcceptanceTests...) {

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"strings"
@@ -9,15 +8,13 @@ import (
 	"github.com/spf13/cobra"
 
 	"pasval/internal/assess"
-	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
 )
 
 type checkOptions struct {
+	outputFlags
 	file   string
-	units  string // "", "si" or "us"
-	json   bool
 	record string // also write the validation record here
 	date   string // record date YYYY-MM-DD
 	force  bool   // overwrite the record
@@ -45,8 +42,7 @@ and each check with PASS or FAIL, the required and actual values and the margin.
 		},
 	}
 	cmd.Long += "\n" + exitStatusHelp
-	cmd.Flags().StringVar(&opts.units, "units", "", "units for printed values: si or us (default: us when the hold setpoint is in °F)")
-	cmd.Flags().BoolVar(&opts.json, "json", false, "print the results as JSON (SI units, every key names its unit)")
+	opts.register(cmd)
 	cmd.Flags().StringVar(&opts.record, "record", "", "also write the validation record (PDF) to this file, as 'pasval report' does")
 	cmd.Flags().StringVar(&opts.date, "date", "", "record date YYYY-MM-DD for --record (default: today)")
 	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the --record file if it exists")
@@ -54,32 +50,13 @@ and each check with PASS or FAIL, the required and actual values and the margin.
 	return cmd
 }
 
-func parseSystem(s string, p *plantfile.Plant) (units.System, error) {
-	switch strings.ToLower(s) {
-	case "":
-		return p.System, nil
-	case "si":
-		return units.SI, nil
-	case "us":
-		return units.US, nil
-	}
-	return units.SI, usagef("--units must be si or us, not %q", s)
-}
-
 // runCheck prints results to out; notes about files written go to diag.
 func runCheck(opts checkOptions, out, diag io.Writer) error {
-	if opts.units != "" && opts.units != "si" && opts.units != "us" {
-		return usagef("--units must be si or us, not %q", opts.units)
-	}
 	date, err := recordDate(opts.date)
 	if err != nil {
 		return err
 	}
-	p, err := plantfile.Load(opts.file)
-	if err != nil {
-		return err
-	}
-	sys, err := parseSystem(opts.units, p)
+	p, d, err := opts.load(opts.file)
 	if err != nil {
 		return err
 	}
@@ -97,13 +74,11 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 		}
 	}
 	if opts.json {
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(res); err != nil {
+		if err := writeJSON(out, res); err != nil {
 			return err
 		}
 	} else {
-		writeCheck(out, res, present.Display{Sys: sys}, useColour(out))
+		writeCheck(out, res, d, useColour(out))
 	}
 	if !res.Pass {
 		return errChecksFailed
@@ -157,59 +132,13 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 }
 
 func writeSections(w io.Writer, res *assess.Result, d present.Display) {
-	area := d.Unit(units.Area)
-	duty := "kW"
-	if d.Sys == units.US {
-		duty = "Btu/h"
-	}
 	fmt.Fprintf(w, "\nHeat-exchange sections (normal rate)\n")
-	t := newTable("section", "mode", "arrangement", ">duty "+duty, ">LMTD "+d.Unit(units.TemperatureDifference),
-		">NTU", ">ε", ">required "+area, ">installed "+area, ">plates")
-	for _, s := range res.Sections {
-		t.add(sectionLabel(s), s.Mode, s.Arrangement, d.Power(s.DutyKW*1e3), d.Num(s.LMTDK, units.TemperatureDifference, 2),
-			fmt.Sprintf("%.2f", s.NTU), fmt.Sprintf("%.3f", s.Effectiveness),
-			d.Num(s.RequiredAreaM2, units.Area, 2), d.Num(s.InstalledAreaM2, units.Area, 2), fmt.Sprintf("%d", s.Plates))
-	}
-	t.write(w)
-
-	tu := d.Unit(units.Temperature)
-	fmt.Fprintf(w, "\nTemperatures (%s)\n", tu)
-	t = newTable("section", ">product in", ">product out", ">other in", ">other out", "other stream")
-	for _, s := range res.Sections {
-		other := "pasteurized product"
-		if s.Name != "regeneration" {
-			other = mediumName(res.Plant, s)
-		}
-		otherIn := d.Num(s.OtherInC, units.Temperature, 2)
-		if s.MediumAvailableC != nil {
-			other += fmt.Sprintf(" (in: required; %s available)", d.With(*s.MediumAvailableC, units.Temperature, 2))
-		}
-		t.add(sectionLabel(s), d.Num(s.ProductInC, units.Temperature, 2), d.Num(s.ProductOutC, units.Temperature, 2),
-			otherIn, d.Num(s.OtherOutC, units.Temperature, 2), other)
-	}
-	t.write(w)
+	tableOf(present.Sections(res, d)).write(w)
+	fmt.Fprintf(w, "\nTemperatures (%s)\n", d.Unit(units.Temperature))
+	tableOf(present.Temperatures(res, d)).write(w)
 	if res.RegenerationRatio != nil {
 		fmt.Fprintf(w, "\nRegeneration ratio  %.1f %%\n", *res.RegenerationRatio*100)
 	}
-}
-
-func sectionLabel(s assess.Section) string {
-	if s.Stage != "" {
-		return s.Name + ": " + s.Stage
-	}
-	return s.Name
-}
-
-func mediumName(p *plantfile.Plant, s assess.Section) string {
-	if s.Name == "heating" && p.Heating != nil {
-		return p.Heating.Medium.Name
-	}
-	for _, c := range p.Cooling {
-		if c.Name == s.Stage {
-			return c.Medium.Name
-		}
-	}
-	return ""
 }
 
 func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool) {
@@ -219,31 +148,10 @@ func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool
 		fmt.Fprintln(w, "\nResult: no check failed (nothing was judged)")
 		return
 	}
-	t := newTable("check", "result", ">required", ">actual", ">margin", "note")
+	t := tableOf(present.Checks(res, d))
 	t.colour = colour
-	failed := 0
-	for _, c := range res.Checks {
-		verdict := "PASS"
-		if !c.Pass {
-			verdict = "FAIL"
-			failed++
-		}
-		op := "≥ "
-		if c.Limit == "max" {
-			op = "≤ "
-		}
-		id := c.ID
-		if c.Organism != "" {
-			id += " (" + c.Organism + ")"
-		}
-		t.add(id, verdict, op+present.CheckValue(c.Required, c.Unit, d), present.CheckValue(c.Actual, c.Unit, d), present.CheckMargin(c, d), c.Note)
-	}
 	t.write(w)
-	if failed == 0 {
-		fmt.Fprintf(w, "\nResult: PASS, all %d checks pass\n", len(res.Checks))
-	} else {
-		fmt.Fprintf(w, "\nResult: FAIL, %d of %d checks fail\n", failed, len(res.Checks))
-	}
+	fmt.Fprintf(w, "\nResult: %s\n", present.Overall(res))
 }
 
 func writeComparison(w io.Writer, res *assess.Result, d present.Display) {
@@ -251,10 +159,7 @@ func writeComparison(w io.Writer, res *assess.Result, d present.Display) {
 	fmt.Fprintln(w, "\nArrangement comparison (same duty between the same temperatures)")
 	t := newTable("section", "arrangement", ">area "+au, "other", ">other area "+au, ">ratio", "note")
 	for _, c := range res.ArrangementComparison {
-		label := c.Section
-		if c.Stage != "" {
-			label += ": " + c.Stage
-		}
+		label := present.SectionLabel(assess.Section{Name: c.Section, Stage: c.Stage})
 		other, ratio := "impossible", "—"
 		if c.OtherAreaM2 != nil {
 			other, ratio = d.Num(*c.OtherAreaM2, units.Area, 2), fmt.Sprintf("%.3f×", *c.AreaRatio)

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 
@@ -14,9 +13,8 @@ import (
 )
 
 type holdOptions struct {
-	file  string
-	units string
-	json  bool
+	outputFlags
+	file string
 }
 
 func newHoldCmd(stdout io.Writer) *cobra.Command {
@@ -42,8 +40,7 @@ the exit status here; 'pasval check' judges the whole line.`,
 		},
 	}
 	cmd.Long += "\n" + exitStatusHelp
-	cmd.Flags().StringVar(&opts.units, "units", "", "units for printed values: si or us (default: us when the hold setpoint is in °F)")
-	cmd.Flags().BoolVar(&opts.json, "json", false, "print the results as JSON (SI units, every key names its unit)")
+	opts.register(cmd)
 	return cmd
 }
 
@@ -64,20 +61,13 @@ type holdReport struct {
 var holdingChecks = map[string]bool{"holding-time": true, "log-reduction": true, "tube-slope": true}
 
 func runHold(opts holdOptions, out io.Writer) error {
-	if opts.units != "" && opts.units != "si" && opts.units != "us" {
-		return usagef("--units must be si or us, not %q", opts.units)
-	}
-	p, err := plantfile.Load(opts.file)
+	p, d, err := opts.load(opts.file)
 	if err != nil {
 		return err
 	}
 	if p.HoldingTube == nil {
 		return plantfile.ErrorList{{Pos: plantfile.Pos{File: p.File, Line: 1, Column: 1}, Field: "holding_tube",
 			Msg: "the plant file describes no holding tube; add holding_tube (see 'pasval init' and the README)"}}
-	}
-	sys, err := parseSystem(opts.units, p)
-	if err != nil {
-		return err
 	}
 	res, err := assess.Run(p)
 	if err != nil {
@@ -93,13 +83,10 @@ func runHold(opts holdOptions, out io.Writer) error {
 		}
 	}
 	if opts.json {
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(rep); err != nil {
+		if err := writeJSON(out, rep); err != nil {
 			return err
 		}
 	} else {
-		d := present.Display{Sys: sys}
 		fmt.Fprintf(out, "pasval %s · holding tube of %s\ninput sha256 %s\n", res.Version, p.File, res.InputSHA256)
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)

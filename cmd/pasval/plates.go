@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"strconv"
@@ -16,12 +15,11 @@ import (
 )
 
 type platesOptions struct {
+	outputFlags
 	file  string
 	add   string // "10,20,40"
 	sweep string // "FROM:TO:STEP"
 	knee  float64
-	units string
-	json  bool
 }
 
 func newPlatesCmd(stdout io.Writer) *cobra.Command {
@@ -55,8 +53,7 @@ savings. With an economics block the savings are priced:
 	cmd.Flags().StringVar(&opts.add, "add", "", "plates to add, comma-separated (e.g. 10,20,40)")
 	cmd.Flags().StringVar(&opts.sweep, "sweep", "", "a range of added plates FROM:TO:STEP (e.g. 5:60:5)")
 	cmd.Flags().Float64Var(&opts.knee, "knee-fraction", assess.DefaultKneeFraction, "knee: where 10 more plates save less than this fraction of the first 10")
-	cmd.Flags().StringVar(&opts.units, "units", "", "units for printed values: si or us (default: us when the hold setpoint is in °F)")
-	cmd.Flags().BoolVar(&opts.json, "json", false, "print the results as JSON (SI units, every key names its unit)")
+	opts.register(cmd)
 	return cmd
 }
 
@@ -107,14 +104,7 @@ func runPlates(opts platesOptions, out io.Writer) error {
 	if !(opts.knee > 0 && opts.knee < 1) {
 		return usagef("--knee-fraction must be between 0 and 1, not %g", opts.knee)
 	}
-	if opts.units != "" && opts.units != "si" && opts.units != "us" {
-		return usagef("--units must be si or us, not %q", opts.units)
-	}
-	p, err := plantfile.Load(opts.file)
-	if err != nil {
-		return err
-	}
-	sys, err := parseSystem(opts.units, p)
+	p, d, err := opts.load(opts.file)
 	if err != nil {
 		return err
 	}
@@ -123,13 +113,11 @@ func runPlates(opts platesOptions, out io.Writer) error {
 		return err
 	}
 	if opts.json {
-		enc := json.NewEncoder(out)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(w); err != nil {
+		if err := writeJSON(out, w); err != nil {
 			return err
 		}
 	} else {
-		writePlates(out, p, w, present.Display{Sys: sys}, opts.sweep != "")
+		writePlates(out, p, w, d, opts.sweep != "")
 	}
 	if !w.Baseline.ChecksPass {
 		return errChecksFailed
@@ -144,10 +132,7 @@ func runPlates(opts platesOptions, out io.Writer) error {
 
 func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.Display, sweep bool) {
 	fmt.Fprintf(w, "pasval · added regeneration plates for %s\n", p.File)
-	duty := "kW"
-	if d.Sys == units.US {
-		duty = "Btu/h"
-	}
+	duty := d.DutyUnit()
 	tu := d.Unit(units.Temperature)
 	all := append([]assess.PlatesOption{wi.Baseline}, wi.Options...)
 	kneeMark := func(o assess.PlatesOption) string {
@@ -167,16 +152,8 @@ func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.D
 		if o.CoolingOutletC != nil {
 			cool = d.Num(*o.CoolingOutletC, units.Temperature, 1)
 		}
-		checks := "all pass"
-		if !o.ChecksPass {
-			checks = "FAIL: " + strings.Join(o.FailedChecks, ", ")
-		}
-		label := fmt.Sprintf("+%d", o.AddedPlates)
-		if o.AddedPlates == 0 {
-			label = "baseline"
-		}
-		t.add(label, fmt.Sprint(o.Plates), fmt.Sprintf("%.1f %%", o.RegenerationRatio*100), d.Num(o.RawOutC, units.Temperature, 1),
-			d.Num(o.PasteurizedOutC, units.Temperature, 1), d.Power(o.HeatingDutyKW*1e3), d.Power(o.CoolingDutyKW*1e3), med, cool, checks, kneeMark(o))
+		t.add(present.AddedLabel(o), fmt.Sprint(o.Plates), fmt.Sprintf("%.1f %%", o.RegenerationRatio*100), d.Num(o.RawOutC, units.Temperature, 1),
+			d.Num(o.PasteurizedOutC, units.Temperature, 1), d.Power(o.HeatingDutyKW*1e3), d.Power(o.CoolingDutyKW*1e3), med, cool, present.ChecksText(o), kneeMark(o))
 	}
 	t.write(w)
 

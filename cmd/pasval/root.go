@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -10,6 +11,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"pasval/internal/plantfile"
+	"pasval/internal/present"
+	"pasval/internal/units"
 	"pasval/internal/version"
 )
 
@@ -132,6 +135,45 @@ func useColour(w io.Writer) bool {
 	}
 	st, err := f.Stat()
 	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// outputFlags are the flags of the commands that print results.
+type outputFlags struct {
+	units string // "", "si" or "us"
+	json  bool
+}
+
+func (o *outputFlags) register(cmd *cobra.Command) {
+	cmd.Flags().StringVar(&o.units, "units", "", "units for printed values: si or us (default: us when the hold setpoint is in °F)")
+	cmd.Flags().BoolVar(&o.json, "json", false, "print the results as JSON (SI units, every key names its unit)")
+}
+
+// load checks --units, then reads and validates the plant file and picks the
+// display units (the file's own unless --units says otherwise).
+func (o outputFlags) load(file string) (*plantfile.Plant, present.Display, error) {
+	if o.units != "" && o.units != "si" && o.units != "us" {
+		return nil, present.Display{}, usagef("--units must be si or us, not %q", o.units)
+	}
+	p, err := plantfile.Load(file)
+	if err != nil {
+		return nil, present.Display{}, err
+	}
+	sys := p.System
+	switch o.units {
+	case "si":
+		sys = units.SI
+	case "us":
+		sys = units.US
+	}
+	return p, present.Display{Sys: sys}, nil
+}
+
+// writeJSON prints v as indented JSON, keeping °, µ and the like readable.
+func writeJSON(out io.Writer, v any) error {
+	enc := json.NewEncoder(out)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(v)
 }
 
 // argsFile requires exactly one plant-file argument.

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"io"
 
 	"github.com/spf13/cobra"
@@ -29,10 +28,7 @@ physics.` + "\n" + exitStatusHelp,
 		Example: `  pasval schema > ` + SchemaFile,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			enc := json.NewEncoder(stdout)
-			enc.SetIndent("", "  ")
-			enc.SetEscapeHTML(false)
-			return enc.Encode(schema.PlantFile())
+			return writeJSON(stdout, schema.PlantFile())
 		},
 	}
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"pasval/internal/present"
 	"strings"
 	"unicode/utf8"
 )
@@ -29,6 +30,12 @@ func newTable(headers ...string) *table {
 }
 
 func (t *table) add(cells ...string) { t.rows = append(t.rows, cells) }
+
+// tableOf lays a shared grid out for the terminal.
+func tableOf(g present.Grid) *table {
+	t := &table{headers: g.Headers, right: g.Right, rows: g.Rows}
+	return t
+}
 
 func (t *table) write(w io.Writer) {
 	width := make([]int, len(t.headers))

@@ -1,0 +1,221 @@
+package present
+
+import (
+	"fmt"
+	"strings"
+
+	"pasval/internal/assess"
+	"pasval/internal/plantfile"
+	"pasval/internal/units"
+)
+
+// Grid is a table's content: the terminal and the record lay it out their own way.
+type Grid struct {
+	Headers []string
+	Right   []bool // right-aligned (numeric) columns
+	Rows    [][]string
+}
+
+func grid(headers ...string) Grid {
+	g := Grid{Right: make([]bool, len(headers))}
+	for i, h := range headers {
+		if strings.HasPrefix(h, ">") {
+			g.Right[i], h = true, h[1:]
+		}
+		g.Headers = append(g.Headers, h)
+	}
+	return g
+}
+
+func (g *Grid) add(cells ...string) { g.Rows = append(g.Rows, cells) }
+
+// SectionLabel names a section: "regeneration", "cooling: chilled water".
+func SectionLabel(s assess.Section) string {
+	if s.Stage != "" {
+		return s.Name + ": " + s.Stage
+	}
+	return s.Name
+}
+
+// OtherStream names the stream on a section's other side.
+func OtherStream(p *plantfile.Plant, s assess.Section) string {
+	switch {
+	case s.Name == "regeneration":
+		return "pasteurized product"
+	case s.Name == "heating" && p.Heating != nil:
+		return p.Heating.Medium.Name
+	}
+	for _, c := range p.Cooling {
+		if c.Name == s.Stage {
+			return c.Medium.Name
+		}
+	}
+	return ""
+}
+
+// DutyUnit is kW in SI and Btu/h in US units.
+func (d Display) DutyUnit() string {
+	if d.Sys == units.US {
+		return "Btu/h"
+	}
+	return "kW"
+}
+
+// Sections is the duty-and-size table of the heat-exchange sections.
+func Sections(res *assess.Result, d Display) Grid {
+	area := d.Unit(units.Area)
+	g := grid("section", "mode", "arrangement", ">duty "+d.DutyUnit(), ">LMTD "+d.Unit(units.TemperatureDifference),
+		">NTU", ">ε", ">required "+area, ">installed "+area, ">plates")
+	for _, s := range res.Sections {
+		g.add(SectionLabel(s), s.Mode, s.Arrangement, d.Power(s.DutyKW*1e3), d.Num(s.LMTDK, units.TemperatureDifference, 2),
+			fmt.Sprintf("%.2f", s.NTU), fmt.Sprintf("%.3f", s.Effectiveness),
+			d.Num(s.RequiredAreaM2, units.Area, 2), d.Num(s.InstalledAreaM2, units.Area, 2), fmt.Sprintf("%d", s.Plates))
+	}
+	return g
+}
+
+// Temperatures is the four temperatures of each section.
+func Temperatures(res *assess.Result, d Display) Grid {
+	g := grid("section", ">product in", ">product out", ">other in", ">other out", "other stream")
+	for _, s := range res.Sections {
+		other := OtherStream(res.Plant, s)
+		if s.MediumAvailableC != nil {
+			other += fmt.Sprintf(" (in: required; %s available)", d.With(*s.MediumAvailableC, units.Temperature, 2))
+		}
+		g.add(SectionLabel(s), d.Num(s.ProductInC, units.Temperature, 2), d.Num(s.ProductOutC, units.Temperature, 2),
+			d.Num(s.OtherInC, units.Temperature, 2), d.Num(s.OtherOutC, units.Temperature, 2), other)
+	}
+	return g
+}
+
+// CheckLabel is a check's id, with the organism for log-reduction checks.
+func CheckLabel(c assess.Check) string {
+	if c.Organism != "" {
+		return c.ID + " (" + c.Organism + ")"
+	}
+	return c.ID
+}
+
+// Checks is the checks table: verdict, required (with ≥ or ≤), actual, margin, note.
+func Checks(res *assess.Result, d Display) Grid {
+	g := grid("check", "result", ">required", ">actual", ">margin", "note")
+	for _, c := range res.Checks {
+		verdict := "PASS"
+		if !c.Pass {
+			verdict = "FAIL"
+		}
+		op := "≥ "
+		if c.Limit == "max" {
+			op = "≤ "
+		}
+		g.add(CheckLabel(c), verdict, op+CheckValue(c.Required, c.Unit, d), CheckValue(c.Actual, c.Unit, d), CheckMargin(c, d), c.Note)
+	}
+	return g
+}
+
+// Overall is the one-line result of the checks.
+func Overall(res *assess.Result) string {
+	failed := 0
+	for _, c := range res.Checks {
+		if !c.Pass {
+			failed++
+		}
+	}
+	switch {
+	case len(res.Checks) == 0:
+		return "no check applies: nothing was judged"
+	case failed == 0:
+		return fmt.Sprintf("PASS, all %d checks pass", len(res.Checks))
+	}
+	return fmt.Sprintf("FAIL, %d of %d checks fail", failed, len(res.Checks))
+}
+
+// HoldingFacts are the holding tube's labelled values.
+func HoldingFacts(res *assess.Result, d Display) [][2]string {
+	h := res.HoldingTube
+	p := res.Plant
+	var kv [][2]string
+	add := func(k, v string) { kv = append(kv, [2]string{k, v}) }
+	geom := fmt.Sprintf("inner diameter %s, length %s, hold-up %s", d.Small(h.InnerDiameterM), d.With(h.LengthM, units.Length, 2),
+		d.With(h.VolumeL/1e3, units.Volume, 1))
+	if p.HoldingTube.SanitaryTube.Set {
+		geom = p.HoldingTube.SanitaryTube.Text + " sanitary tube, " + geom
+	}
+	add("tube", geom)
+	if h.Slope != nil {
+		add("slope", fmt.Sprintf("rise %s = %s (minimum %s)", d.Small(p.HoldingTube.Rise.SI), Slope(*h.Slope, d), Slope(h.MinSlope, d)))
+	}
+	rheo := fmt.Sprintf("viscosity %s at the setpoint", d.With(h.ViscosityPas, units.Viscosity, 3))
+	if p.Product.PowerLaw != nil {
+		rheo = fmt.Sprintf("power law n = %.3g, K = %s", h.FlowIndex, p.Product.PowerLaw.Consistency.Text)
+	}
+	add("product", fmt.Sprintf("density %s, %s", d.With(h.DensityKgM3, units.Density, 1), rheo))
+	ratio := fmt.Sprintf("%.3f", h.FastestToMean)
+	if h.FastestToMeanOverridden {
+		ratio += " (entered)"
+	}
+	add("flow", fmt.Sprintf("mean velocity %s/s, Re %.0f (%s), fastest/mean %s", d.With(h.MeanVelocity, units.Length, 3), h.Reynolds, h.Regime, ratio))
+	add("residence", fmt.Sprintf("fastest particle %.2f s, mean %.2f s", h.MinResidenceS, h.MeanResidenceS))
+	if h.InletTemperatureC != h.OutletTemperatureC {
+		add("temperature", fmt.Sprintf("inlet %s → outlet %s with heat loss; the heater delivers %s at the normal rate",
+			d.With(h.InletTemperatureC, units.Temperature, 2), d.With(h.OutletTemperatureC, units.Temperature, 2), d.With(h.HeatingOutletC, units.Temperature, 2)))
+	} else {
+		add("temperature", fmt.Sprintf("%s throughout (no heat loss entered)", d.With(h.OutletTemperatureC, units.Temperature, 2)))
+	}
+	if h.PasteurizationUnits != nil {
+		add("PU", fmt.Sprintf("%.2f pasteurization units (1 PU = 1 min at 60 °C, z = 7 °C)", *h.PasteurizationUnits))
+	}
+	return kv
+}
+
+// LegalRows is the legal table as entered, with the judged row marked and
+// what length or flow would meet each row.
+func LegalRows(res *assess.Result, d Display) Grid {
+	h := res.HoldingTube
+	g := grid("row", ">temperature", ">time", "applies", ">length needed", ">max flow")
+	for i, r := range h.Rows {
+		applies := "no (above setpoint)"
+		if r.Applies {
+			applies = "yes"
+			if h.Legal != nil && h.Legal.RowIndex == i {
+				applies = "yes: judged"
+			}
+		}
+		maxFlow := d.With(r.MaxFlowM3s, units.VolumeFlow, 0)
+		if r.MaxFlowCapped {
+			maxFlow = "≥ " + maxFlow
+		}
+		g.add(fmt.Sprintf("%d", i+1), d.With(r.TemperatureC, units.Temperature, 1), fmt.Sprintf("%g s", r.TimeS), applies,
+			d.With(r.RequiredLengthM, units.Length, 2), maxFlow)
+	}
+	return g
+}
+
+// Lethality is each organism's result.
+func Lethality(res *assess.Result) Grid {
+	g := grid("organism", ">D at setpoint", ">log reduction", ">required", ">equivalent time at D temperature")
+	for i, l := range res.Lethality {
+		req := "—"
+		if res.Plant.Organisms[i].RequiredSet {
+			req = fmt.Sprintf("%.2f", l.RequiredLogReduction)
+		}
+		g.add(l.Organism, fmt.Sprintf("%.4g s", l.DAtSetpointS), fmt.Sprintf("%.2f", l.LogReduction), req, fmt.Sprintf("%.2f s", l.EquivalentTimeS))
+	}
+	return g
+}
+
+// AddedLabel is "baseline" or "+N".
+func AddedLabel(o assess.PlatesOption) string {
+	if o.AddedPlates == 0 {
+		return "baseline"
+	}
+	return fmt.Sprintf("+%d", o.AddedPlates)
+}
+
+// ChecksText says whether an option's line still passes every check.
+func ChecksText(o assess.PlatesOption) string {
+	if o.ChecksPass {
+		return "all pass"
+	}
+	return "FAIL: " + strings.Join(o.FailedChecks, ", ")
+}
