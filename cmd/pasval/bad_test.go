@@ -1,5 +1,8 @@
 package main
 
+// Source of the expected values: the project's own specification of each
+// refusal (line, field and message wording); no outside reference applies.
+
 import (
 	"bytes"
 	"fmt"

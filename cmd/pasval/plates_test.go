@@ -1,5 +1,10 @@
 package main
 
+// Source of the expected values: relations computed from the plant files
+// (payback = added × plate cost / annual saving, DOMAIN.md §2 for the ε–NTU
+// ceiling); the numbers themselves are checked against hand calculations in
+// internal/assess/whatif_test.go.
+
 import (
 	"encoding/json"
 	"math"

@@ -1,5 +1,9 @@
 package main
 
+// Source of the expected values: the record's specification (its content,
+// determinism and verification rules); text is read back with poppler's
+// pdftotext and pdfinfo as the outside reference for what a reader sees.
+
 import (
 	"bytes"
 	"os"

@@ -1,5 +1,8 @@
 package assess
 
+// Source of the expected values: hand calculations written out beside each
+// case, computed from ε = NTU/(1+NTU) at C_r = 1 (DOMAIN.md §2).
+
 import (
 	"math"
 	"os"

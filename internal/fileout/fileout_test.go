@@ -1,5 +1,8 @@
 package fileout
 
+// Source of the expected values: the project's file-writing rules (atomic
+// rename, no overwrite without --force); no outside reference applies.
+
 import (
 	"errors"
 	"os"

@@ -1,5 +1,8 @@
 package plantfile_test
 
+// Source of the invariants: the project's error contract (every refusal
+// names the file, a line and a message).
+
 import (
 	"os"
 	"path/filepath"

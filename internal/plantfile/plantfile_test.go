@@ -1,5 +1,8 @@
 package plantfile
 
+// Source of the expected values: the Fahrenheit scale definition for the
+// conversions, and the project's reader specification for positions and hints.
+
 import (
 	"math"
 	"strings"

@@ -1,5 +1,8 @@
 package units
 
+// Source of the expected values: NIST SP 811 (2008) Appendix B conversion
+// factors, cited beside each case.
+
 import (
 	"math"
 	"strings"
