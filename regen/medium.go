@@ -63,7 +63,7 @@ const (
 )
 
 // ErrNoConvergence is returned when a fixed-point solve does not settle.
-var ErrNoConvergence = fmt.Errorf("solution did not converge in %d iterations", maxIterations)
+var ErrNoConvergence = fmt.Errorf("the calculation did not settle in %d iterations; check the flows, U-values and temperatures for a typo", maxIterations)
 
 // outletForDuty finds the medium outlet for a duty q (W, positive when the
 // medium gives heat): T_out = T_in − q / (ṁ cp(T̄)), with cp at the mean of

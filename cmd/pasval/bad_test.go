@@ -92,6 +92,8 @@ var badCases = map[string]badCase{
 	"economics-negative-price":       {33, "economics.heat_price_per_kWh", "cannot be negative"},
 	"economics-missing-plate-cost":   {31, "economics.plate_cost", "missing"},
 	"economics-hours":                {31, "economics.operating_hours_per_year", "8784 hours"},
+	"holding-heat-loss-absurd":       {52, "holding_tube.outer_coefficient", "more than 1000 K"},
+	"magnitude-tiny":                 {4, "product.density", "outside the magnitudes"},
 }
 
 const badDir = "../../testdata/bad"

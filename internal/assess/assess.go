@@ -17,6 +17,7 @@
 package assess
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -116,7 +117,10 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	res.Product = productProps(p)
 	heatingOutlet := p.Process.HoldSetpoint.SI
 	if p.HoldingTube != nil {
-		heatingOutlet = runHolding(p, res)
+		var err error
+		if heatingOutlet, err = runHolding(p, res); err != nil {
+			return nil, err
+		}
 	}
 	if p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0 {
 		if err := runLine(p, res, heatingOutlet); err != nil {
@@ -130,6 +134,11 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	res.Pass = true
 	for _, c := range res.Checks {
 		res.Pass = res.Pass && c.Pass
+	}
+	// A safety net: no verdict rests on a number that is not finite.
+	if _, err := json.Marshal(res); err != nil {
+		return nil, plantfile.ErrorList{{Pos: plantfile.Pos{File: p.File, Line: 1, Column: 1},
+			Msg: "the inputs lead to a result that is not a finite number; check the magnitudes and units of the entered values"}}
 	}
 	return res, nil
 }

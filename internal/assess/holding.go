@@ -103,9 +103,14 @@ func fmtDT(k float64, sys units.System) string {
 	return fmt.Sprintf("%.1f %s", units.FromSI(k, units.TemperatureDifference, u), u)
 }
 
+// MaxTubeHeatLoss is the largest temperature drop along the holding tube that
+// pasval accepts (K); real tubes lose tenths of a kelvin, and a larger drop
+// means a typo in the heat-loss inputs.
+const MaxTubeHeatLoss = 10.0
+
 // runHolding computes the holding tube and lethality; it returns the product
 // temperature the heating section must deliver at the normal rate.
-func runHolding(p *plantfile.Plant, res *Result) float64 {
+func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	h := p.HoldingTube
 	sys := p.System
 	setpoint := p.Process.HoldSetpoint.SI
@@ -164,6 +169,11 @@ func runHolding(p *plantfile.Plant, res *Result) float64 {
 	judged := profileAt(setpoint, res.Product.MaxMassFlow)
 	out.InletTemperatureC = judged.Inlet()
 	out.HeatingOutletC = profileAt(setpoint, res.Product.MassFlow).Inlet()
+	if loss := out.HeatingOutletC - setpoint; !(loss <= MaxTubeHeatLoss) {
+		return 0, plantfile.ErrorList{{Pos: h.OuterCoefficient.Pos, Field: "holding_tube.outer_coefficient",
+			Msg: fmt.Sprintf("with this heat loss the product would have to enter the holding tube %s above the setpoint to leave it at the setpoint; a holding tube loses well under %g K: check outer_coefficient, ambient and the flow",
+				kelvins(loss), MaxTubeHeatLoss)}}
+	}
 
 	if hyd.Regime != lethality.Turbulent {
 		res.Warnings = append(res.Warnings, fmt.Sprintf(
@@ -253,10 +263,7 @@ func runHolding(p *plantfile.Plant, res *Result) float64 {
 	}
 	out.Model = model
 	res.HoldingTube = out
-	if math.IsNaN(out.HeatingOutletC) {
-		return setpoint
-	}
-	return out.HeatingOutletC
+	return out.HeatingOutletC, nil
 }
 
 // regeneratorPressure adds the regenerator-pressure check: the pasteurized side
@@ -272,4 +279,11 @@ func regeneratorPressure(p *plantfile.Plant, res *Result) {
 	res.Checks = append(res.Checks, Check{ID: "regenerator-pressure", Required: margin, Actual: diff, Unit: "Pa", MarginUnit: "Pa",
 		Limit: "min", Margin: diff - margin, Pass: diff >= margin-1e-9,
 		Note: "pasteurized-side minimum pressure above raw-side maximum in the regenerator"})
+}
+
+func kelvins(k float64) string {
+	if math.IsInf(k, 0) || math.IsNaN(k) || k > 1000 {
+		return "more than 1000 K"
+	}
+	return fmt.Sprintf("%.3g K", k)
 }

@@ -154,10 +154,21 @@ func (d *decoder) parseQuantity(n *yaml.Node, field, s string, k units.Kind) Qua
 		d.errorf(n, field, "%v", err)
 		return Quantity{}
 	}
+	if a := math.Abs(v.SI); k.Name != units.Temperature.Name && a != 0 && (a < minMagnitude || a > maxMagnitude) {
+		d.errorf(n, field, "%q is outside the magnitudes pasval computes with (%g to %g in SI units); check the number and its unit", s, minMagnitude, maxMagnitude)
+		return Quantity{}
+	}
 	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), System: v.System, Pos: d.pos(n), Set: true}
 	d.record(field, q, k)
 	return q
 }
+
+// Magnitude limits for entered quantities in SI: far outside any plant, they
+// keep absurd entries (a unit typo, 1e300) from overflowing the arithmetic.
+const (
+	minMagnitude = 1e-9
+	maxMagnitude = 1e9
+)
 
 func (d *decoder) record(field string, q Quantity, k units.Kind) {
 	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: siUnit(k)})
@@ -197,6 +208,10 @@ func (o *object) flowRate(key string, required bool) FlowRate {
 	f := join(o.path, key)
 	if err != nil {
 		o.d.errorf(n, f, "%v", err)
+		return FlowRate{}
+	}
+	if a := math.Abs(v.SI); a != 0 && (a < minMagnitude || a > maxMagnitude) {
+		o.d.errorf(n, f, "%q is outside the magnitudes pasval computes with (%g to %g in SI units); check the number and its unit", s, minMagnitude, maxMagnitude)
 		return FlowRate{}
 	}
 	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), System: v.System, Pos: o.d.pos(n), Set: true}
