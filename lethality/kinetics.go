@@ -61,9 +61,10 @@ type Organism struct {
 func (o Organism) DAt(t float64) float64 { return o.D * math.Pow(10, (o.DTemperature-t)/o.Z) }
 
 // simpsonIntervals is the number of Simpson intervals along the tube; the
-// integrands are smooth (exp of an exponential), so 2000 intervals give
-// a relative error far below 1e-9 for any plausible heat loss.
-const simpsonIntervals = 2000
+// integrands are smooth (exp of an exponential), so 1024 intervals give
+// a relative error far below 1e-9 for any plausible heat loss (tested
+// against a 200 000-step trapezoidal sum).
+const simpsonIntervals = 1024
 
 // integrate applies composite Simpson's rule to f over [0, L].
 func integrate(f func(x float64) float64, length float64) float64 {

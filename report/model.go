@@ -267,7 +267,7 @@ func methodSection(res *assess.Result) Section {
 			"Reynolds number ρvD/μ (Newtonian) or Metzner–Reed (power law; Metzner and Reed 1955). Re < 2100 laminar; 2100–4000 transitional, treated as laminar; ≥ 4000 turbulent.",
 			"Fastest-to-mean velocity ratio: 2 (laminar Newtonian), (3n+1)/(n+1) (laminar power law; Steffe 1996), (n_p+1)(2n_p+1)/(2n_p²) with n_p = 0.790 ln Re − 1.64 (turbulent; Petukhov friction factor, power-law velocity profile), unless entered.",
 			"Heat loss (when entered): T(x) = T_a + (T_in − T_a)·exp(−h_o π D_o x/(m c_p)), m the mass flow, outlet at the setpoint; lethality uses m at the sealed maximum, the heating section the tube inlet at the normal rate.",
-			"Lethality: D(T) = D_ref·10^((T_ref − T)/z); log reduction LR = ∫ dt/D(T) along the fastest particle (Simpson's rule, 2000 intervals; closed form when isothermal).",
+			"Lethality: D(T) = D_ref·10^((T_ref − T)/z); log reduction LR = ∫ dt/D(T) along the fastest particle (Simpson's rule, 1024 intervals; closed form when isothermal).",
 			"Legal table: met when some row has temperature ≤ setpoint and time ≤ the fastest particle's time; rows are never interpolated.",
 		)
 	}

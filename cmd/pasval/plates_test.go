@@ -6,6 +6,7 @@ package main
 // internal/assess/whatif_test.go.
 
 import (
+	"bytes"
 	"encoding/json"
 	"math"
 	"path/filepath"
@@ -117,5 +118,16 @@ func TestCompareArrangements(t *testing.T) {
 	text, _, _ := runBinary(t, "check", "--compare-arrangements", filepath.Join(demoDir, "htst-milk-si.yaml"))
 	if !strings.Contains(text, "Arrangement comparison") || !strings.Contains(text, "impossible") {
 		t.Errorf("text output:\n%s", text)
+	}
+}
+
+func BenchmarkPlatesSweep(b *testing.B) {
+	// 14 options of the US demo, each the whole line recomputed.
+	path := filepath.Join(demoDir, "cider-us.yaml")
+	for b.Loop() {
+		var out bytes.Buffer
+		if code := run([]string{"plates", path, "--sweep", "10:140:10"}, &out, &out); code != 0 {
+			b.Fatal(out.String())
+		}
 	}
 }

@@ -168,3 +168,15 @@ func TestRecordDeterminismTamperAndFiles(t *testing.T) {
 		t.Error("check --record and report differ")
 	}
 }
+
+func BenchmarkRecord(b *testing.B) {
+	// Compute the SI demo and write its record (build, render, atomic write).
+	dir := b.TempDir()
+	plant := filepath.Join(demoDir, "htst-milk-si.yaml")
+	for b.Loop() {
+		var out bytes.Buffer
+		if code := run([]string{"report", plant, "-o", filepath.Join(dir, "r.pdf"), "--date", "2026-12-01", "--force"}, &out, &out); code != 0 {
+			b.Fatal(out.String())
+		}
+	}
+}
