@@ -28,15 +28,6 @@ type LineResult struct {
 	FinalProductOut        float64 // °C, product leaving the last cooling stage (or regeneration)
 }
 
-// Section returns the first section with the name (and stage, if given).
-func (r LineResult) Section(name, stage string) (Section, bool) {
-	for _, s := range r.Sections {
-		if s.Name == name && (stage == "" || s.Stage == stage) {
-			return s, true
-		}
-	}
-	return Section{}, false
-}
 
 // Line computes the sections in process order:
 //

@@ -193,7 +193,6 @@ func siUnit(k units.Kind) string {
 		units.Volume.Name: "m³", units.Time.Name: "s", units.Pressure.Name: "Pa", units.Density.Name: "kg/m³",
 		units.SpecificHeat.Name: "J/(kg·K)", units.Viscosity.Name: "Pa·s", units.HeatTransferCoefficient.Name: "W/(m²·K)",
 		units.FoulingResistance.Name: "m²·K/W", units.ThermalConductivity.Name: "W/(m·K)", units.Power.Name: "W",
-		units.Energy.Name: "J",
 	}
 	return si[k.Name]
 }

@@ -83,8 +83,6 @@ func displayUnits(k Kind) (si, us string) {
 		return "W/(m²·K)", "Btu/(h·ft²·°F)"
 	case Power.Name:
 		return "kW", "Btu/h"
-	case Energy.Name:
-		return "kWh", "kWh"
 	}
 	panic(panicPrefix + "no display unit for " + k.Name)
 }

@@ -66,7 +66,6 @@ var (
 	FoulingResistance       = Kind{Name: "fouling resistance", Dim: Dim{-1, 0, 3, 1}, Example: "0.00005 m2*K/W"}
 	ThermalConductivity     = Kind{Name: "thermal conductivity", Dim: Dim{1, 1, -3, -1}, Example: "0.6 W/(m*K)"}
 	Power                   = Kind{Name: "power", Dim: Dim{1, 2, -3, 0}, Example: "150 kW or 512000 Btu/h"}
-	Energy                  = Kind{Name: "energy", Dim: Dim{1, 2, -2, 0}, Example: "1 kWh"}
 	Dimensionless           = Kind{Name: "number", Dim: Dim{}, Example: "0.92 or 92 %"}
 )
 
