@@ -28,7 +28,6 @@ type LineResult struct {
 	FinalProductOut        float64 // °C, product leaving the last cooling stage (or regeneration)
 }
 
-
 // Line computes the sections in process order:
 //
 //  1. regeneration: raw product RawInlet → T_r, pasteurized Setpoint → T_p
