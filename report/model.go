@@ -284,6 +284,9 @@ func heatSection(res *assess.Result, d present.Display) Section {
 		blocks = append(blocks, KeyValues{Pairs: [][2]string{{"regeneration ratio", fmt.Sprintf("%.1f %%", *res.RegenerationRatio*100)}}})
 	}
 	blocks = append(blocks, temperatureDiagram(res, d))
+	for _, s := range res.Sections {
+		blocks = append(blocks, tableFrom("Section "+present.SectionLabel(s)+".", present.SectionDetail(res, s, d)))
+	}
 	return Section{Heading: "Heat exchange", Blocks: blocks}
 }
 

@@ -3,6 +3,7 @@ package report
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -249,5 +250,33 @@ func TestWhatIfSweep(t *testing.T) {
 	}
 	if got := WhatIfSweep(3); got[0] != 1 || got[len(got)-1] != 10 {
 		t.Errorf("WhatIfSweep(3) = %v", got)
+	}
+}
+
+func TestSectionTables(t *testing.T) {
+	// One detail table per section; the medium mass flow is the section's own,
+	// shown in the plant's units (US demo: lb/h = kg/s × 3600 / 0.45359237, NIST SP 811).
+	res, doc := demo(t, "cider-us")
+	var details []Table
+	for _, s := range doc.Sections {
+		for _, b := range s.Blocks {
+			if tb, ok := b.(Table); ok && strings.HasPrefix(tb.Caption, "Section ") {
+				details = append(details, tb)
+			}
+		}
+	}
+	if len(details) != len(res.Sections) {
+		t.Fatalf("%d detail tables for %d sections", len(details), len(res.Sections))
+	}
+	heating := res.Sections[1]
+	want := fmt.Sprintf("%.0f lb/h", heating.MediumMassFlowKgS*3600/0.45359237)
+	found := false
+	for _, r := range details[1].Rows {
+		for _, c := range r {
+			found = found || c == want
+		}
+	}
+	if !found {
+		t.Errorf("heating medium flow %q not in %v", want, details[1].Rows)
 	}
 }

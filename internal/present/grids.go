@@ -219,3 +219,34 @@ func ChecksText(o assess.PlatesOption) string {
 	}
 	return "FAIL: " + strings.Join(o.FailedChecks, ", ")
 }
+
+// SectionDetail is one section's full table: every quantity with its unit,
+// in two pairs of columns.
+func SectionDetail(res *assess.Result, s assess.Section, d Display) Grid {
+	raw := s.Raw()
+	tu := units.Temperature
+	pairs := [][2]string{
+		{"mode", s.Mode}, {"arrangement", s.Arrangement},
+		{"duty", d.Power(s.DutyKW*1e3) + " " + d.DutyUnit()}, {"LMTD", d.With(s.LMTDK, units.TemperatureDifference, 2)},
+		{"NTU", fmt.Sprintf("%.3f", s.NTU)}, {"effectiveness", fmt.Sprintf("%.4f", s.Effectiveness)},
+		{"capacity ratio C_min/C_max", fmt.Sprintf("%.4f", raw.CapacityRatio)}, {"U", d.With(s.UWm2K, units.HeatTransferCoefficient, 0)},
+		{"area per plate", d.With(s.PlateAreaM2, units.Area, 3)}, {"plates", fmt.Sprintf("%d", s.Plates)},
+		{"required area", d.With(s.RequiredAreaM2, units.Area, 2)}, {"installed area", d.With(s.InstalledAreaM2, units.Area, 2)},
+		{"product in", d.With(s.ProductInC, tu, 2)}, {"product out", d.With(s.ProductOutC, tu, 2)},
+		{OtherStream(res.Plant, s) + " in", d.With(s.OtherInC, tu, 2)}, {OtherStream(res.Plant, s) + " out", d.With(s.OtherOutC, tu, 2)},
+	}
+	if s.MediumMassFlowKgS > 0 {
+		pairs = append(pairs,
+			[2]string{"medium mass flow", d.With(s.MediumMassFlowKgS, units.MassFlow, 0)},
+			[2]string{"medium specific heat", d.With(raw.MediumSpecificHeat, units.SpecificHeat, 3)})
+	}
+	if s.MediumAvailableC != nil {
+		pairs = append(pairs, [2]string{"medium inlet available", d.With(*s.MediumAvailableC, tu, 2)},
+			[2]string{"medium inlet required", d.With(s.OtherInC, tu, 2)})
+	}
+	g := grid("quantity", ">value", "quantity", ">value")
+	for i := 0; i+1 < len(pairs); i += 2 {
+		g.add(pairs[i][0], pairs[i][1], pairs[i+1][0], pairs[i+1][1])
+	}
+	return g
+}
