@@ -3,11 +3,12 @@ module pasval
 go 1.26.0
 
 require (
-	github.com/jung-kurt/gofpdf v1.16.2
+	codeberg.org/go-pdf/fpdf v0.12.0
 	github.com/santhosh-tekuri/jsonschema/v6 v6.0.3
 	github.com/spf13/cobra v1.10.2
+	go.yaml.in/yaml/v3 v3.0.6
 	golang.org/x/image v0.48.0
-	gopkg.in/yaml.v3 v3.0.1
+	golang.org/x/term v0.48.0
 )
 
 require (
@@ -15,6 +16,6 @@ require (
 	github.com/inconshreveable/mousetrap v1.1.0 // indirect
 	github.com/russross/blackfriday/v2 v2.1.0 // indirect
 	github.com/spf13/pflag v1.0.9 // indirect
-	go.yaml.in/yaml/v3 v3.0.4 // indirect
+	golang.org/x/sys v0.50.0 // indirect
 	golang.org/x/text v0.44.0 // indirect
 )

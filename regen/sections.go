@@ -170,7 +170,7 @@ func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error)
 		mediumIn = math.Max(spec.Inlet, productOut+1)
 		converged := false
 		for range maxIterations {
-			mediumOut, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
+			_, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
 			if err != nil {
 				return sec, sectionErrorf("heating", "%w", err)
 			}

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/jung-kurt/gofpdf"
+	"codeberg.org/go-pdf/fpdf"
 	"golang.org/x/image/font/gofont/gobold"
 	"golang.org/x/image/font/gofont/gomono"
 	"golang.org/x/image/font/gofont/goregular"
@@ -45,7 +45,7 @@ var (
 )
 
 type renderer struct {
-	f    *gofpdf.Fpdf
+	f    *fpdf.Fpdf
 	doc  *Document
 	w    float64 // usable width
 	secN int
@@ -55,7 +55,7 @@ type renderer struct {
 // same bytes (the page count is returned too): the creation date is the record date, catalog entries are
 // sorted and no random identifier is written.
 func Render(doc *Document) (pdf []byte, pages int, err error) {
-	f := gofpdf.New("P", "mm", doc.PageSize, "")
+	f := fpdf.New("P", "mm", doc.PageSize, "")
 	f.SetCatalogSort(true)
 	f.SetCompression(true)
 	day := time.Date(doc.Date.Year(), doc.Date.Month(), doc.Date.Day(), 0, 0, 0, 0, time.UTC)
@@ -76,7 +76,7 @@ func Render(doc *Document) (pdf []byte, pages int, err error) {
 	f.SetCellMargin(0) // tables pad their cells themselves (cellPad)
 	f.SetAutoPageBreak(true, margin+4)
 	f.AliasNbPages("{nb}")
-	f.SetAttachments([]gofpdf.Attachment{{Content: doc.PlantBytes, Filename: doc.PlantName,
+	f.SetAttachments([]fpdf.Attachment{{Content: doc.PlantBytes, Filename: doc.PlantName,
 		Description: "plant file, SHA-256 " + doc.SHA256}})
 	pw, _ := f.GetPageSize()
 	r := &renderer{f: f, doc: doc, w: pw - 2*margin}
@@ -654,7 +654,7 @@ func (r *renderer) arrow(x0, y0, x1, y1 float64, leftward bool, col [3]int) {
 	mx, my := x0+(x1-x0)*0.55, y0+(y1-y0)*0.55
 	ang := math.Atan2(y1-y0, x1-x0)
 	const l, spread = 2.4, 0.45
-	p := []gofpdf.PointType{{X: mx, Y: my},
+	p := []fpdf.PointType{{X: mx, Y: my},
 		{X: mx - l*math.Cos(ang-spread), Y: my - l*math.Sin(ang-spread)},
 		{X: mx - l*math.Cos(ang+spread), Y: my - l*math.Sin(ang+spread)}}
 	r.f.SetFillColor(col[0], col[1], col[2])

@@ -128,6 +128,15 @@ func TestColourOnlyOnATerminal(t *testing.T) {
 	if strings.Contains(out, "\x1b[") {
 		t.Error("escape codes in piped output")
 	}
+	// /dev/null is a character device but not a terminal: no colour codes.
+	devNull, err := os.OpenFile(os.DevNull, os.O_WRONLY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer devNull.Close()
+	if useColour(devNull) {
+		t.Error("colour on /dev/null")
+	}
 	t.Setenv("NO_COLOR", "1")
 	if useColour(os.Stdout) {
 		t.Error("colour with NO_COLOR set")

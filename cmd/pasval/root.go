@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+	"golang.org/x/term"
 
 	"pasval/internal/plantfile"
 	"pasval/internal/present"
@@ -130,11 +131,9 @@ func useColour(w io.Writer) bool {
 		return false
 	}
 	f, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
+	// term.IsTerminal asks the terminal driver (isatty), so /dev/null and
+	// other character devices that are not terminals get no colour codes.
+	return ok && term.IsTerminal(int(f.Fd()))
 }
 
 // outputFlags are the flags of the commands that print results.
