@@ -171,30 +171,7 @@ const (
 )
 
 func (d *decoder) record(field string, q Quantity, k units.Kind) {
-	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: siUnit(k)})
-}
-
-func siUnit(k units.Kind) string {
-	switch k.Name {
-	case units.Temperature.Name:
-		return "°C"
-	case units.VolumeFlow.Name:
-		return "m³/s"
-	case units.MassFlow.Name:
-		return "kg/s"
-	case units.Dimensionless.Name:
-		return "1"
-	}
-	if strings.HasPrefix(k.Name, "consistency") {
-		return "Pa·sⁿ"
-	}
-	si := map[string]string{
-		units.TemperatureDifference.Name: "K", units.Length.Name: "m", units.Area.Name: "m²",
-		units.Volume.Name: "m³", units.Time.Name: "s", units.Pressure.Name: "Pa", units.Density.Name: "kg/m³",
-		units.SpecificHeat.Name: "J/(kg·K)", units.Viscosity.Name: "Pa·s", units.HeatTransferCoefficient.Name: "W/(m²·K)",
-		units.FoulingResistance.Name: "m²·K/W", units.ThermalConductivity.Name: "W/(m·K)", units.Power.Name: "W",
-	}
-	return si[k.Name]
+	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit})
 }
 
 // flowRate reads a product or medium rate, volumetric or by mass.
