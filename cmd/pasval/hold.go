@@ -7,7 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pasval/internal/assess"
-	"pasval/internal/plantfile"
+	"pasval/internal/inputerr"
 	"pasval/internal/present"
 	"pasval/internal/units"
 )
@@ -66,7 +66,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 		return err
 	}
 	if p.HoldingTube == nil {
-		return plantfile.ErrorList{{Pos: plantfile.Pos{File: p.File, Line: 1, Column: 1}, Field: "holding_tube",
+		return inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1}, Field: "holding_tube",
 			Msg: "the plant file describes no holding tube; add holding_tube (see 'pasval init' and the README)"}}
 	}
 	res, err := assess.Run(p)

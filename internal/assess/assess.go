@@ -22,6 +22,7 @@ import (
 	"fmt"
 	"math"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
 	"pasval/internal/version"
@@ -109,7 +110,7 @@ type Result struct {
 }
 
 // Run computes every section and check the plant file describes. Errors are
-// plantfile.ErrorList values that point at the section whose numbers cannot
+// inputerr.List values that point at the section whose numbers cannot
 // work (a temperature cross, an impossible duty).
 func Run(p *plantfile.Plant) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
@@ -137,7 +138,7 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	}
 	// A safety net: no verdict rests on a number that is not finite.
 	if _, err := json.Marshal(res); err != nil {
-		return nil, plantfile.ErrorList{{Pos: plantfile.Pos{File: p.File, Line: 1, Column: 1},
+		return nil, inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1},
 			Msg: "the inputs lead to a result that is not a finite number; check the magnitudes and units of the entered values"}}
 	}
 	return res, nil
@@ -298,5 +299,5 @@ func sectionError(p *plantfile.Plant, err error) error {
 	if field == "process" {
 		msg = err.Error()
 	}
-	return plantfile.ErrorList{{Pos: pos, Field: field, Msg: msg}}
+	return inputerr.List{{Pos: pos, Field: field, Msg: msg}}
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
 	"pasval/internal/units"
@@ -170,7 +171,7 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	out.InletTemperatureC = judged.Inlet()
 	out.HeatingOutletC = profileAt(setpoint, res.Product.MassFlow).Inlet()
 	if loss := out.HeatingOutletC - setpoint; !(loss <= MaxTubeHeatLoss) {
-		return 0, plantfile.ErrorList{{Pos: h.OuterCoefficient.Pos, Field: "holding_tube.outer_coefficient",
+		return 0, inputerr.List{{Pos: h.OuterCoefficient.Pos, Field: "holding_tube.outer_coefficient",
 			Msg: fmt.Sprintf("with this heat loss the product would have to enter the holding tube %s above the setpoint to leave it at the setpoint; a holding tube loses well under %g K: check outer_coefficient, ambient and the flow",
 				kelvins(loss), MaxTubeHeatLoss)}}
 	}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"sort"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 )
 
@@ -43,11 +44,11 @@ const DefaultKneeFraction = 0.10
 
 // RegenerationNotRated is returned when the regenerator is sized, not rated.
 func regenerationNotRated(p *plantfile.Plant) error {
-	pos := plantfile.Pos{File: p.File, Line: 1, Column: 1}
+	pos := inputerr.Pos{File: p.File, Line: 1, Column: 1}
 	if p.Regeneration != nil {
 		pos = p.Regeneration.Pos
 	}
-	return plantfile.ErrorList{{Pos: pos, Field: "regeneration.plates",
+	return inputerr.List{{Pos: pos, Field: "regeneration.plates",
 		Msg: "the plates what-if needs the regenerator in rating mode: replace ratio with the installed plates (e.g. plates: 112)"}}
 }
 

@@ -9,6 +9,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/units"
 )
 
@@ -16,24 +17,24 @@ import (
 // every error rather than stopping at the first.
 type decoder struct {
 	file   string
-	errs   ErrorList
+	errs   inputerr.List
 	inputs []Input
 }
 
 const maxErrors = 50
 
-func (d *decoder) pos(n *yaml.Node) Pos {
+func (d *decoder) pos(n *yaml.Node) inputerr.Pos {
 	if n == nil {
-		return Pos{File: d.file, Line: 1, Column: 1}
+		return inputerr.Pos{File: d.file, Line: 1, Column: 1}
 	}
-	return Pos{File: d.file, Line: n.Line, Column: n.Column}
+	return inputerr.Pos{File: d.file, Line: n.Line, Column: n.Column}
 }
 
 func (d *decoder) errorf(n *yaml.Node, field, format string, args ...any) {
 	if len(d.errs) >= maxErrors {
 		return
 	}
-	d.errs = append(d.errs, &Error{Pos: d.pos(n), Field: field, Msg: fmt.Sprintf(format, args...)})
+	d.errs = append(d.errs, &inputerr.Error{Pos: d.pos(n), Field: field, Msg: fmt.Sprintf(format, args...)})
 }
 
 // object is a YAML mapping checked against its allowed keys.
@@ -196,7 +197,7 @@ func (o *object) flowRate(key string, required bool) FlowRate {
 }
 
 // number reads a plain number (a fraction may be written "92 %").
-func (o *object) number(key string, required bool) (float64, Pos, bool) {
+func (o *object) number(key string, required bool) (float64, inputerr.Pos, bool) {
 	s, n, ok := o.scalar(key, required, "a number")
 	if !ok {
 		return 0, o.d.pos(n), false
@@ -212,7 +213,7 @@ func (o *object) number(key string, required bool) (float64, Pos, bool) {
 }
 
 // integer reads a whole number ≥ 1.
-func (o *object) integer(key string, required bool) (int, Pos, bool) {
+func (o *object) integer(key string, required bool) (int, inputerr.Pos, bool) {
 	s, n, ok := o.scalar(key, required, "a whole number")
 	if !ok {
 		return 0, o.d.pos(n), false
@@ -311,7 +312,7 @@ func editDistance(a, b string) int {
 }
 
 // sortErrors orders errors by position so the first one shown is the first in the file.
-func sortErrors(l ErrorList) {
+func sortErrors(l inputerr.List) {
 	sort.SliceStable(l, func(i, j int) bool {
 		if l[i].Pos.Line != l[j].Pos.Line {
 			return l[i].Pos.Line < l[j].Pos.Line

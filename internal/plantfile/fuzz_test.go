@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"pasval/internal/assess"
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 )
 
@@ -37,7 +38,7 @@ func FuzzLoad(f *testing.F) {
 				return
 			}
 		}
-		list, ok := err.(plantfile.ErrorList)
+		list, ok := err.(inputerr.List)
 		if !ok || len(list) == 0 {
 			t.Fatalf("error is not a positioned list: %T %v", err, err)
 		}

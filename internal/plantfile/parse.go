@@ -16,6 +16,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/units"
 )
 
@@ -30,14 +31,19 @@ var recordKeys = []string{"site", "line", "product", "schedule", "prepared_by", 
 
 // Load reads, parses and validates a plant file.
 func Load(path string) (*Plant, error) {
+	// A file that cannot be read has no line to point at: the error names the
+	// file alone ("line2.yaml: cannot read line2.yaml: no such file or directory").
+	cannotRead := func(err error) error {
+		return inputerr.List{inputerr.At(inputerr.Pos{File: path}, "", "cannot read %s: %v", path, unwrapPathError(err))}
+	}
 	f, err := os.Open(path)
 	if err != nil {
-		return nil, ErrorList{{Pos: Pos{File: path}, Msg: fmt.Sprintf("cannot read the plant file: %v", unwrapPathError(err))}}
+		return nil, cannotRead(err)
 	}
 	defer f.Close()
 	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
 	if err != nil {
-		return nil, ErrorList{{Pos: Pos{File: path}, Msg: fmt.Sprintf("cannot read the plant file: %v", unwrapPathError(err))}}
+		return nil, cannotRead(err)
 	}
 	p, err := Parse(path, data)
 	if err != nil {
@@ -63,7 +69,7 @@ func unwrapPathError(err error) error {
 func Parse(file string, data []byte) (p *Plant, err error) {
 	d := &decoder{file: file}
 	first := func(line, col int, msg string) error {
-		return ErrorList{{Pos: Pos{File: file, Line: line, Column: col}, Field: keyOnLine(data, line), Msg: msg}}
+		return inputerr.List{{Pos: inputerr.Pos{File: file, Line: line, Column: col}, Field: keyOnLine(data, line), Msg: msg}}
 	}
 	if len(data) > MaxFileSize {
 		return nil, first(1, 1, fmt.Sprintf("the file is larger than %d bytes; a plant file is a few kilobytes", MaxFileSize))
@@ -87,7 +93,7 @@ func Parse(file string, data []byte) (p *Plant, err error) {
 		return nil, first(1, 1, "the plant file holds no YAML mapping; expected at least 'product' and 'process'")
 	}
 	if n, path := findAlias(root, ""); n != nil {
-		return nil, ErrorList{{Pos: Pos{File: file, Line: n.Line, Column: n.Column}, Field: path,
+		return nil, inputerr.List{{Pos: inputerr.Pos{File: file, Line: n.Line, Column: n.Column}, Field: path,
 			Msg: "anchors and aliases (& and *) are not supported in plant files; write each value out"}}
 	}
 	sum := sha256.Sum256(data)
@@ -379,7 +385,7 @@ func (d *decoder) decodeEconomics(p *Plant, top *object) {
 			if f.key == "operating_hours_per_year" {
 				what = "expected 0 to 8784 hours a year"
 			}
-			d.errs = append(d.errs, &Error{Pos: pos, Field: "economics." + f.key, Msg: fmt.Sprintf("%s, found %g", what, v)})
+			d.errs = append(d.errs, &inputerr.Error{Pos: pos, Field: "economics." + f.key, Msg: fmt.Sprintf("%s, found %g", what, v)})
 		}
 		*f.dst = v
 	}

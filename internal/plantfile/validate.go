@@ -3,6 +3,7 @@ package plantfile
 import (
 	"fmt"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/props"
 	"pasval/lethality"
 )
@@ -11,7 +12,7 @@ import (
 // temperatures are in the right order, that each section is in exactly one
 // mode, that flows are positive and that nothing asked for is physically
 // impossible by construction (a co-current regenerator above 50 %). It returns
-// an ErrorList or nil.
+// an inputerr.List or nil.
 func Validate(p *Plant) error {
 	v := &validator{}
 	v.product(p)
@@ -36,7 +37,7 @@ func Validate(p *Plant) error {
 		v.add(p.Process.Pos, "process.outlet_target", "missing; cooling is described, so give the product outlet target, e.g. 4 °C")
 	}
 	if (p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0) && !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
-		v.add(Pos{File: p.File, Line: 1, Column: 1}, "flow.rate", "missing; the heat-exchange sections need the product rate, e.g. flow: {rate: 10000 L/h}")
+		v.add(inputerr.Pos{File: p.File, Line: 1, Column: 1}, "flow.rate", "missing; the heat-exchange sections need the product rate, e.g. flow: {rate: 10000 L/h}")
 	}
 	v.holding(p)
 	if len(v.errs) == 0 {
@@ -52,11 +53,11 @@ func Validate(p *Plant) error {
 }
 
 type validator struct {
-	errs ErrorList
+	errs inputerr.List
 }
 
-func (v *validator) add(pos Pos, field, format string, args ...any) {
-	v.errs = append(v.errs, &Error{Pos: pos, Field: field, Msg: fmt.Sprintf(format, args...)})
+func (v *validator) add(pos inputerr.Pos, field, format string, args ...any) {
+	v.errs = append(v.errs, &inputerr.Error{Pos: pos, Field: field, Msg: fmt.Sprintf(format, args...)})
 }
 
 // positive checks an entered quantity is above zero.
@@ -162,7 +163,7 @@ func (v *validator) regeneration(p *Plant) {
 	}
 }
 
-func (v *validator) mediumSide(section string, pos Pos, m *MediumSide) {
+func (v *validator) mediumSide(section string, pos inputerr.Pos, m *MediumSide) {
 	v.plates(section, &m.Plates)
 	if m.MediumRate.Set && !(m.MediumRate.SI > 0) {
 		v.add(m.MediumRate.Pos, section+".medium_rate", "the flow must be greater than zero, found %s", m.MediumRate.Text)
@@ -224,7 +225,7 @@ func (v *validator) holding(p *Plant) {
 	h := p.HoldingTube
 	if h == nil {
 		if len(p.Organisms) > 0 || len(p.LegalMinimums) > 0 {
-			v.add(Pos{File: p.File, Line: 1, Column: 1}, "holding_tube", "missing; organisms and legal_minimums are judged in the holding tube, so describe it")
+			v.add(inputerr.Pos{File: p.File, Line: 1, Column: 1}, "holding_tube", "missing; organisms and legal_minimums are judged in the holding tube, so describe it")
 		}
 		return
 	}
