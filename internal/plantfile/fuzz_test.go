@@ -15,7 +15,7 @@ import (
 )
 
 // FuzzLoad runs any bytes through the whole reading pipeline (parse,
-// validate, compute). Invariants: no panic; a refusal is an ErrorList whose
+// validate, compute). Invariants: no panic; a refusal is an inputerr.List whose
 // entries name the file and a line ≥ 1 with a message; an accepted plant
 // computes or is refused with a positioned error.
 func FuzzLoad(f *testing.F) {
