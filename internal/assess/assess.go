@@ -149,7 +149,7 @@ func productProps(p *plantfile.Plant) ProductProps {
 	pp := ProductProps{}
 	raw, set := p.Process.RawInlet.SI, p.Process.HoldSetpoint.SI
 	if c := p.Product.Composition; c != nil {
-		comp := props.Composition{Water: c.Water, Protein: c.Protein, Fat: c.Fat, Carbohydrate: c.Carbohydrate, Fiber: c.Fiber, Ash: c.Ash}
+		comp := choiOkos(c)
 		pp.Density = comp.Density(raw)
 		pp.SpecificHeat = comp.SpecificHeat((raw + set) / 2)
 		pp.FromComposition = true
@@ -176,6 +176,12 @@ func productProps(p *plantfile.Plant) ProductProps {
 	pp.MassFlow, pp.MaxMassFlow = toMass(rate), toMass(maxRate)
 	pp.ProductCapacity = pp.MassFlow * pp.SpecificHeat
 	return pp
+}
+
+// choiOkos is the one conversion of the entered composition for the
+// Choi–Okos correlations.
+func choiOkos(c *plantfile.Composition) props.Composition {
+	return props.Composition{Water: c.Water, Protein: c.Protein, Fat: c.Fat, Carbohydrate: c.Carbohydrate, Fiber: c.Fiber, Ash: c.Ash}
 }
 
 func surface(pl plantfile.Plates) regen.Surface {

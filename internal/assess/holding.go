@@ -87,8 +87,7 @@ type Lethality struct {
 // Choi–Okos at the setpoint.
 func holdDensity(p *plantfile.Plant, pp ProductProps) float64 {
 	if c := p.Product.Composition; c != nil && !p.Product.Density.Set {
-		comp := props.Composition{Water: c.Water, Protein: c.Protein, Fat: c.Fat, Carbohydrate: c.Carbohydrate, Fiber: c.Fiber, Ash: c.Ash}
-		return comp.Density(p.Process.HoldSetpoint.SI)
+		return choiOkos(c).Density(p.Process.HoldSetpoint.SI)
 	}
 	return pp.Density
 }
@@ -115,16 +114,7 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	h := p.HoldingTube
 	sys := p.System
 	setpoint := p.Process.HoldSetpoint.SI
-	tube := lethality.Tube{Length: h.Length.SI}
-	if h.SanitaryTube.Set {
-		s, _ := lethality.LookupSanitaryTube(h.SanitaryTube.SI)
-		tube.InnerDiameter, tube.OuterDiameter = s.Inner(), s.Outer
-	} else {
-		tube.InnerDiameter = h.InnerDiameter.SI
-	}
-	if h.OuterDiameter.Set {
-		tube.OuterDiameter = h.OuterDiameter.SI
-	}
+	tube := lethality.Tube{Length: h.Length.SI, InnerDiameter: h.Inner, OuterDiameter: h.Outer}
 	if h.Rise.Set {
 		tube.Rise = h.Rise.SI
 	}

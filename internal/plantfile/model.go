@@ -15,6 +15,10 @@
 package plantfile
 
 import (
+	"errors"
+	"fmt"
+	"math"
+
 	"pasval/internal/inputerr"
 	"pasval/internal/units"
 )
@@ -95,10 +99,31 @@ type Product struct {
 	Pos          inputerr.Pos
 }
 
-// Composition is the product make-up by mass fraction.
+// Composition is the product make-up by mass fraction, as entered. The
+// reader owns it as plain data; assess converts it once for the Choi–Okos
+// correlations (internal/props).
 type Composition struct {
 	Water, Protein, Fat, Carbohydrate, Fiber, Ash float64
 	Pos                                           inputerr.Pos
+}
+
+// Sum is the total of the mass fractions.
+func (c Composition) Sum() float64 {
+	return c.Water + c.Protein + c.Fat + c.Carbohydrate + c.Fiber + c.Ash
+}
+
+// validate checks that every fraction is in [0, 1] and that they sum to 1
+// within 0.5 percentage points.
+func (c Composition) validate() error {
+	for _, v := range []float64{c.Water, c.Protein, c.Fat, c.Carbohydrate, c.Fiber, c.Ash} {
+		if !(v >= 0 && v <= 1) {
+			return errors.New("each mass fraction must be between 0 and 1")
+		}
+	}
+	if s := c.Sum(); math.Abs(s-1) > 0.005 {
+		return fmt.Errorf("mass fractions sum to %.4f; they must sum to 1 (±0.005)", s)
+	}
+	return nil
 }
 
 // ViscosityPoint is one Newtonian viscosity measurement.
@@ -197,6 +222,10 @@ type CoolingStage struct {
 
 // HoldingTube is the holding tube's description.
 type HoldingTube struct {
+	// Inner and Outer are the diameters the reader resolved, m: as entered, or
+	// from the sanitary size (Outer 0 when neither gives it).
+	Inner, Outer float64
+
 	InnerDiameter    Quantity // m (or from SanitaryTube)
 	SanitaryTube     Quantity // nominal size, m; OD = nominal
 	OuterDiameter    Quantity // m, optional (needed for heat loss unless SanitaryTube is given)

@@ -332,6 +332,7 @@ func (d *decoder) decodeHolding(p *Plant, top *object) {
 				d.errorf(n, "holding_tube.pu", "expected true or false, found %q", s)
 			}
 		}
+		h.resolveDiameters()
 		p.HoldingTube = h
 	}
 	for i, n := range top.list("organisms") {

@@ -4,8 +4,6 @@ import (
 	"fmt"
 
 	"pasval/internal/inputerr"
-	"pasval/internal/props"
-	"pasval/lethality"
 )
 
 // Validate checks the rules that span fields, before any computation: that
@@ -73,9 +71,7 @@ func (v *validator) product(p *Plant) {
 	v.positive(pr.SpecificHeat, "product.specific_heat")
 	v.positive(pr.Conductivity, "product.conductivity")
 	if pr.Composition != nil {
-		c := props.Composition{Water: pr.Composition.Water, Protein: pr.Composition.Protein, Fat: pr.Composition.Fat,
-			Carbohydrate: pr.Composition.Carbohydrate, Fiber: pr.Composition.Fiber, Ash: pr.Composition.Ash}
-		if err := c.Validate(); err != nil {
+		if err := pr.Composition.validate(); err != nil {
 			v.add(pr.Composition.Pos, "product.composition", "%v", err)
 		}
 	} else {
@@ -235,7 +231,7 @@ func (v *validator) holding(p *Plant) {
 	case !h.InnerDiameter.Set && !h.SanitaryTube.Set:
 		v.add(h.Pos, "holding_tube.inner_diameter", "missing; give inner_diameter (e.g. 47.5 mm) or sanitary_tube (e.g. 2 in)")
 	case h.SanitaryTube.Set:
-		if _, ok := lethality.LookupSanitaryTube(h.SanitaryTube.SI); !ok {
+		if _, ok := LookupSanitaryTube(h.SanitaryTube.SI); !ok {
 			v.add(h.SanitaryTube.Pos, "holding_tube.sanitary_tube", "%s is not a listed sanitary size; listed: 1.5, 2, 2.5, 3, 4 and 6 in (or give inner_diameter)", h.SanitaryTube.Text)
 		}
 	}
