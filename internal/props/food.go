@@ -1,6 +1,5 @@
 package props
 
-
 // Composition is a food's make-up by mass fraction (each 0–1, summing to 1).
 type Composition struct {
 	Water, Protein, Fat, Carbohydrate, Fiber, Ash float64
