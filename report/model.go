@@ -18,6 +18,7 @@ import (
 	"time"
 
 	"pasval/internal/assess"
+	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
 	"pasval/lethality"
@@ -235,10 +236,11 @@ func buildCover(res *assess.Result, doc *Document) Cover {
 }
 
 func inputsSection(res *assess.Result) Section {
-	t := Table{Caption: "Every quantity entered in the plant file, as written and in SI.",
-		Columns: []Column{{Title: "field"}, {Title: "as entered"}, {Title: "SI value", Right: true}, {Title: "SI unit"}}}
+	t := Table{Caption: "Every quantity entered in the plant file, as written and in SI, with what the field means.",
+		Columns: []Column{{Title: "field"}, {Title: "as entered"}, {Title: "SI value", Right: true}, {Title: "SI unit"}, {Title: "meaning"}}}
 	for _, in := range res.Plant.Inputs {
-		t.Rows = append(t.Rows, []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), in.SIUnit})
+		f, _ := plantfile.Lookup(in.Field)
+		t.Rows = append(t.Rows, []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), in.SIUnit, f.Description})
 	}
 	pp := res.Product
 	kv := KeyValues{Pairs: [][2]string{

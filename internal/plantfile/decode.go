@@ -19,6 +19,9 @@ type decoder struct {
 	file   string
 	errs   inputerr.List
 	inputs []Input
+	// consulted holds the table paths the decoding looked up (tests check
+	// that every field of the table is decoded).
+	consulted map[string]bool
 }
 
 const maxErrors = 50
@@ -40,7 +43,8 @@ func (d *decoder) errorf(n *yaml.Node, field, format string, args ...any) {
 // object is a YAML mapping checked against its allowed keys.
 type object struct {
 	d      *decoder
-	path   string
+	path   string // concrete: "cooling[1]"
+	table  string // the same with list indices dropped: "cooling[]"
 	node   *yaml.Node
 	values map[string]*yaml.Node
 	keys   map[string]*yaml.Node
@@ -56,14 +60,20 @@ func join(path, key string) string {
 	return path + "." + key
 }
 
-// object checks that n is a mapping whose keys are all allowed and unique.
-// It returns nil (after recording an error) when n is not a mapping.
-func (d *decoder) object(n *yaml.Node, path string, allowed ...string) *object {
+// object checks that n is a mapping whose keys are all allowed (the field
+// table's children of path) and unique. It returns nil (after recording an
+// error) when n is not a mapping.
+func (d *decoder) object(n *yaml.Node, path string) *object {
+	allowed := allowedKeys(tablePath(path))
+	if len(allowed) == 0 {
+		panic(panicPrefix + "no fields in the table under " + path)
+	}
 	if n.Kind != yaml.MappingNode {
 		d.errorf(n, path, "expected a mapping of %s, found %s", strings.Join(allowed, ", "), describe(n))
 		return nil
 	}
-	o := &object{d: d, path: path, node: n, values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}, suggested: map[string]bool{}}
+	o := &object{d: d, path: path, table: listIndex.ReplaceAllString(path, "[]"), node: n,
+		values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}, suggested: map[string]bool{}}
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, v := n.Content[i], n.Content[i+1]
 		if k.Kind != yaml.ScalarNode {
@@ -114,12 +124,27 @@ func describe(n *yaml.Node) string {
 
 func (o *object) has(key string) bool { return o != nil && o.values[key] != nil }
 
+// field is the table's entry for a key of this mapping. Decoding a key the
+// table lacks is a programming error.
+func (o *object) field(key string) Field {
+	f, ok := byPath[join(o.table, key)]
+	if !ok {
+		panic(panicPrefix + "decoding a key that is not in the field table: " + join(o.table, key))
+	}
+	if o.d.consulted != nil {
+		o.d.consulted[f.Path] = true
+	}
+	return f
+}
+
 // scalar returns the key's scalar text; ok is false (with an error recorded
-// when required) if it is absent, empty or not a scalar.
-func (o *object) scalar(key string, required bool, expect string) (string, *yaml.Node, bool) {
+// when the table says the key is required) if it is absent, empty or not a
+// scalar.
+func (o *object) scalar(key string, expect string) (string, *yaml.Node, bool) {
 	if o == nil {
 		return "", nil, false
 	}
+	required := o.field(key).Required
 	v := o.values[key]
 	f := join(o.path, key)
 	if v == nil {
@@ -135,14 +160,24 @@ func (o *object) scalar(key string, required bool, expect string) (string, *yaml
 	return v.Value, v, true
 }
 
-func (o *object) text(key string, required bool) string {
-	s, _, _ := o.scalar(key, required, "text")
+func (o *object) text(key string) string {
+	s, _, _ := o.scalar(key, "text")
 	return strings.TrimSpace(s)
 }
 
-// quantity reads "number unit" of the given kind.
-func (o *object) quantity(key string, k units.Kind, required bool) Quantity {
-	s, n, ok := o.scalar(key, required, fmt.Sprintf("%s with its unit, e.g. %s", units.Article(k.Name), k.Example))
+// quantity reads "number unit" of the kind the table gives the key.
+func (o *object) quantity(key string) Quantity {
+	if o == nil {
+		return Quantity{}
+	}
+	k := o.field(key).Unit
+	return o.quantityOf(key, k)
+}
+
+// quantityOf reads "number unit" of kind k (a consistency index, whose kind
+// depends on the flow index).
+func (o *object) quantityOf(key string, k units.Kind) Quantity {
+	s, n, ok := o.scalar(key, fmt.Sprintf("%s with its unit, e.g. %s", units.Article(k.Name), k.Example))
 	if !ok {
 		return Quantity{}
 	}
@@ -176,8 +211,8 @@ func (d *decoder) record(field string, q Quantity, k units.Kind) {
 }
 
 // flowRate reads a product or medium rate, volumetric or by mass.
-func (o *object) flowRate(key string, required bool) FlowRate {
-	s, n, ok := o.scalar(key, required, "a flow with its unit, e.g. 10000 L/h, 44 gpm or 10300 kg/h")
+func (o *object) flowRate(key string) FlowRate {
+	s, n, ok := o.scalar(key, "a flow with its unit, e.g. 10000 L/h, 44 gpm or 10300 kg/h")
 	if !ok {
 		return FlowRate{}
 	}
@@ -197,8 +232,8 @@ func (o *object) flowRate(key string, required bool) FlowRate {
 }
 
 // number reads a plain number (a fraction may be written "92 %").
-func (o *object) number(key string, required bool) (float64, inputerr.Pos, bool) {
-	s, n, ok := o.scalar(key, required, "a number")
+func (o *object) number(key string) (float64, inputerr.Pos, bool) {
+	s, n, ok := o.scalar(key, "a number")
 	if !ok {
 		return 0, o.d.pos(n), false
 	}
@@ -212,37 +247,46 @@ func (o *object) number(key string, required bool) (float64, inputerr.Pos, bool)
 	return v.SI, o.d.pos(n), true
 }
 
-// integer reads a whole number ≥ 1.
-func (o *object) integer(key string, required bool) (int, inputerr.Pos, bool) {
-	s, n, ok := o.scalar(key, required, "a whole number")
+// integer reads a whole number in the table's range.
+func (o *object) integer(key string) (int, inputerr.Pos, bool) {
+	s, n, ok := o.scalar(key, "a whole number")
 	if !ok {
 		return 0, o.d.pos(n), false
 	}
+	f := o.field(key)
 	i, err := strconv.Atoi(strings.TrimSpace(s))
-	if err != nil || i < 1 || i > 100000 {
-		o.d.errorf(n, join(o.path, key), "expected a whole number from 1 to 100000, found %q", s)
+	if err != nil || float64(i) < f.Min || float64(i) > f.Max {
+		o.d.errorf(n, join(o.path, key), "expected a whole number from %g to %g, found %q", f.Min, f.Max, s)
 		return 0, o.d.pos(n), false
 	}
 	o.d.inputs = append(o.d.inputs, Input{Field: join(o.path, key), Text: s, SI: float64(i), SIUnit: "1"})
 	return i, o.d.pos(n), true
 }
 
-func (o *object) sub(key string, required bool, allowed ...string) *object {
+// sub is the mapping under key, or nil when it is absent (an error when the
+// table says it is required) or not a mapping.
+func (o *object) sub(key string) *object {
 	if o == nil {
 		return nil
 	}
+	f := o.field(key)
 	v := o.values[key]
 	if v == nil {
-		if required && !o.suggested[key] {
-			o.d.errorf(o.node, join(o.path, key), "missing; expected a mapping of %s", strings.Join(allowed, ", "))
+		if f.Required && !o.suggested[key] {
+			o.d.errorf(o.node, join(o.path, key), "missing; expected a mapping of %s", strings.Join(allowedKeys(f.Path), ", "))
 		}
 		return nil
 	}
-	return o.d.object(v, join(o.path, key), allowed...)
+	return o.d.object(v, join(o.path, key))
 }
 
+// list is the items of the list under key (each to be read with d.object).
 func (o *object) list(key string) []*yaml.Node {
-	if o == nil || o.values[key] == nil {
+	if o == nil {
+		return nil
+	}
+	o.field(key)
+	if o.values[key] == nil {
 		return nil
 	}
 	v := o.values[key]
