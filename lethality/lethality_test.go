@@ -154,16 +154,16 @@ func TestJudgeLegal(t *testing.T) {
 		{"80 °C 5 s", 80, 5, false, LegalRow{72, 15}},
 	}
 	for _, tc := range tests {
-		v := JudgeLegal(pmo, tc.setpoint, tc.tmin)
+		v := JudgeLegal(pmo, tc.setpoint, tc.tmin, 1e-9)
 		if v.Met != tc.met || v.Row != tc.row {
 			t.Errorf("%s: met %v row %+v, want %v %+v", tc.name, v.Met, v.Row, tc.met, tc.row)
 		}
 	}
-	v := JudgeLegal(pmo, 72.5, 16.5)
+	v := JudgeLegal(pmo, 72.5, 16.5, 1e-9)
 	if !near(v.Margin, 1.5, 1e-12) || !near(v.MarginPct, 10, 1e-12) {
 		t.Errorf("margin %g s %g %%", v.Margin, v.MarginPct)
 	}
-	if v := JudgeLegal(pmo, 60, 9999); v.Met || v.RowIndex != -1 {
+	if v := JudgeLegal(pmo, 60, 9999, 1e-9); v.Met || v.RowIndex != -1 {
 		t.Errorf("below every row: %+v", v)
 	}
 	// The z-values the rows imply differ, which is why they are not one line:

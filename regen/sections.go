@@ -6,9 +6,34 @@ import (
 	"math"
 )
 
+// SectionKind is what a section does in the line.
+type SectionKind int
+
+const (
+	RegenerationSection SectionKind = iota + 1 // product to product
+	HeatingSection                             // a hot medium heats the product
+	CoolingSection                             // a cold medium cools the product (one stage)
+)
+
+// SectionKinds lists every kind, in process order.
+var SectionKinds = []SectionKind{RegenerationSection, HeatingSection, CoolingSection}
+
+// String is the kind's name as the JSON contract and the tables print it.
+func (k SectionKind) String() string {
+	switch k {
+	case RegenerationSection:
+		return "regeneration"
+	case HeatingSection:
+		return "heating"
+	case CoolingSection:
+		return "cooling"
+	}
+	panic(fmt.Sprintf("%sunknown section kind %d", panicPrefix, int(k)))
+}
+
 // Section is the computed state of one heat-exchange section.
 type Section struct {
-	Name        string // "regeneration", "heating" or "cooling"
+	Kind        SectionKind
 	Stage       string // cooling stage name; empty otherwise
 	Mode        Mode
 	Arrangement Arrangement
@@ -43,7 +68,7 @@ func (s Section) Area() float64 {
 }
 
 // Label names the section in messages: "heating", "cooling stage 'chilled water'".
-func (s Section) Label() string { return label(s.Name, s.Stage) }
+func (s Section) Label() string { return label(s.Kind.String(), s.Stage) }
 
 func label(name, stage string) string {
 	if stage != "" {
@@ -114,7 +139,7 @@ type RegenSpec struct {
 //
 // References: shared/DOMAIN.md §2 (Regeneration); Incropera et al. (2007), §11.4.
 func Regeneration(spec RegenSpec, c, rawIn, hotIn float64) (Section, error) {
-	sec := Section{Name: "regeneration"}
+	sec := Section{Kind: RegenerationSection}
 	span := hotIn - rawIn
 	if !(span > 0) {
 		return sec, sectionErrorf("regeneration", "the pasteurized product (%.2f °C) must be hotter than the raw product (%.2f °C)", hotIn, rawIn)
@@ -155,7 +180,7 @@ type MediumSpec struct {
 // In rating mode OtherIn is the required medium inlet; the caller compares it
 // with spec.Inlet, the hottest available.
 func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error) {
-	sec := Section{Name: "heating", ProductIn: productIn, ProductOut: productOut, ProductCapacity: c}
+	sec := Section{Kind: HeatingSection, ProductIn: productIn, ProductOut: productOut, ProductCapacity: c}
 	q := c * (productOut - productIn)
 	if !(q > 0) {
 		return sec, sectionErrorf("heating", "the product leaves regeneration at %.2f °C, already at or above the %.2f °C it must reach; there is nothing to heat",
@@ -216,7 +241,7 @@ type CoolingSpec struct {
 //	rating: q = ε(U A / C_min, C_r) C_min (T_p,in − T_m,in), with the medium cp
 //	        at its mean temperature (fixed-point iteration)
 func Cooling(spec CoolingSpec, c, productIn float64) (Section, error) {
-	sec := Section{Name: "cooling", Stage: spec.Stage, ProductIn: productIn, ProductCapacity: c}
+	sec := Section{Kind: CoolingSection, Stage: spec.Stage, ProductIn: productIn, ProductCapacity: c}
 	if !(spec.Inlet < productIn) {
 		return sec, sectionErrorf(sec.Label(), "the medium enters at %.2f °C, not below the product entering at %.2f °C; it cannot cool it",
 			spec.Inlet, productIn)

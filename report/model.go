@@ -22,6 +22,7 @@ import (
 	"pasval/internal/present"
 	"pasval/internal/units"
 	"pasval/lethality"
+	"pasval/regen"
 )
 
 // Options are the record's inputs beyond the results.
@@ -70,7 +71,24 @@ type Section struct {
 }
 
 // Block is one element of a section.
-type Block interface{ blockKind() string }
+type Block interface{ Kind() BlockKind }
+
+// BlockKind names the kinds of block a record is made of.
+type BlockKind int
+
+const (
+	ParagraphBlock BlockKind = iota + 1
+	BulletsBlock
+	KeyValuesBlock
+	TableBlock
+	DiagramBlock
+	PlotBlock
+	SignOffBlock
+)
+
+// BlockKinds lists every kind (the renderer has a case for each; a test
+// renders one of each).
+var BlockKinds = []BlockKind{ParagraphBlock, BulletsBlock, KeyValuesBlock, TableBlock, DiagramBlock, PlotBlock, SignOffBlock}
 
 // Paragraph is running text.
 type Paragraph struct {
@@ -134,13 +152,13 @@ type Series struct {
 // SignOff is the block of signature lines.
 type SignOff struct{ Roles []string }
 
-func (Paragraph) blockKind() string { return "paragraph" }
-func (Bullets) blockKind() string   { return "bullets" }
-func (KeyValues) blockKind() string { return "keyvalues" }
-func (Table) blockKind() string     { return "table" }
-func (Diagram) blockKind() string   { return "diagram" }
-func (Plot) blockKind() string      { return "plot" }
-func (SignOff) blockKind() string   { return "signoff" }
+func (Paragraph) Kind() BlockKind { return ParagraphBlock }
+func (Bullets) Kind() BlockKind   { return BulletsBlock }
+func (KeyValues) Kind() BlockKind { return KeyValuesBlock }
+func (Table) Kind() BlockKind     { return TableBlock }
+func (Diagram) Kind() BlockKind   { return DiagramBlock }
+func (Plot) Kind() BlockKind      { return PlotBlock }
+func (SignOff) Kind() BlockKind   { return SignOffBlock }
 
 // tableFrom turns a shared grid into a record table.
 func tableFrom(caption string, g present.Grid) Table {
@@ -299,10 +317,10 @@ func temperatureDiagram(res *assess.Result, d present.Display) Diagram {
 	T := func(c float64) float64 { return units.FromSI(c, units.Temperature, d.Unit(units.Temperature)) }
 	dg := Diagram{Unit: d.Unit(units.Temperature), Setpoint: T(res.Plant.Process.HoldSetpoint.SI),
 		Caption: "Temperatures at the normal rate along the product path (solid) and of the stream on the other side of each plate pack (dashed; arrows show its direction)."}
-	var regen *assess.Section
+	var regenerator *assess.Section
 	for i := range res.Sections {
-		if res.Sections[i].Name == "regeneration" {
-			regen = &res.Sections[i]
+		if res.Sections[i].Kind == regen.RegenerationSection {
+			regenerator = &res.Sections[i]
 		}
 	}
 	// stretch lays one section along the product path: product left to right;
@@ -316,12 +334,12 @@ func temperatureDiagram(res *assess.Result, d present.Display) Diagram {
 		}
 		return seg
 	}
-	if regen != nil {
-		s := *regen
+	if regenerator != nil {
+		s := *regenerator
 		dg.Segments = append(dg.Segments, stretch("regeneration (raw)", s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, "pasteurized product", true, true))
 	}
 	for _, s := range res.Sections {
-		if s.Name == "heating" {
+		if s.Kind == regen.HeatingSection {
 			dg.Segments = append(dg.Segments, stretch("heating", s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, present.OtherStream(res.Plant, s), true, false))
 		}
 	}
@@ -329,13 +347,13 @@ func temperatureDiagram(res *assess.Result, d present.Display) Diagram {
 		// At the normal rate, like the sections: the heater delivers HeatingOutletC.
 		dg.Segments = append(dg.Segments, Segment{Label: "holding tube", ProductIn: T(h.HeatingOutletC), ProductOut: T(h.OutletTemperatureC)})
 	}
-	if regen != nil {
+	if regenerator != nil {
 		// The pasteurized side: the product here is the regenerator's other stream.
-		s := *regen
+		s := *regenerator
 		dg.Segments = append(dg.Segments, stretch("regeneration (pasteurized)", s, s.OtherInC, s.OtherOutC, s.ProductInC, s.ProductOutC, "raw product", false, true))
 	}
 	for _, s := range res.Sections {
-		if s.Name == "cooling" {
+		if s.Kind == regen.CoolingSection {
 			dg.Segments = append(dg.Segments, stretch("cooling: "+s.Stage, s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, present.OtherStream(res.Plant, s), false, false))
 		}
 	}
@@ -365,7 +383,7 @@ func holdingSection(res *assess.Result, d present.Display) Section {
 		blocks = append(blocks, tableFrom("Log reduction of the fastest particle at the sealed maximum flow.", present.Lethality(res)), plot)
 	}
 	if len(res.Warnings) > 0 {
-		blocks = append(blocks, Paragraph{Text: "Warnings:", Emphasis: true}, Bullets{Items: res.Warnings})
+		blocks = append(blocks, Paragraph{Text: "Warnings:", Emphasis: true}, Bullets{Items: present.Warnings(res, d)})
 	}
 	return Section{Heading: "Holding tube and lethality", Blocks: blocks}
 }

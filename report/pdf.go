@@ -233,6 +233,8 @@ func (r *renderer) section(s Section) {
 			r.plot(v)
 		case SignOff:
 			r.signOff(v)
+		default:
+			panic(fmt.Sprintf("report: no layout for block kind %d (%T)", int(b.Kind()), b))
 		}
 	}
 }

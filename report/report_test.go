@@ -39,12 +39,12 @@ func TestDocumentModel(t *testing.T) {
 		t.Run(name, func(t *testing.T) {
 			res, doc := demo(t, name)
 			var headings []string
-			blocks := map[string]int{}
+			blocks := map[BlockKind]int{}
 			var text strings.Builder
 			for _, s := range doc.Sections {
 				headings = append(headings, s.Heading)
 				for _, b := range s.Blocks {
-					blocks[b.blockKind()]++
+					blocks[b.Kind()]++
 					switch v := b.(type) {
 					case Paragraph:
 						text.WriteString(v.Text + "\n")
@@ -81,7 +81,7 @@ func TestDocumentModel(t *testing.T) {
 					t.Errorf("record lacks %q", must)
 				}
 			}
-			if blocks["diagram"] != 1 || blocks["plot"] < 1 && len(res.Lethality) > 0 {
+			if blocks[DiagramBlock] != 1 || blocks[PlotBlock] < 1 && len(res.Lethality) > 0 {
 				t.Errorf("blocks %v", blocks)
 			}
 			if !strings.Contains(doc.Cover.Statement, "not a regulatory approval") {

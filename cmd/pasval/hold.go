@@ -53,12 +53,10 @@ type holdReport struct {
 	Lethality     []assess.Lethality   `json:"lethality"`
 	SetpointTable []assess.SetpointRow `json:"setpoint_table"`
 	Checks        []assess.Check       `json:"checks"`
-	Warnings      []string             `json:"warnings"`
+	Warnings      []assess.Warning     `json:"warnings"`
 	Pass          bool                 `json:"pass"`
 	Caution       string               `json:"caution"`
 }
-
-var holdingChecks = map[string]bool{"holding-time": true, "log-reduction": true, "tube-slope": true}
 
 func runHold(opts holdOptions, out io.Writer) error {
 	p, d, err := opts.load(opts.file)
@@ -73,12 +71,16 @@ func runHold(opts holdOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
+	worded := present.ForJSON(res)
 	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
-		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: res.Warnings,
+		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: worded.Warnings,
 		Pass: true, Caution: res.Caution}
-	for _, c := range res.Checks {
-		if holdingChecks[c.ID] {
-			rep.Checks = append(rep.Checks, c)
+	only := *res
+	only.Checks = []assess.Check{}
+	for i, c := range res.Checks {
+		if c.IsHolding() {
+			only.Checks = append(only.Checks, c)
+			rep.Checks = append(rep.Checks, worded.Checks[i])
 			rep.Pass = rep.Pass && c.Pass
 		}
 	}
@@ -90,15 +92,8 @@ func runHold(opts holdOptions, out io.Writer) error {
 		fmt.Fprintf(out, "pasval %s · holding tube of %s\ninput sha256 %s\n", res.Version, p.File, res.InputSHA256)
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
-		only := *res
-		only.Checks = rep.Checks
 		writeChecks(out, &only, d, useColour(out))
-		if len(rep.Warnings) > 0 {
-			fmt.Fprintln(out, "\nWarnings")
-			for _, m := range rep.Warnings {
-				fmt.Fprint(out, wrap(m, "  !", 88))
-			}
-		}
+		writeWarnings(out, present.Warnings(res, d))
 		fmt.Fprint(out, "\n"+wrap(res.Caution, "Caution:", 88))
 	}
 	if !rep.Pass {

@@ -92,17 +92,6 @@ func holdDensity(p *plantfile.Plant, pp ProductProps) float64 {
 	return pp.Density
 }
 
-// fmtT formats a temperature in the plant file's own units, for messages.
-func fmtT(c float64, sys units.System) string {
-	u := units.DisplayUnit(units.Temperature, sys)
-	return fmt.Sprintf("%.1f %s", units.FromSI(c, units.Temperature, u), u)
-}
-
-func fmtDT(k float64, sys units.System) string {
-	u := units.DisplayUnit(units.TemperatureDifference, sys)
-	return fmt.Sprintf("%.1f %s", units.FromSI(k, units.TemperatureDifference, u), u)
-}
-
 // MaxTubeHeatLoss is the largest temperature drop along the holding tube that
 // pasval accepts (K); real tubes lose tenths of a kelvin, and a larger drop
 // means a typo in the heat-loss inputs.
@@ -112,7 +101,6 @@ const MaxTubeHeatLoss = 10.0
 // temperature the heating section must deliver at the normal rate.
 func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	h := p.HoldingTube
-	sys := p.System
 	setpoint := p.Process.HoldSetpoint.SI
 	tube := lethality.Tube{Length: h.Length.SI, InnerDiameter: h.Inner, OuterDiameter: h.Outer}
 	if h.Rise.Set {
@@ -135,9 +123,7 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 		mu, extrapolated := curve.At(setpoint)
 		if extrapolated {
 			lo, hi := curve.Range()
-			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"the setpoint %s lies outside the entered viscosity points (%s to %s): the nearest point's viscosity is held; measure it at the holding temperature",
-				fmtT(setpoint, sys), fmtT(lo, sys), fmtT(hi, sys)))
+			res.warn(WarnViscosityExtrapolated, "product.viscosity", map[string]float64{"setpoint_C": setpoint, "lowest_C": lo, "highest_C": hi})
 		}
 		rheo = lethality.Newtonian{Viscosity: mu}
 		out.ViscosityPas = mu
@@ -167,9 +153,7 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	}
 
 	if hyd.Regime != lethality.Turbulent {
-		res.Warnings = append(res.Warnings, fmt.Sprintf(
-			"flow in the holding tube is %s (Re %.0f), so the fastest particle moves at %.2f× the mean velocity: a holding-time test timed with water (turbulent) overstates this product's holding time (Dickerson et al. 1968: a tube timed at 26 s with water held ice-cream mix 21.9–23.5 s); time the tube with the product or as the regulator directs",
-			hyd.Regime, hyd.Reynolds, hyd.FastestToMean))
+		res.warn(WarnLaminarFlow, "", map[string]float64{"reynolds": hyd.Reynolds, "fastest_to_mean": hyd.FastestToMean})
 	}
 
 	// Slope.
@@ -181,11 +165,9 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	if h.Rise.Set {
 		s := tube.Slope()
 		out.Slope = &s
-		res.Checks = append(res.Checks, Check{ID: "tube-slope", Required: minSlope, Actual: s, Unit: "slope", MarginUnit: "slope",
-			Limit: "min", Margin: s - minSlope, Pass: s >= minSlope-1e-12,
-			Note: "continuous upward slope of the holding tube (rise/length)"})
+		res.Checks = append(res.Checks, NewCheck(TubeSlope, minSlope, s))
 	} else {
-		res.Warnings = append(res.Warnings, "holding_tube.rise is not given, so the tube's upward slope is not checked")
+		res.warn(WarnNoRise, "holding_tube.rise", nil)
 	}
 
 	// Legal table.
@@ -194,14 +176,14 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 		for i, r := range p.LegalMinimums {
 			rows[i] = lethality.LegalRow{Temperature: r.Temperature.SI, Time: r.Time.SI}
 		}
-		v := lethality.JudgeLegal(rows, setpoint, hyd.MinResidence)
+		v := lethality.JudgeLegal(rows, setpoint, hyd.MinResidence, Tolerance)
 		for _, r := range rows {
 			cap := 20 * flow.Volumetric
 			q := tube.MaxFlowFor(r.Time, rho, rheo, h.FastestToMean, cap)
 			out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= setpoint+1e-9,
 				RequiredLengthM: hyd.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= cap})
 		}
-		c := Check{ID: "holding-time", Unit: "s", MarginUnit: "s", Limit: "min", Actual: hyd.MinResidence}
+		var c Check
 		if v.RowIndex < 0 {
 			coolest := rows[0]
 			for _, r := range rows {
@@ -209,22 +191,24 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 					coolest = r
 				}
 			}
-			c.Required, c.Margin = coolest.Time, hyd.MinResidence-coolest.Time
-			c.Note = fmt.Sprintf("the setpoint %s is below every legal row (coolest %s)", fmtT(setpoint, sys), fmtT(coolest.Temperature, sys))
-			out.Legal = &LegalOut{RowIndex: -1, TemperatureC: coolest.Temperature, TimeS: coolest.Time, MarginS: c.Margin, MarginPct: c.Margin / coolest.Time * 100}
+			c = NewCheck(HoldingTime, coolest.Time, hyd.MinResidence)
+			c.Pass = false // no row applies at this setpoint: the table is not met, whatever the time
+			c.Detail = CheckDetail{RowTemperatureC: coolest.Temperature, BelowEveryRow: true, SetpointC: setpoint}
+			out.Legal = &LegalOut{RowIndex: -1, TemperatureC: coolest.Temperature, TimeS: coolest.Time, MarginS: c.Margin,
+				MarginPct: c.Margin / coolest.Time * 100}
 		} else {
-			c.Required, c.Margin, c.Pass = v.Row.Time, v.Margin, v.Met
-			c.Note = fmt.Sprintf("fastest particle at the sealed maximum flow against the %s row (%+.1f %%)", fmtT(v.Row.Temperature, sys), v.MarginPct)
-			out.Legal = &LegalOut{Met: v.Met, RowIndex: v.RowIndex, TemperatureC: v.Row.Temperature, TimeS: v.Row.Time, MarginS: v.Margin, MarginPct: v.MarginPct}
+			c = NewCheck(HoldingTime, v.Row.Time, hyd.MinResidence)
+			c.Detail = CheckDetail{RowTemperatureC: v.Row.Temperature, SetpointC: setpoint, MarginPercent: v.MarginPct}
+			out.Legal = &LegalOut{Met: v.Met, RowIndex: v.RowIndex, TemperatureC: v.Row.Temperature, TimeS: v.Row.Time,
+				MarginS: v.Margin, MarginPct: v.MarginPct}
 			out.RequiredLengthM = hyd.RequiredLength(v.Applicable.Time)
 		}
 		res.Checks = append(res.Checks, c)
 		if acc := p.Process.SensorAccuracy; acc.Set && acc.SI > 0 {
 			for _, r := range rows {
 				if r.Temperature <= setpoint+1e-9 && setpoint-acc.SI <= r.Temperature+1e-9 {
-					res.Warnings = append(res.Warnings, fmt.Sprintf(
-						"the setpoint %s is within the diversion sensor's stated accuracy (±%s) of the %s legal row: a sensor reading high could let product forward below it",
-						fmtT(setpoint, sys), fmtDT(acc.SI, sys), fmtT(r.Temperature, sys)))
+					res.warn(WarnSensorAccuracy, "process.sensor_accuracy",
+						map[string]float64{"setpoint_C": setpoint, "accuracy_K": acc.SI, "row_temperature_C": r.Temperature})
 				}
 			}
 		}
@@ -242,10 +226,10 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 			DAtSetpointS:    org.DAt(setpoint), Pass: lr >= o.RequiredLogReduction}
 		res.Lethality = append(res.Lethality, l)
 		if o.RequiredSet {
-			res.Checks = append(res.Checks, Check{ID: "log-reduction", Organism: o.Name, Required: o.RequiredLogReduction, Actual: lr,
-				Unit: "log", MarginUnit: "log", Limit: "min", Margin: lr - o.RequiredLogReduction, Pass: l.Pass,
-				Note: fmt.Sprintf("fastest particle at the sealed maximum flow; D %.4g s at %s, z %s",
-					o.D.SI, fmtT(o.DTemperature.SI, sys), fmtDT(o.Z.SI, sys))})
+			c := NewCheck(LogReduction, o.RequiredLogReduction, lr)
+			c.Organism = o.Name
+			c.Detail = CheckDetail{DRefS: o.D.SI, DTemperatureC: o.DTemperature.SI, ZK: o.Z.SI}
+			res.Checks = append(res.Checks, c)
 		}
 	}
 	if h.PU {
@@ -266,10 +250,7 @@ func regeneratorPressure(p *plantfile.Plant, res *Result) {
 	if pr.RequiredMargin.Set {
 		margin = pr.RequiredMargin.SI
 	}
-	diff := pr.PasteurizedMin.SI - pr.RawMax.SI
-	res.Checks = append(res.Checks, Check{ID: "regenerator-pressure", Required: margin, Actual: diff, Unit: "Pa", MarginUnit: "Pa",
-		Limit: "min", Margin: diff - margin, Pass: diff >= margin-1e-9,
-		Note: "pasteurized-side minimum pressure above raw-side maximum in the regenerator"})
+	res.Checks = append(res.Checks, NewCheck(RegeneratorPressure, margin, pr.PasteurizedMin.SI-pr.RawMax.SI))
 }
 
 func kelvins(k float64) string {
