@@ -25,6 +25,7 @@ import (
 
 	"pasval/internal/assess"
 	"pasval/internal/plantfile"
+	"pasval/internal/record"
 	"pasval/report"
 )
 
@@ -113,15 +114,11 @@ func TestGoldenRecords(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			opts := report.Options{Date: recordDay, PlantBytes: p.Source, PlantName: filepath.Base(plant)}
-			if p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0 {
-				w, err := assess.AddPlates(p, report.WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction)
-				if err != nil {
-					t.Fatal(err)
-				}
-				opts.WhatIf = w
+			doc, err := record.Build(res, record.Options{Date: recordDay, PlantName: filepath.Base(plant)})
+			if err != nil {
+				t.Fatal(err)
 			}
-			text := dumpDocument(report.Build(res, opts))
+			text := dumpDocument(doc)
 			rec := filepath.Join(t.TempDir(), "r.pdf")
 			var out, errb bytes.Buffer
 			if code := run([]string{"report", plant, "-o", rec, "--date", recordDay.Format("2006-01-02")}, &out, &errb); code > 1 {

@@ -81,7 +81,13 @@ type Lethality struct {
 	EquivalentTimeS      float64 `json:"equivalent_time_s"` // at the organism's D_temperature
 	DAtSetpointS         float64 `json:"D_at_setpoint_s"`
 	Pass                 bool    `json:"pass"`
+	// Along is the accumulated log reduction at AlongStations+1 stations from
+	// the tube inlet to its outlet, for the record's plot.
+	Along []lethality.ProfilePoint `json:"-"`
 }
+
+// AlongStations is the number of steps of Lethality.Along.
+const AlongStations = 100
 
 // holdDensity is the product density at the hold setpoint: as entered, or
 // Choi–Okos at the setpoint.
@@ -223,7 +229,8 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 		lr := lethality.LogReduction(judged, uMax, org)
 		l := Lethality{Organism: o.Name, LogReduction: lr, RequiredLogReduction: o.RequiredLogReduction,
 			EquivalentTimeS: lethality.EquivalentTime(judged, uMax, org.DTemperature, org.Z),
-			DAtSetpointS:    org.DAt(setpoint), Pass: lr >= o.RequiredLogReduction}
+			DAtSetpointS:    org.DAt(setpoint), Pass: lr >= o.RequiredLogReduction,
+			Along: lethality.Accumulated(judged, uMax, org, AlongStations)}
 		res.Lethality = append(res.Lethality, l)
 		if o.RequiredSet {
 			c := NewCheck(LogReduction, o.RequiredLogReduction, lr)
