@@ -6,7 +6,6 @@ import (
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
-	"pasval/internal/props"
 	"pasval/internal/units"
 	"pasval/lethality"
 )
@@ -103,147 +102,59 @@ func holdDensity(p *plantfile.Plant, pp ProductProps) float64 {
 // means a typo in the heat-loss inputs.
 const MaxTubeHeatLoss = 10.0
 
-// runHolding computes the holding tube and lethality; it returns the product
-// temperature the heating section must deliver at the normal rate.
+// runHolding computes the holding tube and lethality into res (gather,
+// evaluate, then the JSON contract); it returns the product temperature the
+// heating section must deliver at the normal rate.
 func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	h := p.HoldingTube
-	setpoint := p.Process.HoldSetpoint.SI
-	tube := lethality.Tube{Length: h.Length.SI, InnerDiameter: h.Inner, OuterDiameter: h.Outer}
-	if h.Rise.Set {
-		tube.Rise = h.Rise.SI
+	in := GatherHolding(p, res.Product)
+	ev, err := EvaluateHolding(in)
+	if err != nil {
+		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%v", err)}
 	}
-	rho := holdDensity(p, res.Product)
-	flow := lethality.Flow{Volumetric: res.Product.MaxMassFlow / rho, Density: rho}
+	tube, hyd := ev.Tube, ev.Hyd
 	out := &HoldingTube{InnerDiameterM: tube.InnerDiameter, OuterDiameterM: tube.OuterDiameter, LengthM: tube.Length,
-		VolumeL: tube.Volume() * 1e3, MaxFlowM3s: flow.Volumetric, DensityKgM3: rho, OutletTemperatureC: setpoint, Rows: []RowOut{}}
-
-	var rheo lethality.Rheology
-	if pl := p.Product.PowerLaw; pl != nil {
-		rheo = lethality.PowerLaw{N: pl.FlowIndex, K: pl.Consistency.SI}
-	} else {
-		pts := make([]props.ViscosityPoint, len(p.Product.Viscosity))
-		for i, v := range p.Product.Viscosity {
-			pts[i] = props.ViscosityPoint{TempC: v.At.SI, Viscosity: v.Value.SI}
-		}
-		curve, _ := props.NewViscosityCurve(pts) // validated: points exist, distinct, positive
-		mu, extrapolated := curve.At(setpoint)
-		if extrapolated {
-			lo, hi := curve.Range()
-			res.warn(WarnViscosityExtrapolated, "product.viscosity", map[string]float64{"setpoint_C": setpoint, "lowest_C": lo, "highest_C": hi})
-		}
-		rheo = lethality.Newtonian{Viscosity: mu}
-		out.ViscosityPas = mu
-	}
-	out.FlowIndex = rheo.FlowIndex()
-
-	hyd := tube.Hydraulics(flow, rheo, h.FastestToMean)
-	out.MeanVelocity, out.Reynolds, out.Regime = hyd.MeanVelocity, hyd.Reynolds, hyd.Regime.String()
-	out.FastestToMean, out.FastestToMeanOverridden = hyd.FastestToMean, hyd.Overridden
-	out.MinResidenceS, out.MeanResidenceS = hyd.MinResidence, hyd.MeanResidence
-	uMax := hyd.FastestToMean * hyd.MeanVelocity
-
-	cp := res.Product.SpecificHeat
-	profileAt := func(sp, massFlow float64) lethality.Profile {
-		if !h.OuterCoefficient.Set {
-			return lethality.Isothermal(sp, tube.Length)
-		}
-		return lethality.HeatLossProfile(sp, h.Ambient.SI, h.OuterCoefficient.SI, tube.OuterDiameter, massFlow, cp, tube.Length)
-	}
-	judged := profileAt(setpoint, res.Product.MaxMassFlow)
-	out.InletTemperatureC = judged.Inlet()
-	out.HeatingOutletC = profileAt(setpoint, res.Product.MassFlow).Inlet()
-	if loss := out.HeatingOutletC - setpoint; !(loss <= MaxTubeHeatLoss) {
-		return 0, inputerr.List{{Pos: h.OuterCoefficient.Pos, Field: "holding_tube.outer_coefficient",
-			Msg: fmt.Sprintf("with this heat loss the product would have to enter the holding tube %s above the setpoint to leave it at the setpoint; a holding tube loses well under %g K: check outer_coefficient, ambient and the flow",
-				kelvins(loss), MaxTubeHeatLoss)}}
-	}
-
-	if hyd.Regime != lethality.Turbulent {
-		res.warn(WarnLaminarFlow, "", map[string]float64{"reynolds": hyd.Reynolds, "fastest_to_mean": hyd.FastestToMean})
-	}
-
-	// Slope.
-	minSlope := lethality.DefaultMinSlope
-	if h.MinSlopeSet {
-		minSlope = h.MinSlope
-	}
-	out.MinSlope = minSlope
-	if h.Rise.Set {
+		VolumeL: tube.Volume() * 1e3, MaxFlowM3s: ev.Flow.Volumetric, DensityKgM3: in.Density, OutletTemperatureC: in.Setpoint,
+		ViscosityPas: ev.Viscosity, FlowIndex: ev.Rheology.FlowIndex(), Rows: []RowOut{}, MinSlope: in.MinSlope,
+		MeanVelocity: hyd.MeanVelocity, Reynolds: hyd.Reynolds, Regime: hyd.Regime.String(),
+		FastestToMean: hyd.FastestToMean, FastestToMeanOverridden: hyd.Overridden,
+		MinResidenceS: hyd.MinResidence, MeanResidenceS: hyd.MeanResidence,
+		InletTemperatureC: ev.Judged.Inlet(), HeatingOutletC: ev.AtRate.Inlet()}
+	if in.RiseGiven {
 		s := tube.Slope()
 		out.Slope = &s
-		res.Checks = append(res.Checks, NewCheck(TubeSlope, minSlope, s))
-	} else {
-		res.warn(WarnNoRise, "holding_tube.rise", nil)
 	}
-
-	// Legal table.
-	if len(p.LegalMinimums) > 0 {
-		rows := make([]lethality.LegalRow, len(p.LegalMinimums))
-		for i, r := range p.LegalMinimums {
-			rows[i] = lethality.LegalRow{Temperature: r.Temperature.SI, Time: r.Time.SI}
-		}
-		v := lethality.JudgeLegal(rows, setpoint, hyd.MinResidence, Tolerance)
-		for _, r := range rows {
-			cap := 20 * flow.Volumetric
-			q := tube.MaxFlowFor(r.Time, rho, rheo, h.FastestToMean, cap)
-			out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= setpoint+1e-9,
-				RequiredLengthM: hyd.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= cap})
-		}
-		var c Check
+	for _, r := range in.Legal {
+		limit := 20 * ev.Flow.Volumetric
+		q := tube.MaxFlowFor(r.Time, in.Density, ev.Rheology, in.FastestToMean, limit)
+		out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= in.Setpoint+1e-9,
+			RequiredLengthM: hyd.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= limit})
+	}
+	if v := ev.Legal; v != nil {
 		if v.RowIndex < 0 {
-			coolest := rows[0]
-			for _, r := range rows {
-				if r.Temperature < coolest.Temperature {
-					coolest = r
-				}
-			}
-			c = NewCheck(HoldingTime, coolest.Time, hyd.MinResidence)
-			c.Pass = false // no row applies at this setpoint: the table is not met, whatever the time
-			c.Detail = CheckDetail{RowTemperatureC: coolest.Temperature, BelowEveryRow: true, SetpointC: setpoint}
-			out.Legal = &LegalOut{RowIndex: -1, TemperatureC: coolest.Temperature, TimeS: coolest.Time, MarginS: c.Margin,
-				MarginPct: c.Margin / coolest.Time * 100}
+			c, _ := ev.Check(HoldingTime)
+			out.Legal = &LegalOut{RowIndex: -1, TemperatureC: c.Detail.RowTemperatureC, TimeS: c.Required, MarginS: c.Margin,
+				MarginPct: c.Margin / c.Required * 100}
 		} else {
-			c = NewCheck(HoldingTime, v.Row.Time, hyd.MinResidence)
-			c.Detail = CheckDetail{RowTemperatureC: v.Row.Temperature, SetpointC: setpoint, MarginPercent: v.MarginPct}
 			out.Legal = &LegalOut{Met: v.Met, RowIndex: v.RowIndex, TemperatureC: v.Row.Temperature, TimeS: v.Row.Time,
 				MarginS: v.Margin, MarginPct: v.MarginPct}
 			out.RequiredLengthM = hyd.RequiredLength(v.Applicable.Time)
 		}
-		res.Checks = append(res.Checks, c)
-		if acc := p.Process.SensorAccuracy; acc.Set && acc.SI > 0 {
-			for _, r := range rows {
-				if r.Temperature <= setpoint+1e-9 && setpoint-acc.SI <= r.Temperature+1e-9 {
-					res.warn(WarnSensorAccuracy, "process.sensor_accuracy",
-						map[string]float64{"setpoint_C": setpoint, "accuracy_K": acc.SI, "row_temperature_C": r.Temperature})
-				}
-			}
-		}
 	}
-
-	// Kinetics.
-	model := &TubeModel{Tube: tube, Rheology: rheo, Flow: flow, Hyd: hyd, Profile: judged, Override: h.FastestToMean,
-		ProfileAt: func(sp float64) lethality.Profile { return profileAt(sp, res.Product.MaxMassFlow) }}
-	for _, o := range p.Organisms {
-		org := lethality.Organism{Name: o.Name, D: o.D.SI, DTemperature: o.DTemperature.SI, Z: o.Z.SI, RequiredLogReduction: o.RequiredLogReduction}
-		model.Organisms = append(model.Organisms, org)
-		lr := lethality.LogReduction(judged, uMax, org)
-		l := Lethality{Organism: o.Name, LogReduction: lr, RequiredLogReduction: o.RequiredLogReduction,
-			EquivalentTimeS: lethality.EquivalentTime(judged, uMax, org.DTemperature, org.Z),
-			DAtSetpointS:    org.DAt(setpoint), Pass: lr >= o.RequiredLogReduction,
-			Along: lethality.Accumulated(judged, uMax, org, AlongStations)}
-		res.Lethality = append(res.Lethality, l)
-		if o.RequiredSet {
-			c := NewCheck(LogReduction, o.RequiredLogReduction, lr)
-			c.Organism = o.Name
-			c.Detail = CheckDetail{DRefS: o.D.SI, DTemperatureC: o.DTemperature.SI, ZK: o.Z.SI}
-			res.Checks = append(res.Checks, c)
-		}
+	for i, org := range in.Organisms {
+		res.Lethality = append(res.Lethality, Lethality{Organism: org.Name, LogReduction: ev.LogRed[i],
+			RequiredLogReduction: org.RequiredLogReduction, EquivalentTimeS: ev.EquivTime[i], DAtSetpointS: org.DAt(in.Setpoint),
+			Pass:  NewCheck(LogReduction, org.RequiredLogReduction, ev.LogRed[i]).Pass,
+			Along: lethality.Accumulated(ev.Judged, ev.FastestPath, org, AlongStations)})
 	}
-	if h.PU {
-		pu := lethality.PasteurizationUnits(judged, uMax)
+	if in.PU {
+		pu := ev.PU
 		out.PasteurizationUnits = &pu
 	}
-	out.Model = model
+	res.Checks = append(res.Checks, ev.Checks...)
+	res.Warnings = append(res.Warnings, ev.Warnings...)
+	out.Model = &TubeModel{Tube: tube, Rheology: ev.Rheology, Flow: ev.Flow, Hyd: hyd, Profile: ev.Judged, Override: in.FastestToMean,
+		Organisms: in.Organisms, ProfileAt: func(sp float64) lethality.Profile { return in.profile(sp, in.MaxMassFlow) }}
 	res.HoldingTube = out
 	return out.HeatingOutletC, nil
 }
