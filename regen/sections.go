@@ -192,29 +192,22 @@ func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error)
 	var err error
 	if spec.Mode() == Rating {
 		area := float64(spec.Plates) * spec.PlateArea
-		mediumIn = math.Max(spec.Inlet, productOut+1)
-		converged := false
-		for range maxIterations {
-			_, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
+		mediumIn, err = settle(math.Max(spec.Inlet, productOut+1), func(mediumIn float64) (float64, error) {
+			_, cap, err := spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
 			if err != nil {
-				return sec, sectionErrorf("heating", "%w", err)
+				return 0, err
 			}
 			cmin := math.Min(c, cap.c)
 			eps := Effectiveness(spec.Arrangement, spec.U*area/cmin, cmin/math.Max(c, cap.c))
 			next := productIn + q/(eps*cmin)
 			if math.IsInf(next, 0) || math.IsNaN(next) || next > 1000 {
-				return sec, sectionErrorf("heating", "%d plates cannot bring the product to %.2f °C with any medium temperature: %w",
+				return 0, fmt.Errorf("%d plates cannot bring the product to %.2f °C with any medium temperature: %w",
 					spec.Plates, productOut, ErrInfeasible)
 			}
-			if math.Abs(next-mediumIn) < tempTolerance {
-				mediumIn = next
-				converged = true
-				break
-			}
-			mediumIn = next
-		}
-		if !converged {
-			return sec, sectionErrorf("heating", "%w", ErrNoConvergence)
+			return next, nil
+		})
+		if err != nil {
+			return sec, sectionErrorf("heating", "%w", err)
 		}
 	}
 	mediumOut, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
@@ -253,23 +246,16 @@ func Cooling(spec CoolingSpec, c, productIn float64) (Section, error) {
 		if err != nil {
 			return sec, sectionErrorf(sec.Label(), "%w", err)
 		}
-		mediumOut := spec.Inlet
-		converged := false
-		for range maxIterations {
+		_, err = settle(spec.Inlet, func(mediumOut float64) (float64, error) {
 			cp, err := spec.Medium.cp((spec.Inlet + mediumOut) / 2)
 			if err != nil {
-				return sec, sectionErrorf(sec.Label(), "%w", err)
+				return 0, err
 			}
 			q = rate(spec.Surface, area, c, mass*cp, productIn, spec.Inlet)
-			next := spec.Inlet + q/(mass*cp)
-			if math.Abs(next-mediumOut) < tempTolerance {
-				converged = true
-				break
-			}
-			mediumOut = next
-		}
-		if !converged {
-			return sec, sectionErrorf(sec.Label(), "%w", ErrNoConvergence)
+			return spec.Inlet + q/(mass*cp), nil
+		})
+		if err != nil {
+			return sec, sectionErrorf(sec.Label(), "%w", err)
 		}
 		sec.ProductOut = productIn - q/c
 	} else {
