@@ -38,19 +38,25 @@ type CheckDef struct {
 	MarginUnit string // of Margin: "K" for temperatures, else Unit
 	// PassesWhen is the rule in words, for the README's list of checks.
 	PassesWhen string
+	// Note is the check's note when it carries no numbers; a note with
+	// numbers (from Check.Detail) is worded in internal/present instead.
+	Note string
 }
 
 // checkDefs is the registry, in print order: the holding-tube checks, then the
 // line's.
 var checkDefs = []CheckDef{
-	{TubeSlope, true, AtLeast, "slope", "slope", "(rise entered) rise/length ≥ `min_slope`"},
+	{TubeSlope, true, AtLeast, "slope", "slope", "(rise entered) rise/length ≥ `min_slope`",
+		"continuous upward slope of the holding tube (rise/length)"},
 	{HoldingTime, true, AtLeast, "s", "s",
-		"(legal rows entered) some row has temperature ≤ setpoint and time ≤ the fastest particle's time"},
-	{LogReduction, true, AtLeast, "log", "log", "(per organism with `required_log_reduction`) fastest-particle log reduction ≥ required"},
+		"(legal rows entered) some row has temperature ≤ setpoint and time ≤ the fastest particle's time", ""},
+	{LogReduction, true, AtLeast, "log", "log", "(per organism with `required_log_reduction`) fastest-particle log reduction ≥ required", ""},
 	{HeatingMedium, false, AtLeast, "°C", "K",
-		"(heating in rating mode) the medium inlet needed by the installed plates ≤ the hottest available"},
-	{CoolingOutlet, false, AtMost, "°C", "K", "(a rated cooling stage) the product leaving the last stage ≤ `outlet_target`"},
-	{RegeneratorPressure, false, AtLeast, "Pa", "Pa", "(pressure entered) pasteurized minimum − raw maximum ≥ required margin"},
+		"(heating in rating mode) the medium inlet needed by the installed plates ≤ the hottest available", ""},
+	{CoolingOutlet, false, AtMost, "°C", "K", "(a rated cooling stage) the product leaving the last stage ≤ `outlet_target`",
+		"product leaving the last cooling stage, against the outlet target"},
+	{RegeneratorPressure, false, AtLeast, "Pa", "Pa", "(pressure entered) pasteurized minimum − raw maximum ≥ required margin",
+		"pasteurized-side minimum pressure above raw-side maximum in the regenerator"},
 }
 
 // CheckDefs returns the registry, in print order.

@@ -23,12 +23,11 @@ func (d Display) g4(v float64, k units.Kind) string {
 	return fmt.Sprintf("%.4g %s", units.FromSI(v, k, d.Unit(k)), d.Unit(k))
 }
 
-// CheckNote is a check's note in words.
+// CheckNote is a check's note in words: the registry's fixed note, or, for a
+// note that carries numbers, the words made here.
 func CheckNote(c assess.Check, d Display) string {
 	x := c.Detail
 	switch c.ID {
-	case assess.TubeSlope:
-		return "continuous upward slope of the holding tube (rise/length)"
 	case assess.HoldingTime:
 		if x.BelowEveryRow {
 			return fmt.Sprintf("the setpoint %s is below every legal row (coolest %s)", d.temp(x.SetpointC), d.temp(x.RowTemperatureC))
@@ -38,10 +37,11 @@ func CheckNote(c assess.Check, d Display) string {
 		return fmt.Sprintf("fastest particle at the sealed maximum flow; D %.4g s at %s, z %s", x.DRefS, d.temp(x.DTemperatureC), d.diff(x.ZK))
 	case assess.HeatingMedium:
 		return fmt.Sprintf("medium inlet that %d plates need to bring the product to temperature, against the hottest available", x.Plates)
-	case assess.CoolingOutlet:
-		return "product leaving the last cooling stage, against the outlet target"
-	case assess.RegeneratorPressure:
-		return "pasteurized-side minimum pressure above raw-side maximum in the regenerator"
+	}
+	for _, def := range assess.CheckDefs() {
+		if def.ID == c.ID && def.Note != "" {
+			return def.Note
+		}
 	}
 	panic(fmt.Sprintf("%sno note for check %q", panicPrefix, c.ID))
 }
