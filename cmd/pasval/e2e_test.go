@@ -26,9 +26,9 @@ var binPath string
 // user would. testscript also runs this test binary as the pasval command in
 // its scripts (testdata/script): then no binary is built.
 func TestMain(m *testing.M) {
-	os.Exit(testscript.RunMain(withBinary{m}, map[string]func() int{
-		"pasval": func() int { return run(os.Args[1:], os.Stdout, os.Stderr) },
-	}))
+	testscript.Main(withBinary{m}, map[string]func(){
+		"pasval": func() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) },
+	})
 }
 
 // withBinary runs the tests with the binary built.
