@@ -165,12 +165,14 @@ type LegalVerdict struct {
 }
 
 // JudgeLegal applies the legal-table rule: the process meets the table when
-// some row has temperature ≤ setpoint and time ≤ the fastest-particle time.
+// some row has temperature ≤ setpoint and time ≤ the fastest-particle time,
+// the latter within relTol of the row time (row time − t_min ≤ relTol·row
+// time; the caller's one tolerance rule for every check, 0 for none).
 // Rows are never interpolated: the table is not one z-line (63 °C/30 min and
 // 72 °C/15 s imply z = 4.33 °C; 72 °C/15 s and 89 °C/1 s imply z = 14.45 °C).
 //
 // References: DOMAIN.md §2 (Legal minimum table) and §3.
-func JudgeLegal(rows []LegalRow, setpoint, minResidence float64) LegalVerdict {
+func JudgeLegal(rows []LegalRow, setpoint, minResidence, relTol float64) LegalVerdict {
 	idx := make([]int, 0, len(rows))
 	for i, r := range rows {
 		if r.Temperature <= setpoint+1e-9 {
@@ -183,7 +185,7 @@ func JudgeLegal(rows []LegalRow, setpoint, minResidence float64) LegalVerdict {
 	sort.SliceStable(idx, func(a, b int) bool { return rows[idx[a]].Temperature > rows[idx[b]].Temperature })
 	v := LegalVerdict{Applicable: rows[idx[0]], Row: rows[idx[0]], RowIndex: idx[0]}
 	for _, i := range idx {
-		if rows[i].Time <= minResidence*(1+1e-12) {
+		if rows[i].Time-minResidence <= relTol*rows[i].Time {
 			v.Met, v.Row, v.RowIndex = true, rows[i], i
 			break
 		}

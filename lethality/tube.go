@@ -49,36 +49,6 @@ func (t Tube) Slope() float64 { return t.Rise / t.Length }
 // upward slope of the Grade "A" PMO, Item 16p (from memory; see DOMAIN.md §2).
 const DefaultMinSlope = 0.25 / 12
 
-// SanitaryTube is a sanitary (3-A / ASTM A270) tube size: OD = nominal size.
-type SanitaryTube struct {
-	Nominal, Outer, Wall float64 // m
-}
-
-// Inner is the inner diameter, OD − 2·wall.
-func (s SanitaryTube) Inner() float64 { return s.Outer - 2*s.Wall }
-
-// SanitaryTubes lists the usual sizes. Walls: 0.065 in for 1.5–3 in, 0.083 in
-// for 4 in, 0.109 in for 6 in (ASTM A270 / 3-A practice, from memory; see
-// DOMAIN.md §2).
-var SanitaryTubes = []SanitaryTube{
-	{1.5 * 0.0254, 1.5 * 0.0254, 0.065 * 0.0254},
-	{2 * 0.0254, 2 * 0.0254, 0.065 * 0.0254},
-	{2.5 * 0.0254, 2.5 * 0.0254, 0.065 * 0.0254},
-	{3 * 0.0254, 3 * 0.0254, 0.065 * 0.0254},
-	{4 * 0.0254, 4 * 0.0254, 0.083 * 0.0254},
-	{6 * 0.0254, 6 * 0.0254, 0.109 * 0.0254},
-}
-
-// LookupSanitaryTube finds a nominal size (m) within 0.1 mm.
-func LookupSanitaryTube(nominal float64) (SanitaryTube, bool) {
-	for _, s := range SanitaryTubes {
-		if math.Abs(s.Nominal-nominal) < 1e-4 {
-			return s, true
-		}
-	}
-	return SanitaryTube{}, false
-}
-
 // Rheology is the product's flow behaviour at the holding temperature.
 type Rheology interface {
 	// FlowIndex is n: 1 for a Newtonian fluid.

@@ -73,17 +73,32 @@ func (m Medium) outletForDuty(f Flow, inletC, q float64) (float64, capacity, err
 	if err != nil {
 		return 0, capacity{}, err
 	}
-	out := inletC
-	for range maxIterations {
-		cp, err := m.cp((inletC + out) / 2)
-		if err != nil {
-			return 0, capacity{}, err
-		}
-		next := inletC - q/(mass*cp)
-		if math.Abs(next-out) < tempTolerance {
-			return next, capacity{mass, cp, mass * cp}, nil
-		}
-		out = next
+	var cp float64
+	out, err := settle(inletC, func(out float64) (float64, error) {
+		cp, err = m.cp((inletC + out) / 2)
+		return inletC - q/(mass*cp), err
+	})
+	if err != nil {
+		return 0, capacity{}, err
 	}
-	return 0, capacity{}, ErrNoConvergence
+	return out, capacity{mass, cp, mass * cp}, nil
+}
+
+// settle is the fixed-point iteration the sections share: x ← next(x) from
+// x0 until two successive values differ by less than tempTolerance (K), at
+// most maxIterations times (then ErrNoConvergence). An error from next stops
+// it. It returns the last value next gave.
+func settle(x0 float64, next func(x float64) (float64, error)) (float64, error) {
+	x := x0
+	for range maxIterations {
+		n, err := next(x)
+		if err != nil {
+			return 0, err
+		}
+		if math.Abs(n-x) < tempTolerance {
+			return n, nil
+		}
+		x = n
+	}
+	return 0, ErrNoConvergence
 }

@@ -6,9 +6,34 @@ import (
 	"math"
 )
 
+// SectionKind is what a section does in the line.
+type SectionKind int
+
+const (
+	RegenerationSection SectionKind = iota + 1 // product to product
+	HeatingSection                             // a hot medium heats the product
+	CoolingSection                             // a cold medium cools the product (one stage)
+)
+
+// SectionKinds lists every kind, in process order.
+var SectionKinds = []SectionKind{RegenerationSection, HeatingSection, CoolingSection}
+
+// String is the kind's name as the JSON contract and the tables print it.
+func (k SectionKind) String() string {
+	switch k {
+	case RegenerationSection:
+		return "regeneration"
+	case HeatingSection:
+		return "heating"
+	case CoolingSection:
+		return "cooling"
+	}
+	panic(fmt.Sprintf("%sunknown section kind %d", panicPrefix, int(k)))
+}
+
 // Section is the computed state of one heat-exchange section.
 type Section struct {
-	Name        string // "regeneration", "heating" or "cooling"
+	Kind        SectionKind
 	Stage       string // cooling stage name; empty otherwise
 	Mode        Mode
 	Arrangement Arrangement
@@ -43,7 +68,7 @@ func (s Section) Area() float64 {
 }
 
 // Label names the section in messages: "heating", "cooling stage 'chilled water'".
-func (s Section) Label() string { return label(s.Name, s.Stage) }
+func (s Section) Label() string { return label(s.Kind.String(), s.Stage) }
 
 func label(name, stage string) string {
 	if stage != "" {
@@ -114,7 +139,7 @@ type RegenSpec struct {
 //
 // References: shared/DOMAIN.md §2 (Regeneration); Incropera et al. (2007), §11.4.
 func Regeneration(spec RegenSpec, c, rawIn, hotIn float64) (Section, error) {
-	sec := Section{Name: "regeneration"}
+	sec := Section{Kind: RegenerationSection}
 	span := hotIn - rawIn
 	if !(span > 0) {
 		return sec, sectionErrorf("regeneration", "the pasteurized product (%.2f °C) must be hotter than the raw product (%.2f °C)", hotIn, rawIn)
@@ -155,7 +180,7 @@ type MediumSpec struct {
 // In rating mode OtherIn is the required medium inlet; the caller compares it
 // with spec.Inlet, the hottest available.
 func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error) {
-	sec := Section{Name: "heating", ProductIn: productIn, ProductOut: productOut, ProductCapacity: c}
+	sec := Section{Kind: HeatingSection, ProductIn: productIn, ProductOut: productOut, ProductCapacity: c}
 	q := c * (productOut - productIn)
 	if !(q > 0) {
 		return sec, sectionErrorf("heating", "the product leaves regeneration at %.2f °C, already at or above the %.2f °C it must reach; there is nothing to heat",
@@ -167,29 +192,22 @@ func Heating(spec MediumSpec, c, productIn, productOut float64) (Section, error)
 	var err error
 	if spec.Mode() == Rating {
 		area := float64(spec.Plates) * spec.PlateArea
-		mediumIn = math.Max(spec.Inlet, productOut+1)
-		converged := false
-		for range maxIterations {
-			_, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
+		mediumIn, err = settle(math.Max(spec.Inlet, productOut+1), func(mediumIn float64) (float64, error) {
+			_, cap, err := spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
 			if err != nil {
-				return sec, sectionErrorf("heating", "%w", err)
+				return 0, err
 			}
 			cmin := math.Min(c, cap.c)
 			eps := Effectiveness(spec.Arrangement, spec.U*area/cmin, cmin/math.Max(c, cap.c))
 			next := productIn + q/(eps*cmin)
 			if math.IsInf(next, 0) || math.IsNaN(next) || next > 1000 {
-				return sec, sectionErrorf("heating", "%d plates cannot bring the product to %.2f °C with any medium temperature: %w",
+				return 0, fmt.Errorf("%d plates cannot bring the product to %.2f °C with any medium temperature: %w",
 					spec.Plates, productOut, ErrInfeasible)
 			}
-			if math.Abs(next-mediumIn) < tempTolerance {
-				mediumIn = next
-				converged = true
-				break
-			}
-			mediumIn = next
-		}
-		if !converged {
-			return sec, sectionErrorf("heating", "%w", ErrNoConvergence)
+			return next, nil
+		})
+		if err != nil {
+			return sec, sectionErrorf("heating", "%w", err)
 		}
 	}
 	mediumOut, cap, err = spec.Medium.outletForDuty(spec.Flow, mediumIn, q)
@@ -216,7 +234,7 @@ type CoolingSpec struct {
 //	rating: q = ε(U A / C_min, C_r) C_min (T_p,in − T_m,in), with the medium cp
 //	        at its mean temperature (fixed-point iteration)
 func Cooling(spec CoolingSpec, c, productIn float64) (Section, error) {
-	sec := Section{Name: "cooling", Stage: spec.Stage, ProductIn: productIn, ProductCapacity: c}
+	sec := Section{Kind: CoolingSection, Stage: spec.Stage, ProductIn: productIn, ProductCapacity: c}
 	if !(spec.Inlet < productIn) {
 		return sec, sectionErrorf(sec.Label(), "the medium enters at %.2f °C, not below the product entering at %.2f °C; it cannot cool it",
 			spec.Inlet, productIn)
@@ -228,23 +246,16 @@ func Cooling(spec CoolingSpec, c, productIn float64) (Section, error) {
 		if err != nil {
 			return sec, sectionErrorf(sec.Label(), "%w", err)
 		}
-		mediumOut := spec.Inlet
-		converged := false
-		for range maxIterations {
+		_, err = settle(spec.Inlet, func(mediumOut float64) (float64, error) {
 			cp, err := spec.Medium.cp((spec.Inlet + mediumOut) / 2)
 			if err != nil {
-				return sec, sectionErrorf(sec.Label(), "%w", err)
+				return 0, err
 			}
 			q = rate(spec.Surface, area, c, mass*cp, productIn, spec.Inlet)
-			next := spec.Inlet + q/(mass*cp)
-			if math.Abs(next-mediumOut) < tempTolerance {
-				converged = true
-				break
-			}
-			mediumOut = next
-		}
-		if !converged {
-			return sec, sectionErrorf(sec.Label(), "%w", ErrNoConvergence)
+			return spec.Inlet + q/(mass*cp), nil
+		})
+		if err != nil {
+			return sec, sectionErrorf(sec.Label(), "%w", err)
 		}
 		sec.ProductOut = productIn - q/c
 	} else {

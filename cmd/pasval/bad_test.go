@@ -146,14 +146,14 @@ func TestMissingFileAndUsage(t *testing.T) {
 		args []string
 		frag string
 	}{
-		{[]string{"check", "no-such-file.yaml"}, "cannot read the plant file"},
+		{[]string{"check", "no-such-file.yaml"}, "cannot read no-such-file.yaml"},
 		{[]string{"check"}, "exactly one plant file"},
 		{[]string{"check", "a.yaml", "b.yaml"}, "exactly one plant file"},
 		{[]string{"check", "--units", "metric", filepath.Join(demoDir, "htst-milk-si.yaml")}, "--units must be si or us"},
 		{[]string{"check", "--bogus", filepath.Join(demoDir, "htst-milk-si.yaml")}, "unknown flag"},
 		{[]string{"frobnicate"}, "unknown command"},
 		{[]string{"init", "--units", "metric"}, "--units must be si or us"},
-		{[]string{"check", badDir}, "cannot read the plant file"},
+		{[]string{"check", badDir}, "../../testdata/bad: cannot read ../../testdata/bad: is a directory"},
 	}
 	for _, tc := range tests {
 		var out, errb bytes.Buffer

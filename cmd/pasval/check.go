@@ -74,7 +74,7 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 		}
 	}
 	if opts.json {
-		if err := writeJSON(out, res); err != nil {
+		if err := writeJSON(out, present.ForJSON(res)); err != nil {
 			return err
 		}
 	} else {
@@ -122,12 +122,7 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 		writeHolding(w, res, d)
 	}
 	writeChecks(w, res, d, colour)
-	if len(res.Warnings) > 0 {
-		fmt.Fprintln(w, "\nWarnings")
-		for _, m := range res.Warnings {
-			fmt.Fprint(w, wrap(m, "  !", 88))
-		}
-	}
+	writeWarnings(w, present.Warnings(res, d))
 	fmt.Fprint(w, "\n"+wrap(res.Caution, "Caution:", 88))
 }
 
@@ -171,4 +166,13 @@ func writeComparison(w io.Writer, res *assess.Result, d present.Display) {
 		t.add(label, c.Arrangement, d.Num(c.AreaM2, units.Area, 2), c.Other, other, ratio, note)
 	}
 	t.write(w)
+}
+
+func writeWarnings(w io.Writer, warnings []string) {
+	if len(warnings) > 0 {
+		fmt.Fprintln(w, "\nWarnings")
+		for _, m := range warnings {
+			fmt.Fprint(w, wrap(m, "  !", 88))
+		}
+	}
 }

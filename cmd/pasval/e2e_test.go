@@ -13,6 +13,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/rogpeppe/go-internal/testscript"
+
 	"pasval/internal/units"
 )
 
@@ -21,21 +23,29 @@ const demoDir = "../../testdata/demo"
 var binPath string
 
 // TestMain builds the pasval binary once so that end-to-end tests run it as a
-// user would.
+// user would. testscript also runs this test binary as the pasval command in
+// its scripts (testdata/script): then no binary is built.
 func TestMain(m *testing.M) {
+	testscript.Main(withBinary{m}, map[string]func(){
+		"pasval": func() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) },
+	})
+}
+
+// withBinary runs the tests with the binary built.
+type withBinary struct{ m *testing.M }
+
+func (w withBinary) Run() int {
 	dir, err := os.MkdirTemp("", "pasval-e2e")
 	if err != nil {
 		panic(err)
 	}
+	defer os.RemoveAll(dir)
 	binPath = filepath.Join(dir, "pasval")
 	if out, err := exec.Command("go", "build", "-o", binPath, ".").CombinedOutput(); err != nil {
 		os.Stderr.Write(out)
-		os.RemoveAll(dir)
-		os.Exit(2)
+		return 2
 	}
-	code := m.Run()
-	os.RemoveAll(dir)
-	os.Exit(code)
+	return w.m.Run()
 }
 
 func runBinary(t *testing.T, args ...string) (string, string, int) {

@@ -7,7 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pasval/internal/assess"
-	"pasval/internal/plantfile"
+	"pasval/internal/inputerr"
 	"pasval/internal/present"
 	"pasval/internal/units"
 )
@@ -53,12 +53,10 @@ type holdReport struct {
 	Lethality     []assess.Lethality   `json:"lethality"`
 	SetpointTable []assess.SetpointRow `json:"setpoint_table"`
 	Checks        []assess.Check       `json:"checks"`
-	Warnings      []string             `json:"warnings"`
+	Warnings      []assess.Warning     `json:"warnings"`
 	Pass          bool                 `json:"pass"`
 	Caution       string               `json:"caution"`
 }
-
-var holdingChecks = map[string]bool{"holding-time": true, "log-reduction": true, "tube-slope": true}
 
 func runHold(opts holdOptions, out io.Writer) error {
 	p, d, err := opts.load(opts.file)
@@ -66,19 +64,23 @@ func runHold(opts holdOptions, out io.Writer) error {
 		return err
 	}
 	if p.HoldingTube == nil {
-		return plantfile.ErrorList{{Pos: plantfile.Pos{File: p.File, Line: 1, Column: 1}, Field: "holding_tube",
+		return inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1}, Field: "holding_tube",
 			Msg: "the plant file describes no holding tube; add holding_tube (see 'pasval init' and the README)"}}
 	}
 	res, err := assess.Run(p)
 	if err != nil {
 		return err
 	}
+	worded := present.ForJSON(res)
 	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
-		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: res.Warnings,
+		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: worded.Warnings,
 		Pass: true, Caution: res.Caution}
-	for _, c := range res.Checks {
-		if holdingChecks[c.ID] {
-			rep.Checks = append(rep.Checks, c)
+	only := *res
+	only.Checks = []assess.Check{}
+	for i, c := range res.Checks {
+		if c.IsHolding() {
+			only.Checks = append(only.Checks, c)
+			rep.Checks = append(rep.Checks, worded.Checks[i])
 			rep.Pass = rep.Pass && c.Pass
 		}
 	}
@@ -90,15 +92,8 @@ func runHold(opts holdOptions, out io.Writer) error {
 		fmt.Fprintf(out, "pasval %s · holding tube of %s\ninput sha256 %s\n", res.Version, p.File, res.InputSHA256)
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
-		only := *res
-		only.Checks = rep.Checks
 		writeChecks(out, &only, d, useColour(out))
-		if len(rep.Warnings) > 0 {
-			fmt.Fprintln(out, "\nWarnings")
-			for _, m := range rep.Warnings {
-				fmt.Fprint(out, wrap(m, "  !", 88))
-			}
-		}
+		writeWarnings(out, present.Warnings(res, d))
 		fmt.Fprint(out, "\n"+wrap(res.Caution, "Caution:", 88))
 	}
 	if !rep.Pass {

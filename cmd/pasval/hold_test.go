@@ -37,8 +37,11 @@ type holdJSON struct {
 		Required     float64
 		Actual       float64
 	}
-	Warnings []string
-	Pass     bool
+	Warnings []struct {
+		Code, Field, Message string
+		Values               map[string]float64
+	}
+	Pass bool
 }
 
 func holdOf(t *testing.T, cmd, path string) (holdJSON, int) {
@@ -97,8 +100,12 @@ func TestFrozenDessertFailsItsLegalTime(t *testing.T) {
 	if holding == nil || holding.Pass || holding.Required != 25 {
 		t.Fatalf("holding-time check %+v", holding)
 	}
-	if len(r.Warnings) < 2 || !strings.Contains(r.Warnings[0], "laminar") || !strings.Contains(r.Warnings[1], "stated accuracy") {
-		t.Errorf("warnings %q", r.Warnings)
+	// Warnings are data (code, field, SI values) with their words in SI.
+	if len(r.Warnings) < 2 || r.Warnings[0].Code != "laminar-flow" || !strings.Contains(r.Warnings[0].Message, "laminar") ||
+		math.Abs(r.Warnings[0].Values["reynolds"]-re) > 1e-9*re ||
+		r.Warnings[1].Code != "setpoint-within-sensor-accuracy" || r.Warnings[1].Field != "process.sensor_accuracy" ||
+		!strings.Contains(r.Warnings[1].Message, "stated accuracy") || r.Warnings[1].Values["accuracy_K"] != 0.5 {
+		t.Errorf("warnings %+v", r.Warnings)
 	}
 	out, _, _ := runBinary(t, "check", path)
 	for _, want := range []string{"holding-time  FAIL", "Result: FAIL", "Dickerson", "never replaces"} {

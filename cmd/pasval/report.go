@@ -12,6 +12,7 @@ import (
 	"pasval/internal/assess"
 	"pasval/internal/fileout"
 	"pasval/internal/plantfile"
+	"pasval/internal/record"
 	"pasval/report"
 )
 
@@ -95,15 +96,10 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if same, _ := sameFile(path, res.Plant.File); same {
 		return usagef("the record %s would overwrite the plant file", path)
 	}
-	opts := report.Options{Date: date, PlantBytes: res.Plant.Source, PlantName: filepath.Base(res.Plant.File)}
-	if p := res.Plant; p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0 {
-		w, err := assess.AddPlates(p, report.WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction)
-		if err != nil {
-			return err
-		}
-		opts.WhatIf = w
+	doc, err := record.Build(res, record.Options{Date: date, PlantName: filepath.Base(res.Plant.File)})
+	if err != nil {
+		return err
 	}
-	doc := report.Build(res, opts)
 	pdf, pages, err := report.Render(doc)
 	if err != nil {
 		return err

@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
@@ -92,11 +93,17 @@ func exitCode(err error, stderr io.Writer) int {
 	if errors.Is(err, errChecksFailed) {
 		return exitFail
 	}
-	var list plantfile.ErrorList
+	// Bad input, from any reader: one line per problem, file:line:column first.
+	var list inputerr.List
 	if errors.As(err, &list) {
 		for _, e := range list {
 			fmt.Fprintf(stderr, "pasval: %v\n", e)
 		}
+		return exitInput
+	}
+	var one *inputerr.Error
+	if errors.As(err, &one) {
+		fmt.Fprintf(stderr, "pasval: %v\n", one)
 		return exitInput
 	}
 	msg := err.Error()

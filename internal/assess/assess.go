@@ -22,6 +22,7 @@ import (
 	"fmt"
 	"math"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
 	"pasval/internal/version"
@@ -33,9 +34,9 @@ const Caution = "This result supports, and never replaces, the regulatory accept
 	"(holding-time test at the sealed maximum flow, flow-diversion and recorder-controller tests, " +
 	"thermometer checks), the process authority and the local regulator. Defer to them and to local codes."
 
-// Check is one judged quantity.
+// Check is one judged quantity; NewCheck makes it (checks.go).
 type Check struct {
-	ID         string  `json:"id"`
+	ID         CheckID `json:"id"`
 	Organism   string  `json:"organism,omitempty"`
 	Pass       bool    `json:"pass"`
 	Required   float64 `json:"required"`
@@ -43,34 +44,53 @@ type Check struct {
 	Unit       string  `json:"unit"`
 	Margin     float64 `json:"margin"` // positive when passing, in MarginUnit
 	MarginUnit string  `json:"margin_unit"`
-	Note       string  `json:"note"`
+	// Note is the check's note in words, made by internal/present from ID and
+	// Detail (in SI for JSON); assess leaves it empty.
+	Note string `json:"note"`
 	// Limit says how Actual is judged against Required: "min" (actual ≥ required)
 	// or "max" (actual ≤ required).
-	Limit string `json:"limit"`
+	Limit  Limit       `json:"limit"`
+	Detail CheckDetail `json:"-"`
+}
+
+// CheckDetail is what a check's note tells beyond required and actual, in SI.
+type CheckDetail struct {
+	// holding-time: the row judged (the hottest row met, or else the hottest
+	// row at or below the setpoint), or, when the setpoint is below every row,
+	// the coolest row.
+	RowTemperatureC float64
+	BelowEveryRow   bool
+	SetpointC       float64
+	MarginPercent   float64 // of the row time
+	// heating-medium: the installed plates.
+	Plates int
+	// log-reduction: the organism's kinetics as entered.
+	DRefS, DTemperatureC, ZK float64
 }
 
 // Section is one heat-exchange section in the JSON contract; every key carries its unit.
 type Section struct {
-	Name              string   `json:"name"`
-	Stage             string   `json:"stage,omitempty"`
-	Mode              string   `json:"mode"`
-	Arrangement       string   `json:"arrangement"`
-	DutyKW            float64  `json:"duty_kW"`
-	LMTDK             float64  `json:"lmtd_K"`
-	NTU               float64  `json:"ntu"`
-	Effectiveness     float64  `json:"effectiveness"`
-	AreaM2            float64  `json:"area_m2"`
-	RequiredAreaM2    float64  `json:"required_area_m2"`
-	InstalledAreaM2   float64  `json:"installed_area_m2"`
-	Plates            int      `json:"plates"`
-	PlateAreaM2       float64  `json:"plate_area_m2"`
-	UWm2K             float64  `json:"u_W_m2K"`
-	ProductInC        float64  `json:"product_in_C"`
-	ProductOutC       float64  `json:"product_out_C"`
-	OtherInC          float64  `json:"other_in_C"`
-	OtherOutC         float64  `json:"other_out_C"`
-	MediumAvailableC  *float64 `json:"medium_available_in_C,omitempty"`
-	MediumMassFlowKgS float64  `json:"medium_mass_flow_kg_s,omitempty"`
+	Kind              regen.SectionKind `json:"-"`
+	Name              string            `json:"name"`
+	Stage             string            `json:"stage,omitempty"`
+	Mode              string            `json:"mode"`
+	Arrangement       string            `json:"arrangement"`
+	DutyKW            float64           `json:"duty_kW"`
+	LMTDK             float64           `json:"lmtd_K"`
+	NTU               float64           `json:"ntu"`
+	Effectiveness     float64           `json:"effectiveness"`
+	AreaM2            float64           `json:"area_m2"`
+	RequiredAreaM2    float64           `json:"required_area_m2"`
+	InstalledAreaM2   float64           `json:"installed_area_m2"`
+	Plates            int               `json:"plates"`
+	PlateAreaM2       float64           `json:"plate_area_m2"`
+	UWm2K             float64           `json:"u_W_m2K"`
+	ProductInC        float64           `json:"product_in_C"`
+	ProductOutC       float64           `json:"product_out_C"`
+	OtherInC          float64           `json:"other_in_C"`
+	OtherOutC         float64           `json:"other_out_C"`
+	MediumAvailableC  *float64          `json:"medium_available_in_C,omitempty"`
+	MediumMassFlowKgS float64           `json:"medium_mass_flow_kg_s,omitempty"`
 
 	raw regen.Section
 }
@@ -101,7 +121,7 @@ type Result struct {
 	ArrangementComparison []ArrangementComparison `json:"arrangement_comparison,omitempty"`
 	Lethality             []Lethality             `json:"lethality"`
 	Checks                []Check                 `json:"checks"`
-	Warnings              []string                `json:"warnings"`
+	Warnings              []Warning               `json:"warnings"`
 	Pass                  bool                    `json:"pass"`
 	Caution               string                  `json:"caution"`
 
@@ -109,11 +129,11 @@ type Result struct {
 }
 
 // Run computes every section and check the plant file describes. Errors are
-// plantfile.ErrorList values that point at the section whose numbers cannot
+// inputerr.List values that point at the section whose numbers cannot
 // work (a temperature cross, an impossible duty).
 func Run(p *plantfile.Plant) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
-		Checks: []Check{}, Warnings: []string{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
+		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
 	res.Product = productProps(p)
 	heatingOutlet := p.Process.HoldSetpoint.SI
 	if p.HoldingTube != nil {
@@ -137,7 +157,7 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	}
 	// A safety net: no verdict rests on a number that is not finite.
 	if _, err := json.Marshal(res); err != nil {
-		return nil, plantfile.ErrorList{{Pos: plantfile.Pos{File: p.File, Line: 1, Column: 1},
+		return nil, inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1},
 			Msg: "the inputs lead to a result that is not a finite number; check the magnitudes and units of the entered values"}}
 	}
 	return res, nil
@@ -148,7 +168,7 @@ func productProps(p *plantfile.Plant) ProductProps {
 	pp := ProductProps{}
 	raw, set := p.Process.RawInlet.SI, p.Process.HoldSetpoint.SI
 	if c := p.Product.Composition; c != nil {
-		comp := props.Composition{Water: c.Water, Protein: c.Protein, Fat: c.Fat, Carbohydrate: c.Carbohydrate, Fiber: c.Fiber, Ash: c.Ash}
+		comp := choiOkos(c)
 		pp.Density = comp.Density(raw)
 		pp.SpecificHeat = comp.SpecificHeat((raw + set) / 2)
 		pp.FromComposition = true
@@ -175,6 +195,12 @@ func productProps(p *plantfile.Plant) ProductProps {
 	pp.MassFlow, pp.MaxMassFlow = toMass(rate), toMass(maxRate)
 	pp.ProductCapacity = pp.MassFlow * pp.SpecificHeat
 	return pp
+}
+
+// choiOkos is the one conversion of the entered composition for the
+// Choi–Okos correlations.
+func choiOkos(c *plantfile.Composition) props.Composition {
+	return props.Composition{Water: c.Water, Protein: c.Protein, Fat: c.Fat, Carbohydrate: c.Carbohydrate, Fiber: c.Fiber, Ash: c.Ash}
 }
 
 func surface(pl plantfile.Plates) regen.Surface {
@@ -228,21 +254,19 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 	}
 	for _, s := range line.Sections {
 		out := Section{
-			Name: s.Name, Stage: s.Stage, Mode: s.Mode.String(), Arrangement: s.Arrangement.String(),
+			Kind: s.Kind, Name: s.Kind.String(), Stage: s.Stage, Mode: s.Mode.String(), Arrangement: s.Arrangement.String(),
 			DutyKW: s.Duty / 1e3, LMTDK: s.LMTD, NTU: s.NTU, Effectiveness: s.Effectiveness,
 			AreaM2: s.Area(), RequiredAreaM2: s.RequiredArea, InstalledAreaM2: s.InstalledArea,
 			Plates: s.Plates, PlateAreaM2: s.PlateArea, UWm2K: s.U,
 			ProductInC: s.ProductIn, ProductOutC: s.ProductOut, OtherInC: s.OtherIn, OtherOutC: s.OtherOut,
 			MediumMassFlowKgS: s.MediumMassFlow, raw: s,
 		}
-		if s.Name == "heating" && s.Mode == regen.Rating {
+		if s.Kind == regen.HeatingSection && s.Mode == regen.Rating {
 			avail := line.HeatingMediumAvailable
 			out.MediumAvailableC = &avail
-			res.Checks = append(res.Checks, Check{
-				ID: "heating-medium", Required: s.OtherIn, Actual: avail, Unit: "°C", MarginUnit: "K", Limit: "min",
-				Margin: avail - s.OtherIn, Pass: avail >= s.OtherIn,
-				Note: fmt.Sprintf("medium inlet that %d plates need to bring the product to temperature, against the hottest available", s.Plates),
-			})
+			c := NewCheck(HeatingMedium, s.OtherIn, avail)
+			c.Detail.Plates = s.Plates
+			res.Checks = append(res.Checks, c)
 		}
 		res.Sections = append(res.Sections, out)
 	}
@@ -251,13 +275,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 		res.RegenerationRatio = &r
 	}
 	if n := len(p.Cooling); n > 0 && anyRated(p.Cooling) {
-		target := p.Process.OutletTarget.SI
-		got := line.FinalProductOut
-		res.Checks = append(res.Checks, Check{
-			ID: "cooling-outlet", Required: target, Actual: got, Unit: "°C", MarginUnit: "K", Limit: "max",
-			Margin: target - got, Pass: got <= target+1e-9,
-			Note: "product leaving the last cooling stage, against the outlet target",
-		})
+		res.Checks = append(res.Checks, NewCheck(CoolingOutlet, p.Process.OutletTarget.SI, line.FinalProductOut))
 	}
 	return nil
 }
@@ -290,7 +308,7 @@ func sectionError(p *plantfile.Plant, err error) error {
 		pos, field = p.Heating.Pos, "heating"
 	default:
 		for i, c := range p.Cooling {
-			if name == (regen.Section{Name: "cooling", Stage: c.Name}).Label() {
+			if name == (regen.Section{Kind: regen.CoolingSection, Stage: c.Name}).Label() {
 				pos, field = c.Pos, fmt.Sprintf("cooling[%d]", i)
 			}
 		}
@@ -298,5 +316,5 @@ func sectionError(p *plantfile.Plant, err error) error {
 	if field == "process" {
 		msg = err.Error()
 	}
-	return plantfile.ErrorList{{Pos: pos, Field: field, Msg: msg}}
+	return inputerr.List{{Pos: pos, Field: field, Msg: msg}}
 }

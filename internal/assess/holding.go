@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
-	"pasval/internal/props"
 	"pasval/internal/units"
 	"pasval/lethality"
 )
@@ -80,27 +80,21 @@ type Lethality struct {
 	EquivalentTimeS      float64 `json:"equivalent_time_s"` // at the organism's D_temperature
 	DAtSetpointS         float64 `json:"D_at_setpoint_s"`
 	Pass                 bool    `json:"pass"`
+	// Along is the accumulated log reduction at AlongStations+1 stations from
+	// the tube inlet to its outlet, for the record's plot.
+	Along []lethality.ProfilePoint `json:"-"`
 }
+
+// AlongStations is the number of steps of Lethality.Along.
+const AlongStations = 100
 
 // holdDensity is the product density at the hold setpoint: as entered, or
 // Choi–Okos at the setpoint.
 func holdDensity(p *plantfile.Plant, pp ProductProps) float64 {
 	if c := p.Product.Composition; c != nil && !p.Product.Density.Set {
-		comp := props.Composition{Water: c.Water, Protein: c.Protein, Fat: c.Fat, Carbohydrate: c.Carbohydrate, Fiber: c.Fiber, Ash: c.Ash}
-		return comp.Density(p.Process.HoldSetpoint.SI)
+		return choiOkos(c).Density(p.Process.HoldSetpoint.SI)
 	}
 	return pp.Density
-}
-
-// fmtT formats a temperature in the plant file's own units, for messages.
-func fmtT(c float64, sys units.System) string {
-	u := units.DisplayUnit(units.Temperature, sys)
-	return fmt.Sprintf("%.1f %s", units.FromSI(c, units.Temperature, u), u)
-}
-
-func fmtDT(k float64, sys units.System) string {
-	u := units.DisplayUnit(units.TemperatureDifference, sys)
-	return fmt.Sprintf("%.1f %s", units.FromSI(k, units.TemperatureDifference, u), u)
 }
 
 // MaxTubeHeatLoss is the largest temperature drop along the holding tube that
@@ -108,160 +102,59 @@ func fmtDT(k float64, sys units.System) string {
 // means a typo in the heat-loss inputs.
 const MaxTubeHeatLoss = 10.0
 
-// runHolding computes the holding tube and lethality; it returns the product
-// temperature the heating section must deliver at the normal rate.
+// runHolding computes the holding tube and lethality into res (gather,
+// evaluate, then the JSON contract); it returns the product temperature the
+// heating section must deliver at the normal rate.
 func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	h := p.HoldingTube
-	sys := p.System
-	setpoint := p.Process.HoldSetpoint.SI
-	tube := lethality.Tube{Length: h.Length.SI}
-	if h.SanitaryTube.Set {
-		s, _ := lethality.LookupSanitaryTube(h.SanitaryTube.SI)
-		tube.InnerDiameter, tube.OuterDiameter = s.Inner(), s.Outer
-	} else {
-		tube.InnerDiameter = h.InnerDiameter.SI
+	in := GatherHolding(p, res.Product)
+	ev, err := EvaluateHolding(in)
+	if err != nil {
+		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%v", err)}
 	}
-	if h.OuterDiameter.Set {
-		tube.OuterDiameter = h.OuterDiameter.SI
-	}
-	if h.Rise.Set {
-		tube.Rise = h.Rise.SI
-	}
-	rho := holdDensity(p, res.Product)
-	flow := lethality.Flow{Volumetric: res.Product.MaxMassFlow / rho, Density: rho}
+	tube, hyd := ev.Tube, ev.Hyd
 	out := &HoldingTube{InnerDiameterM: tube.InnerDiameter, OuterDiameterM: tube.OuterDiameter, LengthM: tube.Length,
-		VolumeL: tube.Volume() * 1e3, MaxFlowM3s: flow.Volumetric, DensityKgM3: rho, OutletTemperatureC: setpoint, Rows: []RowOut{}}
-
-	var rheo lethality.Rheology
-	if pl := p.Product.PowerLaw; pl != nil {
-		rheo = lethality.PowerLaw{N: pl.FlowIndex, K: pl.Consistency.SI}
-	} else {
-		pts := make([]props.ViscosityPoint, len(p.Product.Viscosity))
-		for i, v := range p.Product.Viscosity {
-			pts[i] = props.ViscosityPoint{TempC: v.At.SI, Viscosity: v.Value.SI}
-		}
-		curve, _ := props.NewViscosityCurve(pts) // validated: points exist, distinct, positive
-		mu, extrapolated := curve.At(setpoint)
-		if extrapolated {
-			lo, hi := curve.Range()
-			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"the setpoint %s lies outside the entered viscosity points (%s to %s): the nearest point's viscosity is held; measure it at the holding temperature",
-				fmtT(setpoint, sys), fmtT(lo, sys), fmtT(hi, sys)))
-		}
-		rheo = lethality.Newtonian{Viscosity: mu}
-		out.ViscosityPas = mu
-	}
-	out.FlowIndex = rheo.FlowIndex()
-
-	hyd := tube.Hydraulics(flow, rheo, h.FastestToMean)
-	out.MeanVelocity, out.Reynolds, out.Regime = hyd.MeanVelocity, hyd.Reynolds, hyd.Regime.String()
-	out.FastestToMean, out.FastestToMeanOverridden = hyd.FastestToMean, hyd.Overridden
-	out.MinResidenceS, out.MeanResidenceS = hyd.MinResidence, hyd.MeanResidence
-	uMax := hyd.FastestToMean * hyd.MeanVelocity
-
-	cp := res.Product.SpecificHeat
-	profileAt := func(sp, massFlow float64) lethality.Profile {
-		if !h.OuterCoefficient.Set {
-			return lethality.Isothermal(sp, tube.Length)
-		}
-		return lethality.HeatLossProfile(sp, h.Ambient.SI, h.OuterCoefficient.SI, tube.OuterDiameter, massFlow, cp, tube.Length)
-	}
-	judged := profileAt(setpoint, res.Product.MaxMassFlow)
-	out.InletTemperatureC = judged.Inlet()
-	out.HeatingOutletC = profileAt(setpoint, res.Product.MassFlow).Inlet()
-	if loss := out.HeatingOutletC - setpoint; !(loss <= MaxTubeHeatLoss) {
-		return 0, plantfile.ErrorList{{Pos: h.OuterCoefficient.Pos, Field: "holding_tube.outer_coefficient",
-			Msg: fmt.Sprintf("with this heat loss the product would have to enter the holding tube %s above the setpoint to leave it at the setpoint; a holding tube loses well under %g K: check outer_coefficient, ambient and the flow",
-				kelvins(loss), MaxTubeHeatLoss)}}
-	}
-
-	if hyd.Regime != lethality.Turbulent {
-		res.Warnings = append(res.Warnings, fmt.Sprintf(
-			"flow in the holding tube is %s (Re %.0f), so the fastest particle moves at %.2f× the mean velocity: a holding-time test timed with water (turbulent) overstates this product's holding time (Dickerson et al. 1968: a tube timed at 26 s with water held ice-cream mix 21.9–23.5 s); time the tube with the product or as the regulator directs",
-			hyd.Regime, hyd.Reynolds, hyd.FastestToMean))
-	}
-
-	// Slope.
-	minSlope := lethality.DefaultMinSlope
-	if h.MinSlopeSet {
-		minSlope = h.MinSlope
-	}
-	out.MinSlope = minSlope
-	if h.Rise.Set {
+		VolumeL: tube.Volume() * 1e3, MaxFlowM3s: ev.Flow.Volumetric, DensityKgM3: in.Density, OutletTemperatureC: in.Setpoint,
+		ViscosityPas: ev.Viscosity, FlowIndex: ev.Rheology.FlowIndex(), Rows: []RowOut{}, MinSlope: in.MinSlope,
+		MeanVelocity: hyd.MeanVelocity, Reynolds: hyd.Reynolds, Regime: hyd.Regime.String(),
+		FastestToMean: hyd.FastestToMean, FastestToMeanOverridden: hyd.Overridden,
+		MinResidenceS: hyd.MinResidence, MeanResidenceS: hyd.MeanResidence,
+		InletTemperatureC: ev.Judged.Inlet(), HeatingOutletC: ev.AtRate.Inlet()}
+	if in.RiseGiven {
 		s := tube.Slope()
 		out.Slope = &s
-		res.Checks = append(res.Checks, Check{ID: "tube-slope", Required: minSlope, Actual: s, Unit: "slope", MarginUnit: "slope",
-			Limit: "min", Margin: s - minSlope, Pass: s >= minSlope-1e-12,
-			Note: "continuous upward slope of the holding tube (rise/length)"})
-	} else {
-		res.Warnings = append(res.Warnings, "holding_tube.rise is not given, so the tube's upward slope is not checked")
 	}
-
-	// Legal table.
-	if len(p.LegalMinimums) > 0 {
-		rows := make([]lethality.LegalRow, len(p.LegalMinimums))
-		for i, r := range p.LegalMinimums {
-			rows[i] = lethality.LegalRow{Temperature: r.Temperature.SI, Time: r.Time.SI}
-		}
-		v := lethality.JudgeLegal(rows, setpoint, hyd.MinResidence)
-		for _, r := range rows {
-			cap := 20 * flow.Volumetric
-			q := tube.MaxFlowFor(r.Time, rho, rheo, h.FastestToMean, cap)
-			out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= setpoint+1e-9,
-				RequiredLengthM: hyd.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= cap})
-		}
-		c := Check{ID: "holding-time", Unit: "s", MarginUnit: "s", Limit: "min", Actual: hyd.MinResidence}
+	for _, r := range in.Legal {
+		limit := 20 * ev.Flow.Volumetric
+		q := tube.MaxFlowFor(r.Time, in.Density, ev.Rheology, in.FastestToMean, limit)
+		out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= in.Setpoint+1e-9,
+			RequiredLengthM: hyd.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= limit})
+	}
+	if v := ev.Legal; v != nil {
 		if v.RowIndex < 0 {
-			coolest := rows[0]
-			for _, r := range rows {
-				if r.Temperature < coolest.Temperature {
-					coolest = r
-				}
-			}
-			c.Required, c.Margin = coolest.Time, hyd.MinResidence-coolest.Time
-			c.Note = fmt.Sprintf("the setpoint %s is below every legal row (coolest %s)", fmtT(setpoint, sys), fmtT(coolest.Temperature, sys))
-			out.Legal = &LegalOut{RowIndex: -1, TemperatureC: coolest.Temperature, TimeS: coolest.Time, MarginS: c.Margin, MarginPct: c.Margin / coolest.Time * 100}
+			c, _ := ev.Check(HoldingTime)
+			out.Legal = &LegalOut{RowIndex: -1, TemperatureC: c.Detail.RowTemperatureC, TimeS: c.Required, MarginS: c.Margin,
+				MarginPct: c.Margin / c.Required * 100}
 		} else {
-			c.Required, c.Margin, c.Pass = v.Row.Time, v.Margin, v.Met
-			c.Note = fmt.Sprintf("fastest particle at the sealed maximum flow against the %s row (%+.1f %%)", fmtT(v.Row.Temperature, sys), v.MarginPct)
-			out.Legal = &LegalOut{Met: v.Met, RowIndex: v.RowIndex, TemperatureC: v.Row.Temperature, TimeS: v.Row.Time, MarginS: v.Margin, MarginPct: v.MarginPct}
+			out.Legal = &LegalOut{Met: v.Met, RowIndex: v.RowIndex, TemperatureC: v.Row.Temperature, TimeS: v.Row.Time,
+				MarginS: v.Margin, MarginPct: v.MarginPct}
 			out.RequiredLengthM = hyd.RequiredLength(v.Applicable.Time)
 		}
-		res.Checks = append(res.Checks, c)
-		if acc := p.Process.SensorAccuracy; acc.Set && acc.SI > 0 {
-			for _, r := range rows {
-				if r.Temperature <= setpoint+1e-9 && setpoint-acc.SI <= r.Temperature+1e-9 {
-					res.Warnings = append(res.Warnings, fmt.Sprintf(
-						"the setpoint %s is within the diversion sensor's stated accuracy (±%s) of the %s legal row: a sensor reading high could let product forward below it",
-						fmtT(setpoint, sys), fmtDT(acc.SI, sys), fmtT(r.Temperature, sys)))
-				}
-			}
-		}
 	}
-
-	// Kinetics.
-	model := &TubeModel{Tube: tube, Rheology: rheo, Flow: flow, Hyd: hyd, Profile: judged, Override: h.FastestToMean,
-		ProfileAt: func(sp float64) lethality.Profile { return profileAt(sp, res.Product.MaxMassFlow) }}
-	for _, o := range p.Organisms {
-		org := lethality.Organism{Name: o.Name, D: o.D.SI, DTemperature: o.DTemperature.SI, Z: o.Z.SI, RequiredLogReduction: o.RequiredLogReduction}
-		model.Organisms = append(model.Organisms, org)
-		lr := lethality.LogReduction(judged, uMax, org)
-		l := Lethality{Organism: o.Name, LogReduction: lr, RequiredLogReduction: o.RequiredLogReduction,
-			EquivalentTimeS: lethality.EquivalentTime(judged, uMax, org.DTemperature, org.Z),
-			DAtSetpointS:    org.DAt(setpoint), Pass: lr >= o.RequiredLogReduction}
-		res.Lethality = append(res.Lethality, l)
-		if o.RequiredSet {
-			res.Checks = append(res.Checks, Check{ID: "log-reduction", Organism: o.Name, Required: o.RequiredLogReduction, Actual: lr,
-				Unit: "log", MarginUnit: "log", Limit: "min", Margin: lr - o.RequiredLogReduction, Pass: l.Pass,
-				Note: fmt.Sprintf("fastest particle at the sealed maximum flow; D %.4g s at %s, z %s",
-					o.D.SI, fmtT(o.DTemperature.SI, sys), fmtDT(o.Z.SI, sys))})
-		}
+	for i, org := range in.Organisms {
+		res.Lethality = append(res.Lethality, Lethality{Organism: org.Name, LogReduction: ev.LogRed[i],
+			RequiredLogReduction: org.RequiredLogReduction, EquivalentTimeS: ev.EquivTime[i], DAtSetpointS: org.DAt(in.Setpoint),
+			Pass:  NewCheck(LogReduction, org.RequiredLogReduction, ev.LogRed[i]).Pass,
+			Along: lethality.Accumulated(ev.Judged, ev.FastestPath, org, AlongStations)})
 	}
-	if h.PU {
-		pu := lethality.PasteurizationUnits(judged, uMax)
+	if in.PU {
+		pu := ev.PU
 		out.PasteurizationUnits = &pu
 	}
-	out.Model = model
+	res.Checks = append(res.Checks, ev.Checks...)
+	res.Warnings = append(res.Warnings, ev.Warnings...)
+	out.Model = &TubeModel{Tube: tube, Rheology: ev.Rheology, Flow: ev.Flow, Hyd: hyd, Profile: ev.Judged, Override: in.FastestToMean,
+		Organisms: in.Organisms, ProfileAt: func(sp float64) lethality.Profile { return in.profile(sp, in.MaxMassFlow) }}
 	res.HoldingTube = out
 	return out.HeatingOutletC, nil
 }
@@ -275,10 +168,7 @@ func regeneratorPressure(p *plantfile.Plant, res *Result) {
 	if pr.RequiredMargin.Set {
 		margin = pr.RequiredMargin.SI
 	}
-	diff := pr.PasteurizedMin.SI - pr.RawMax.SI
-	res.Checks = append(res.Checks, Check{ID: "regenerator-pressure", Required: margin, Actual: diff, Unit: "Pa", MarginUnit: "Pa",
-		Limit: "min", Margin: diff - margin, Pass: diff >= margin-1e-9,
-		Note: "pasteurized-side minimum pressure above raw-side maximum in the regenerator"})
+	res.Checks = append(res.Checks, NewCheck(RegeneratorPressure, margin, pr.PasteurizedMin.SI-pr.RawMax.SI))
 }
 
 func kelvins(k float64) string {

@@ -5,7 +5,6 @@ import (
 
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
-	"pasval/internal/units"
 )
 
 // Typical ranges for the sanity warnings. They are not limits: a value
@@ -28,30 +27,21 @@ const (
 
 // sanityWarnings flags entered or computed values outside what the trade sees.
 func sanityWarnings(p *plantfile.Plant, res *Result) {
-	sys := p.System
-	d := func(v float64, k units.Kind) string {
-		u := units.DisplayUnit(k, sys)
-		return fmt.Sprintf("%.4g %s", units.FromSI(v, k, u), u)
-	}
-	warn := func(format string, args ...any) { res.Warnings = append(res.Warnings, fmt.Sprintf(format, args...)) }
 	plates := func(name string, pl plantfile.Plates) {
 		if u := pl.UValue; u.Set && (u.SI > uMax || u.SI < uMin) {
-			warn("%s.u_value %s is outside what plate heat exchangers reach in this service (typically %s to %s); check the value and its unit",
-				name, u.Text, d(uMin, units.HeatTransferCoefficient), d(uMax, units.HeatTransferCoefficient))
+			res.warn(WarnUValue, name+".u_value", map[string]float64{"value_W_m2K": u.SI, "low_W_m2K": uMin, "high_W_m2K": uMax})
 		}
 		if a := pl.PlateArea; a.Set && (a.SI > plateAreaMax || a.SI < plateAreaMin) {
-			warn("%s.plate_area %s per plate is outside the usual %s to %s; check the value and its unit",
-				name, a.Text, d(plateAreaMin, units.Area), d(plateAreaMax, units.Area))
+			res.warn(WarnPlateArea, name+".plate_area", map[string]float64{"value_m2": a.SI, "low_m2": plateAreaMin, "high_m2": plateAreaMax})
 		}
 		if f := pl.Fouling; f.Set && f.SI > foulingMax {
-			warn("%s.fouling %s is far above the usual fouling resistances of plate heat exchangers (below 0.001 m²·K/W)", name, f.Text)
+			res.warn(WarnFouling, name+".fouling", map[string]float64{"value_m2K_W": f.SI, "high_m2K_W": foulingMax})
 		}
 	}
 	if p.Regeneration != nil {
 		plates("regeneration", p.Regeneration.Plates)
 		if p.Regeneration.RatioSet && p.Regeneration.Ratio > ratioMax {
-			warn("a regeneration ratio of %.1f %% is unusually high (plate regenerators commonly reach 80–94 %%); the plate count grows steeply near 100 %%",
-				p.Regeneration.Ratio*100)
+			res.warn(WarnRatioHigh, "regeneration.ratio", map[string]float64{"ratio": p.Regeneration.Ratio})
 		}
 	}
 	if p.Heating != nil {
@@ -60,36 +50,45 @@ func sanityWarnings(p *plantfile.Plant, res *Result) {
 	for i, c := range p.Cooling {
 		plates(fmt.Sprintf("cooling[%d]", i), c.Plates)
 	}
-	pr := p.Product
-	if pp := res.Product; pp.Density > 0 && (pp.Density < densityMin || pp.Density > densityMax) {
-		warn("the product density %s is outside the usual %s to %s for liquid foods; check the value and its unit",
-			d(pp.Density, units.Density), d(densityMin, units.Density), d(densityMax, units.Density))
+	productSanity(p, res)
+	if h := res.HoldingTube; h != nil {
+		if h.MinResidenceS > holdingTimeMax {
+			res.warn(WarnHoldingTimeLong, "", map[string]float64{"min_residence_s": h.MinResidenceS})
+		}
+		if h.MeanVelocity < tubeVelocityMin || h.MeanVelocity > tubeVelocityMax {
+			res.warn(WarnTubeVelocity, "", map[string]float64{"value_m_s": h.MeanVelocity, "low_m_s": tubeVelocityMin, "high_m_s": tubeVelocityMax})
+		}
+		if oc := p.HoldingTube.OuterCoefficient; oc.Set && oc.SI > outerCoefficientMax {
+			res.warn(WarnOuterCoefficient, "holding_tube.outer_coefficient", map[string]float64{"value_W_m2K": oc.SI})
+		}
 	}
-	if pp := res.Product; pp.SpecificHeat > 0 && (pp.SpecificHeat < cpMin || pp.SpecificHeat > cpMax) {
-		warn("the product specific heat %s is outside the usual %s to %s for liquid foods; check the value and its unit",
-			d(pp.SpecificHeat, units.SpecificHeat), d(cpMin, units.SpecificHeat), d(cpMax, units.SpecificHeat))
+}
+
+// productSanity flags product properties outside those of liquid foods.
+func productSanity(p *plantfile.Plant, res *Result) {
+	pp := res.Product
+	field := func(entered plantfile.Quantity, name string) string {
+		if entered.Set {
+			return "product." + name
+		}
+		return "product.composition"
 	}
-	for i, v := range pr.Viscosity {
+	if pp.Density > 0 && (pp.Density < densityMin || pp.Density > densityMax) {
+		res.warn(WarnDensity, field(p.Product.Density, "density"),
+			map[string]float64{"value_kg_m3": pp.Density, "low_kg_m3": densityMin, "high_kg_m3": densityMax})
+	}
+	if pp.SpecificHeat > 0 && (pp.SpecificHeat < cpMin || pp.SpecificHeat > cpMax) {
+		res.warn(WarnSpecificHeat, field(p.Product.SpecificHeat, "specific_heat"),
+			map[string]float64{"value_J_kgK": pp.SpecificHeat, "low_J_kgK": cpMin, "high_J_kgK": cpMax})
+	}
+	for i, v := range p.Product.Viscosity {
 		if !v.At.Set || !v.Value.Set {
 			continue
 		}
 		water, err := props.WaterViscosity(min(max(v.At.SI, 1), 150))
 		if err == nil && v.Value.SI < 0.9*water {
-			warn("product.viscosity[%d]: %s at %s is below water's %s at that temperature (IAPWS 2008); a liquid food is at least as viscous as water: check the value and its unit",
-				i, v.Value.Text, v.At.Text, d(water, units.Viscosity))
-		}
-	}
-	if h := res.HoldingTube; h != nil {
-		if h.MinResidenceS > holdingTimeMax {
-			warn("a fastest-particle holding time of %.0f s (%.1f min) is beyond what a continuous line holds (30 min is a vat hold); check the tube length, diameter and flow",
-				h.MinResidenceS, h.MinResidenceS/60)
-		}
-		if h.MeanVelocity < tubeVelocityMin || h.MeanVelocity > tubeVelocityMax {
-			warn("the mean velocity in the holding tube, %s/s, is outside the usual %s/s to %s/s; check the tube diameter and the flow",
-				d(h.MeanVelocity, units.Length), d(tubeVelocityMin, units.Length), d(tubeVelocityMax, units.Length))
-		}
-		if oc := p.HoldingTube.OuterCoefficient; oc.Set && oc.SI > outerCoefficientMax {
-			warn("holding_tube.outer_coefficient %s is above what still air gives a bare tube (typically 5–15 W/(m²·K)); check the value and its unit", oc.Text)
+			res.warn(WarnViscosityBelowWater, fmt.Sprintf("product.viscosity[%d].value", i),
+				map[string]float64{"value_Pa_s": v.Value.SI, "at_C": v.At.SI, "water_Pa_s": water})
 		}
 	}
 }

@@ -37,7 +37,7 @@ func SetpointTable(res *Result) []SetpointRow {
 			r.LogReductions = append(r.LogReductions, lethality.LogReduction(prof, uMax, o))
 		}
 		if len(rows) > 0 {
-			met := lethality.JudgeLegal(rows, sp, m.Hyd.MinResidence).Met
+			met := lethality.JudgeLegal(rows, sp, m.Hyd.MinResidence, Tolerance).Met
 			r.LegalMet = &met
 		}
 		out = append(out, r)

@@ -4,27 +4,29 @@ import (
 	"fmt"
 	"sort"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
+	"pasval/regen"
 )
 
 // PlatesOption is the line with a given number of regeneration plates.
 type PlatesOption struct {
-	AddedPlates            int      `json:"added_plates"`
-	Plates                 int      `json:"plates"`
-	RegenerationRatio      float64  `json:"regeneration_ratio"`
-	RawOutC                float64  `json:"raw_out_C"`         // raw product leaving regeneration
-	PasteurizedOutC        float64  `json:"pasteurized_out_C"` // pasteurized product leaving regeneration
-	HeatingDutyKW          float64  `json:"heating_duty_kW"`   // raw out → heater outlet
-	CoolingDutyKW          float64  `json:"cooling_duty_kW"`   // pasteurized out → outlet target
-	HeatingMediumRequiredC *float64 `json:"heating_medium_required_C"`
-	CoolingOutletC         *float64 `json:"cooling_outlet_C"`
-	HeatingSavedKW         float64  `json:"heating_saved_kW"`
-	CoolingSavedKW         float64  `json:"cooling_saved_kW"`
-	AnnualEnergySavedKWh   *float64 `json:"annual_energy_saved_kWh"` // heating + cooling; needs economics
-	AnnualCostSaved        *float64 `json:"annual_cost_saved"`
-	PaybackYears           *float64 `json:"payback_years"`
-	ChecksPass             bool     `json:"checks_pass"`
-	FailedChecks           []string `json:"failed_checks"`
+	AddedPlates            int       `json:"added_plates"`
+	Plates                 int       `json:"plates"`
+	RegenerationRatio      float64   `json:"regeneration_ratio"`
+	RawOutC                float64   `json:"raw_out_C"`         // raw product leaving regeneration
+	PasteurizedOutC        float64   `json:"pasteurized_out_C"` // pasteurized product leaving regeneration
+	HeatingDutyKW          float64   `json:"heating_duty_kW"`   // raw out → heater outlet
+	CoolingDutyKW          float64   `json:"cooling_duty_kW"`   // pasteurized out → outlet target
+	HeatingMediumRequiredC *float64  `json:"heating_medium_required_C"`
+	CoolingOutletC         *float64  `json:"cooling_outlet_C"`
+	HeatingSavedKW         float64   `json:"heating_saved_kW"`
+	CoolingSavedKW         float64   `json:"cooling_saved_kW"`
+	AnnualEnergySavedKWh   *float64  `json:"annual_energy_saved_kWh"` // heating + cooling; needs economics
+	AnnualCostSaved        *float64  `json:"annual_cost_saved"`
+	PaybackYears           *float64  `json:"payback_years"`
+	ChecksPass             bool      `json:"checks_pass"`
+	FailedChecks           []CheckID `json:"failed_checks"`
 }
 
 // WhatIf compares the line with more regeneration plates against its baseline.
@@ -43,11 +45,11 @@ const DefaultKneeFraction = 0.10
 
 // RegenerationNotRated is returned when the regenerator is sized, not rated.
 func regenerationNotRated(p *plantfile.Plant) error {
-	pos := plantfile.Pos{File: p.File, Line: 1, Column: 1}
+	pos := inputerr.Pos{File: p.File, Line: 1, Column: 1}
 	if p.Regeneration != nil {
 		pos = p.Regeneration.Pos
 	}
-	return plantfile.ErrorList{{Pos: pos, Field: "regeneration.plates",
+	return inputerr.List{{Pos: pos, Field: "regeneration.plates",
 		Msg: "the plates what-if needs the regenerator in rating mode: replace ratio with the installed plates (e.g. plates: 112)"}}
 }
 
@@ -97,7 +99,7 @@ func option(p *plantfile.Plant, added int, base *PlatesOption) (PlatesOption, er
 	if err != nil {
 		return PlatesOption{}, err
 	}
-	o := PlatesOption{AddedPlates: added, Plates: rg.Plates.Plates, ChecksPass: res.Pass, FailedChecks: []string{}}
+	o := PlatesOption{AddedPlates: added, Plates: rg.Plates.Plates, ChecksPass: res.Pass, FailedChecks: []CheckID{}}
 	c := res.Product.ProductCapacity
 	heatOut := p.Process.HoldSetpoint.SI
 	if res.HoldingTube != nil {
@@ -109,15 +111,15 @@ func option(p *plantfile.Plant, added int, base *PlatesOption) (PlatesOption, er
 	}
 	for _, s := range res.Sections {
 		switch {
-		case s.Name == "regeneration":
+		case s.Kind == regen.RegenerationSection:
 			o.RegenerationRatio, o.RawOutC, o.PasteurizedOutC = *res.RegenerationRatio, s.ProductOutC, s.OtherOutC
-		case s.Name == "heating" && s.MediumAvailableC != nil:
+		case s.Kind == regen.HeatingSection && s.MediumAvailableC != nil:
 			v := s.OtherInC
 			o.HeatingMediumRequiredC = &v
 		}
 	}
 	for _, ch := range res.Checks {
-		if ch.ID == "cooling-outlet" {
+		if ch.ID == CoolingOutlet {
 			v := ch.Actual
 			o.CoolingOutletC = &v
 		}

@@ -141,3 +141,12 @@ func mustRead(t *testing.T, path string) []byte {
 	}
 	return b
 }
+
+func mustReadB(b *testing.B, path string) []byte {
+	b.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return data
+}

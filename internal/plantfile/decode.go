@@ -9,6 +9,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/units"
 )
 
@@ -16,30 +17,34 @@ import (
 // every error rather than stopping at the first.
 type decoder struct {
 	file   string
-	errs   ErrorList
+	errs   inputerr.List
 	inputs []Input
+	// consulted holds the table paths the decoding looked up (tests check
+	// that every field of the table is decoded).
+	consulted map[string]bool
 }
 
 const maxErrors = 50
 
-func (d *decoder) pos(n *yaml.Node) Pos {
+func (d *decoder) pos(n *yaml.Node) inputerr.Pos {
 	if n == nil {
-		return Pos{File: d.file, Line: 1, Column: 1}
+		return inputerr.Pos{File: d.file, Line: 1, Column: 1}
 	}
-	return Pos{File: d.file, Line: n.Line, Column: n.Column}
+	return inputerr.Pos{File: d.file, Line: n.Line, Column: n.Column}
 }
 
 func (d *decoder) errorf(n *yaml.Node, field, format string, args ...any) {
 	if len(d.errs) >= maxErrors {
 		return
 	}
-	d.errs = append(d.errs, &Error{Pos: d.pos(n), Field: field, Msg: fmt.Sprintf(format, args...)})
+	d.errs = append(d.errs, &inputerr.Error{Pos: d.pos(n), Field: field, Msg: fmt.Sprintf(format, args...)})
 }
 
 // object is a YAML mapping checked against its allowed keys.
 type object struct {
 	d      *decoder
-	path   string
+	path   string // concrete: "cooling[1]"
+	table  string // the same with list indices dropped: "cooling[]"
 	node   *yaml.Node
 	values map[string]*yaml.Node
 	keys   map[string]*yaml.Node
@@ -55,14 +60,20 @@ func join(path, key string) string {
 	return path + "." + key
 }
 
-// object checks that n is a mapping whose keys are all allowed and unique.
-// It returns nil (after recording an error) when n is not a mapping.
-func (d *decoder) object(n *yaml.Node, path string, allowed ...string) *object {
+// object checks that n is a mapping whose keys are all allowed (the field
+// table's children of path) and unique. It returns nil (after recording an
+// error) when n is not a mapping.
+func (d *decoder) object(n *yaml.Node, path string) *object {
+	allowed := allowedKeys(tablePath(path))
+	if len(allowed) == 0 {
+		panic(panicPrefix + "no fields in the table under " + path)
+	}
 	if n.Kind != yaml.MappingNode {
 		d.errorf(n, path, "expected a mapping of %s, found %s", strings.Join(allowed, ", "), describe(n))
 		return nil
 	}
-	o := &object{d: d, path: path, node: n, values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}, suggested: map[string]bool{}}
+	o := &object{d: d, path: path, table: listIndex.ReplaceAllString(path, "[]"), node: n,
+		values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}, suggested: map[string]bool{}}
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, v := n.Content[i], n.Content[i+1]
 		if k.Kind != yaml.ScalarNode {
@@ -113,12 +124,27 @@ func describe(n *yaml.Node) string {
 
 func (o *object) has(key string) bool { return o != nil && o.values[key] != nil }
 
+// field is the table's entry for a key of this mapping. Decoding a key the
+// table lacks is a programming error.
+func (o *object) field(key string) Field {
+	f, ok := byPath[join(o.table, key)]
+	if !ok {
+		panic(panicPrefix + "decoding a key that is not in the field table: " + join(o.table, key))
+	}
+	if o.d.consulted != nil {
+		o.d.consulted[f.Path] = true
+	}
+	return f
+}
+
 // scalar returns the key's scalar text; ok is false (with an error recorded
-// when required) if it is absent, empty or not a scalar.
-func (o *object) scalar(key string, required bool, expect string) (string, *yaml.Node, bool) {
+// when the table says the key is required) if it is absent, empty or not a
+// scalar.
+func (o *object) scalar(key string, expect string) (string, *yaml.Node, bool) {
 	if o == nil {
 		return "", nil, false
 	}
+	required := o.field(key).Required
 	v := o.values[key]
 	f := join(o.path, key)
 	if v == nil {
@@ -134,14 +160,24 @@ func (o *object) scalar(key string, required bool, expect string) (string, *yaml
 	return v.Value, v, true
 }
 
-func (o *object) text(key string, required bool) string {
-	s, _, _ := o.scalar(key, required, "text")
+func (o *object) text(key string) string {
+	s, _, _ := o.scalar(key, "text")
 	return strings.TrimSpace(s)
 }
 
-// quantity reads "number unit" of the given kind.
-func (o *object) quantity(key string, k units.Kind, required bool) Quantity {
-	s, n, ok := o.scalar(key, required, fmt.Sprintf("%s with its unit, e.g. %s", units.Article(k.Name), k.Example))
+// quantity reads "number unit" of the kind the table gives the key.
+func (o *object) quantity(key string) Quantity {
+	if o == nil {
+		return Quantity{}
+	}
+	k := o.field(key).Unit
+	return o.quantityOf(key, k)
+}
+
+// quantityOf reads "number unit" of kind k (a consistency index, whose kind
+// depends on the flow index).
+func (o *object) quantityOf(key string, k units.Kind) Quantity {
+	s, n, ok := o.scalar(key, fmt.Sprintf("%s with its unit, e.g. %s", units.Article(k.Name), k.Example))
 	if !ok {
 		return Quantity{}
 	}
@@ -171,35 +207,12 @@ const (
 )
 
 func (d *decoder) record(field string, q Quantity, k units.Kind) {
-	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: siUnit(k)})
-}
-
-func siUnit(k units.Kind) string {
-	switch k.Name {
-	case units.Temperature.Name:
-		return "°C"
-	case units.VolumeFlow.Name:
-		return "m³/s"
-	case units.MassFlow.Name:
-		return "kg/s"
-	case units.Dimensionless.Name:
-		return "1"
-	}
-	if strings.HasPrefix(k.Name, "consistency") {
-		return "Pa·sⁿ"
-	}
-	si := map[string]string{
-		units.TemperatureDifference.Name: "K", units.Length.Name: "m", units.Area.Name: "m²",
-		units.Volume.Name: "m³", units.Time.Name: "s", units.Pressure.Name: "Pa", units.Density.Name: "kg/m³",
-		units.SpecificHeat.Name: "J/(kg·K)", units.Viscosity.Name: "Pa·s", units.HeatTransferCoefficient.Name: "W/(m²·K)",
-		units.FoulingResistance.Name: "m²·K/W", units.ThermalConductivity.Name: "W/(m·K)", units.Power.Name: "W",
-	}
-	return si[k.Name]
+	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit})
 }
 
 // flowRate reads a product or medium rate, volumetric or by mass.
-func (o *object) flowRate(key string, required bool) FlowRate {
-	s, n, ok := o.scalar(key, required, "a flow with its unit, e.g. 10000 L/h, 44 gpm or 10300 kg/h")
+func (o *object) flowRate(key string) FlowRate {
+	s, n, ok := o.scalar(key, "a flow with its unit, e.g. 10000 L/h, 44 gpm or 10300 kg/h")
 	if !ok {
 		return FlowRate{}
 	}
@@ -219,8 +232,8 @@ func (o *object) flowRate(key string, required bool) FlowRate {
 }
 
 // number reads a plain number (a fraction may be written "92 %").
-func (o *object) number(key string, required bool) (float64, Pos, bool) {
-	s, n, ok := o.scalar(key, required, "a number")
+func (o *object) number(key string) (float64, inputerr.Pos, bool) {
+	s, n, ok := o.scalar(key, "a number")
 	if !ok {
 		return 0, o.d.pos(n), false
 	}
@@ -234,37 +247,46 @@ func (o *object) number(key string, required bool) (float64, Pos, bool) {
 	return v.SI, o.d.pos(n), true
 }
 
-// integer reads a whole number ≥ 1.
-func (o *object) integer(key string, required bool) (int, Pos, bool) {
-	s, n, ok := o.scalar(key, required, "a whole number")
+// integer reads a whole number in the table's range.
+func (o *object) integer(key string) (int, inputerr.Pos, bool) {
+	s, n, ok := o.scalar(key, "a whole number")
 	if !ok {
 		return 0, o.d.pos(n), false
 	}
+	f := o.field(key)
 	i, err := strconv.Atoi(strings.TrimSpace(s))
-	if err != nil || i < 1 || i > 100000 {
-		o.d.errorf(n, join(o.path, key), "expected a whole number from 1 to 100000, found %q", s)
+	if err != nil || float64(i) < f.Min || float64(i) > f.Max {
+		o.d.errorf(n, join(o.path, key), "expected a whole number from %g to %g, found %q", f.Min, f.Max, s)
 		return 0, o.d.pos(n), false
 	}
 	o.d.inputs = append(o.d.inputs, Input{Field: join(o.path, key), Text: s, SI: float64(i), SIUnit: "1"})
 	return i, o.d.pos(n), true
 }
 
-func (o *object) sub(key string, required bool, allowed ...string) *object {
+// sub is the mapping under key, or nil when it is absent (an error when the
+// table says it is required) or not a mapping.
+func (o *object) sub(key string) *object {
 	if o == nil {
 		return nil
 	}
+	f := o.field(key)
 	v := o.values[key]
 	if v == nil {
-		if required && !o.suggested[key] {
-			o.d.errorf(o.node, join(o.path, key), "missing; expected a mapping of %s", strings.Join(allowed, ", "))
+		if f.Required && !o.suggested[key] {
+			o.d.errorf(o.node, join(o.path, key), "missing; expected a mapping of %s", strings.Join(allowedKeys(f.Path), ", "))
 		}
 		return nil
 	}
-	return o.d.object(v, join(o.path, key), allowed...)
+	return o.d.object(v, join(o.path, key))
 }
 
+// list is the items of the list under key (each to be read with d.object).
 func (o *object) list(key string) []*yaml.Node {
-	if o == nil || o.values[key] == nil {
+	if o == nil {
+		return nil
+	}
+	o.field(key)
+	if o.values[key] == nil {
 		return nil
 	}
 	v := o.values[key]
@@ -334,7 +356,7 @@ func editDistance(a, b string) int {
 }
 
 // sortErrors orders errors by position so the first one shown is the first in the file.
-func sortErrors(l ErrorList) {
+func sortErrors(l inputerr.List) {
 	sort.SliceStable(l, func(i, j int) bool {
 		if l[i].Pos.Line != l[j].Pos.Line {
 			return l[i].Pos.Line < l[j].Pos.Line

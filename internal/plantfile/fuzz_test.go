@@ -10,11 +10,12 @@ import (
 	"testing"
 
 	"pasval/internal/assess"
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 )
 
 // FuzzLoad runs any bytes through the whole reading pipeline (parse,
-// validate, compute). Invariants: no panic; a refusal is an ErrorList whose
+// validate, compute). Invariants: no panic; a refusal is an inputerr.List whose
 // entries name the file and a line ≥ 1 with a message; an accepted plant
 // computes or is refused with a positioned error.
 func FuzzLoad(f *testing.F) {
@@ -37,7 +38,7 @@ func FuzzLoad(f *testing.F) {
 				return
 			}
 		}
-		list, ok := err.(plantfile.ErrorList)
+		list, ok := err.(inputerr.List)
 		if !ok || len(list) == 0 {
 			t.Fatalf("error is not a positioned list: %T %v", err, err)
 		}

@@ -3,7 +3,7 @@
 //
 //	plant, err := plantfile.Load("line2.yaml")   // parse, then validate
 //	if err != nil {
-//		// err is an ErrorList: each entry has file:line:column, the field path
+//		// err is an inputerr.List: each entry has file:line:column, the field path
 //		// and what was expected.
 //	}
 //
@@ -15,53 +15,20 @@
 package plantfile
 
 import (
+	"errors"
 	"fmt"
-	"strings"
+	"math"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/units"
 )
-
-// Pos is a place in a plant file.
-type Pos struct {
-	File         string
-	Line, Column int
-}
-
-func (p Pos) String() string {
-	return fmt.Sprintf("%s:%d:%d", p.File, p.Line, p.Column)
-}
-
-// Error is one problem in a plant file, like csv.ParseError.
-type Error struct {
-	Pos   Pos
-	Field string // dotted path such as "cooling[1].medium_inlet"; empty for the whole file
-	Msg   string
-}
-
-func (e *Error) Error() string {
-	if e.Field == "" {
-		return fmt.Sprintf("%s: %s", e.Pos, e.Msg)
-	}
-	return fmt.Sprintf("%s: %s: %s", e.Pos, e.Field, e.Msg)
-}
-
-// ErrorList is every problem found in one file, in file order.
-type ErrorList []*Error
-
-func (l ErrorList) Error() string {
-	msgs := make([]string, len(l))
-	for i, e := range l {
-		msgs[i] = e.Error()
-	}
-	return strings.Join(msgs, "\n")
-}
 
 // Quantity is an entered value with its unit, converted to SI.
 type Quantity struct {
 	SI     float64 // SI value; temperature points in °C
 	Text   string  // as written in the file
 	System units.System
-	Pos    Pos
+	Pos    inputerr.Pos
 	Set    bool // false when the field was absent
 }
 
@@ -102,7 +69,7 @@ type Economics struct {
 	HeatPricePerKWh       float64 // per kWh of heat delivered to the heating medium
 	CoolingPricePerKWh    float64 // per kWh of heat removed by the cooling medium
 	PlateCost             float64 // per added plate, installed
-	Pos                   Pos
+	Pos                   inputerr.Pos
 }
 
 // RecordField is a free-text line for reports (site, line, product, …).
@@ -129,13 +96,34 @@ type Product struct {
 	Composition  *Composition
 	Viscosity    []ViscosityPoint // Newtonian points; empty when PowerLaw is set or none entered
 	PowerLaw     *PowerLaw
-	Pos          Pos
+	Pos          inputerr.Pos
 }
 
-// Composition is the product make-up by mass fraction.
+// Composition is the product make-up by mass fraction, as entered. The
+// reader owns it as plain data; assess converts it once for the Choi–Okos
+// correlations (internal/props).
 type Composition struct {
 	Water, Protein, Fat, Carbohydrate, Fiber, Ash float64
-	Pos                                           Pos
+	Pos                                           inputerr.Pos
+}
+
+// Sum is the total of the mass fractions.
+func (c Composition) Sum() float64 {
+	return c.Water + c.Protein + c.Fat + c.Carbohydrate + c.Fiber + c.Ash
+}
+
+// validate checks that every fraction is in [0, 1] and that they sum to 1
+// within 0.5 percentage points.
+func (c Composition) validate() error {
+	for _, v := range []float64{c.Water, c.Protein, c.Fat, c.Carbohydrate, c.Fiber, c.Ash} {
+		if !(v >= 0 && v <= 1) {
+			return errors.New("each mass fraction must be between 0 and 1")
+		}
+	}
+	if s := c.Sum(); math.Abs(s-1) > 0.005 {
+		return fmt.Errorf("mass fractions sum to %.4f; they must sum to 1 (±0.005)", s)
+	}
+	return nil
 }
 
 // ViscosityPoint is one Newtonian viscosity measurement.
@@ -148,14 +136,14 @@ type ViscosityPoint struct {
 type PowerLaw struct {
 	FlowIndex   float64  // n, 0 < n ≤ 1.5
 	Consistency Quantity // K, Pa·sⁿ
-	Pos         Pos
+	Pos         inputerr.Pos
 }
 
 // Flow holds the product rates. Each is volumetric or by mass as entered.
 type Flow struct {
 	Rate    FlowRate // normal rate; defaults to MaxRate
 	MaxRate FlowRate // sealed maximum; defaults to Rate
-	Pos     Pos
+	Pos     inputerr.Pos
 }
 
 // FlowRate is a product rate, volumetric or by mass.
@@ -171,7 +159,7 @@ type Process struct {
 	OutletTarget Quantity // °C, optional unless cooling is described
 	// SensorAccuracy is the diversion sensor's stated accuracy (a difference, K), optional.
 	SensorAccuracy Quantity
-	Pos            Pos
+	Pos            inputerr.Pos
 }
 
 // Arrangement is "counterflow" or "cocurrent".
@@ -185,11 +173,11 @@ const (
 // Plates describes a plate pack.
 type Plates struct {
 	Arrangement Arrangement
-	Plates      int      // 0: sizing mode
-	PlatesPos   Pos      // where plates was written
-	PlateArea   Quantity // m² per thermal plate
-	UValue      Quantity // W/(m²·K)
-	Fouling     Quantity // m²·K/W, optional: 1/U_eff = 1/U + R_f
+	Plates      int          // 0: sizing mode
+	PlatesPos   inputerr.Pos // where plates was written
+	PlateArea   Quantity     // m² per thermal plate
+	UValue      Quantity     // W/(m²·K)
+	Fouling     Quantity     // m²·K/W, optional: 1/U_eff = 1/U + R_f
 }
 
 // Regeneration is the product-to-product section.
@@ -197,9 +185,9 @@ type Regeneration struct {
 	Plates
 	Ratio    float64 // sizing mode; 0 when rating
 	RatioSet bool
-	RatioPos Pos
+	RatioPos inputerr.Pos
 	Pressure *Pressure
-	Pos      Pos
+	Pos      inputerr.Pos
 }
 
 // Medium is a heating or cooling medium.
@@ -221,7 +209,7 @@ type MediumSide struct {
 // Heating is the heating section.
 type Heating struct {
 	MediumSide
-	Pos Pos
+	Pos inputerr.Pos
 }
 
 // CoolingStage is one cooling stage.
@@ -229,11 +217,15 @@ type CoolingStage struct {
 	MediumSide
 	Name       string
 	ProductOut Quantity // °C; sizing: required for all but the last stage
-	Pos        Pos
+	Pos        inputerr.Pos
 }
 
 // HoldingTube is the holding tube's description.
 type HoldingTube struct {
+	// Inner and Outer are the diameters the reader resolved, m: as entered, or
+	// from the sanitary size (Outer 0 when neither gives it).
+	Inner, Outer float64
+
 	InnerDiameter    Quantity // m (or from SanitaryTube)
 	SanitaryTube     Quantity // nominal size, m; OD = nominal
 	OuterDiameter    Quantity // m, optional (needed for heat loss unless SanitaryTube is given)
@@ -245,7 +237,7 @@ type HoldingTube struct {
 	Ambient          Quantity
 	OuterCoefficient Quantity // W/(m²·K) on the outer surface
 	PU               bool     // report brewing pasteurization units
-	Pos              Pos
+	Pos              inputerr.Pos
 }
 
 // Organism is a target organism with its kinetics.
@@ -256,14 +248,14 @@ type Organism struct {
 	Z                    Quantity // K
 	RequiredLogReduction float64
 	RequiredSet          bool
-	Pos                  Pos
+	Pos                  inputerr.Pos
 }
 
 // LegalRow is one user-entered time–temperature minimum.
 type LegalRow struct {
 	Temperature Quantity
 	Time        Quantity
-	Pos         Pos
+	Pos         inputerr.Pos
 }
 
 // Pressure is the regenerator pressure check's inputs.
@@ -271,5 +263,5 @@ type Pressure struct {
 	RawMax         Quantity // Pa
 	PasteurizedMin Quantity // Pa
 	RequiredMargin Quantity // Pa; defaults to 1 psi
-	Pos            Pos
+	Pos            inputerr.Pos
 }

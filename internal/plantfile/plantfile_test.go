@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"pasval/internal/inputerr"
 	"pasval/internal/units"
 )
 
@@ -71,7 +72,7 @@ func TestParseGood(t *testing.T) {
 func TestErrorsAreCollectedInFileOrder(t *testing.T) {
 	bad := strings.Replace(strings.Replace(good, "rate: 36 m3/h", "rate: 36", 1), "density: 1030 kg/m3", "densty: 1030 kg/m3", 1)
 	_, err := Parse("bad.yaml", []byte(bad))
-	list, ok := err.(ErrorList)
+	list, ok := err.(inputerr.List)
 	if !ok || len(list) != 2 {
 		t.Fatalf("got %v", err)
 	}

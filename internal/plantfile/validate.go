@@ -3,15 +3,14 @@ package plantfile
 import (
 	"fmt"
 
-	"pasval/internal/props"
-	"pasval/lethality"
+	"pasval/internal/inputerr"
 )
 
 // Validate checks the rules that span fields, before any computation: that
 // temperatures are in the right order, that each section is in exactly one
 // mode, that flows are positive and that nothing asked for is physically
 // impossible by construction (a co-current regenerator above 50 %). It returns
-// an ErrorList or nil.
+// an inputerr.List or nil.
 func Validate(p *Plant) error {
 	v := &validator{}
 	v.product(p)
@@ -36,7 +35,7 @@ func Validate(p *Plant) error {
 		v.add(p.Process.Pos, "process.outlet_target", "missing; cooling is described, so give the product outlet target, e.g. 4 °C")
 	}
 	if (p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0) && !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
-		v.add(Pos{File: p.File, Line: 1, Column: 1}, "flow.rate", "missing; the heat-exchange sections need the product rate, e.g. flow: {rate: 10000 L/h}")
+		v.add(inputerr.Pos{File: p.File, Line: 1, Column: 1}, "flow.rate", "missing; the heat-exchange sections need the product rate, e.g. flow: {rate: 10000 L/h}")
 	}
 	v.holding(p)
 	if len(v.errs) == 0 {
@@ -52,11 +51,11 @@ func Validate(p *Plant) error {
 }
 
 type validator struct {
-	errs ErrorList
+	errs inputerr.List
 }
 
-func (v *validator) add(pos Pos, field, format string, args ...any) {
-	v.errs = append(v.errs, &Error{Pos: pos, Field: field, Msg: fmt.Sprintf(format, args...)})
+func (v *validator) add(pos inputerr.Pos, field, format string, args ...any) {
+	v.errs = append(v.errs, &inputerr.Error{Pos: pos, Field: field, Msg: fmt.Sprintf(format, args...)})
 }
 
 // positive checks an entered quantity is above zero.
@@ -72,9 +71,7 @@ func (v *validator) product(p *Plant) {
 	v.positive(pr.SpecificHeat, "product.specific_heat")
 	v.positive(pr.Conductivity, "product.conductivity")
 	if pr.Composition != nil {
-		c := props.Composition{Water: pr.Composition.Water, Protein: pr.Composition.Protein, Fat: pr.Composition.Fat,
-			Carbohydrate: pr.Composition.Carbohydrate, Fiber: pr.Composition.Fiber, Ash: pr.Composition.Ash}
-		if err := c.Validate(); err != nil {
+		if err := pr.Composition.validate(); err != nil {
 			v.add(pr.Composition.Pos, "product.composition", "%v", err)
 		}
 	} else {
@@ -162,7 +159,7 @@ func (v *validator) regeneration(p *Plant) {
 	}
 }
 
-func (v *validator) mediumSide(section string, pos Pos, m *MediumSide) {
+func (v *validator) mediumSide(section string, pos inputerr.Pos, m *MediumSide) {
 	v.plates(section, &m.Plates)
 	if m.MediumRate.Set && !(m.MediumRate.SI > 0) {
 		v.add(m.MediumRate.Pos, section+".medium_rate", "the flow must be greater than zero, found %s", m.MediumRate.Text)
@@ -224,7 +221,7 @@ func (v *validator) holding(p *Plant) {
 	h := p.HoldingTube
 	if h == nil {
 		if len(p.Organisms) > 0 || len(p.LegalMinimums) > 0 {
-			v.add(Pos{File: p.File, Line: 1, Column: 1}, "holding_tube", "missing; organisms and legal_minimums are judged in the holding tube, so describe it")
+			v.add(inputerr.Pos{File: p.File, Line: 1, Column: 1}, "holding_tube", "missing; organisms and legal_minimums are judged in the holding tube, so describe it")
 		}
 		return
 	}
@@ -234,7 +231,7 @@ func (v *validator) holding(p *Plant) {
 	case !h.InnerDiameter.Set && !h.SanitaryTube.Set:
 		v.add(h.Pos, "holding_tube.inner_diameter", "missing; give inner_diameter (e.g. 47.5 mm) or sanitary_tube (e.g. 2 in)")
 	case h.SanitaryTube.Set:
-		if _, ok := lethality.LookupSanitaryTube(h.SanitaryTube.SI); !ok {
+		if _, ok := LookupSanitaryTube(h.SanitaryTube.SI); !ok {
 			v.add(h.SanitaryTube.Pos, "holding_tube.sanitary_tube", "%s is not a listed sanitary size; listed: 1.5, 2, 2.5, 3, 4 and 6 in (or give inner_diameter)", h.SanitaryTube.Text)
 		}
 	}

@@ -7,6 +7,7 @@ import (
 	"pasval/internal/assess"
 	"pasval/internal/plantfile"
 	"pasval/internal/units"
+	"pasval/regen"
 )
 
 // Grid is a table's content: the terminal and the record lay it out their own way.
@@ -39,18 +40,23 @@ func SectionLabel(s assess.Section) string {
 
 // OtherStream names the stream on a section's other side.
 func OtherStream(p *plantfile.Plant, s assess.Section) string {
-	switch {
-	case s.Name == "regeneration":
+	switch s.Kind {
+	case regen.RegenerationSection:
 		return "pasteurized product"
-	case s.Name == "heating" && p.Heating != nil:
-		return p.Heating.Medium.Name
-	}
-	for _, c := range p.Cooling {
-		if c.Name == s.Stage {
-			return c.Medium.Name
+	case regen.HeatingSection:
+		if p.Heating != nil {
+			return p.Heating.Medium.Name
 		}
+		return ""
+	case regen.CoolingSection:
+		for _, c := range p.Cooling {
+			if c.Name == s.Stage {
+				return c.Medium.Name
+			}
+		}
+		return ""
 	}
-	return ""
+	panic(fmt.Sprintf("%sno other stream for section kind %v", panicPrefix, int(s.Kind)))
 }
 
 // DutyUnit is kW in SI and Btu/h in US units.
@@ -91,9 +97,9 @@ func Temperatures(res *assess.Result, d Display) Grid {
 // CheckLabel is a check's id, with the organism for log-reduction checks.
 func CheckLabel(c assess.Check) string {
 	if c.Organism != "" {
-		return c.ID + " (" + c.Organism + ")"
+		return string(c.ID) + " (" + c.Organism + ")"
 	}
-	return c.ID
+	return string(c.ID)
 }
 
 // Checks is the checks table: verdict, required (with ≥ or ≤), actual, margin, note.
@@ -108,7 +114,7 @@ func Checks(res *assess.Result, d Display) Grid {
 		if c.Limit == "max" {
 			op = "≤ "
 		}
-		g.add(CheckLabel(c), verdict, op+CheckValue(c.Required, c.Unit, d), CheckValue(c.Actual, c.Unit, d), CheckMargin(c, d), c.Note)
+		g.add(CheckLabel(c), verdict, op+CheckValue(c.Required, c.Unit, d), CheckValue(c.Actual, c.Unit, d), CheckMargin(c, d), CheckNote(c, d))
 	}
 	return g
 }
@@ -217,7 +223,11 @@ func ChecksText(o assess.PlatesOption) string {
 	if o.ChecksPass {
 		return "all pass"
 	}
-	return "FAIL: " + strings.Join(o.FailedChecks, ", ")
+	ids := make([]string, len(o.FailedChecks))
+	for i, id := range o.FailedChecks {
+		ids[i] = string(id)
+	}
+	return "FAIL: " + strings.Join(ids, ", ")
 }
 
 // SectionDetail is one section's full table: every quantity with its unit,

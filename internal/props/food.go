@@ -1,10 +1,5 @@
 package props
 
-import (
-	"fmt"
-	"math"
-)
-
 // Composition is a food's make-up by mass fraction (each 0–1, summing to 1).
 type Composition struct {
 	Water, Protein, Fat, Carbohydrate, Fiber, Ash float64
@@ -91,19 +86,4 @@ func (c Composition) Conductivity(tempC float64) float64 {
 		k += x[i] / poly(co[i].rho, tempC) / s * poly(co[i].k, tempC)
 	}
 	return k
-}
-
-// Validate checks that every fraction is in [0, 1] and that they sum to 1
-// within 0.5 percentage points.
-func (c Composition) Validate() error {
-	x, _ := c.parts()
-	for _, v := range x {
-		if !(v >= 0 && v <= 1) {
-			return fmt.Errorf("each mass fraction must be between 0 and 1")
-		}
-	}
-	if s := c.Sum(); math.Abs(s-1) > 0.005 {
-		return fmt.Errorf("mass fractions sum to %.4f; they must sum to 1 (±0.005)", s)
-	}
-	return nil
 }

@@ -37,6 +37,9 @@ func linear(k Kind, unit string) (scale, offset float64) {
 	if unit == "%" {
 		return 0.01, 0
 	}
+	if unit == "" && k.Dim == (Dim{}) {
+		return 1, 0
+	}
 	f, d, _, err := parseUnit(unit)
 	if err != nil || !sameDim(d, k.Dim) {
 		panic(fmt.Sprintf("%sunit %q does not fit %s", panicPrefix, unit, k.Name))
@@ -44,45 +47,11 @@ func linear(k Kind, unit string) (scale, offset float64) {
 	return f, 0
 }
 
-// DisplayUnit is the unit the tool prints a kind in, for each system.
+// DisplayUnit is the unit the tool prints a kind in, for each system ("" for
+// a plain number).
 func DisplayUnit(k Kind, s System) string {
-	si, us := displayUnits(k)
 	if s == US {
-		return us
+		return k.display[1]
 	}
-	return si
-}
-
-func displayUnits(k Kind) (si, us string) {
-	switch k.Name {
-	case Temperature.Name:
-		return "°C", "°F"
-	case TemperatureDifference.Name:
-		return "K", "°F"
-	case Length.Name:
-		return "m", "ft"
-	case Area.Name:
-		return "m²", "ft²"
-	case Volume.Name:
-		return "L", "gal"
-	case VolumeFlow.Name:
-		return "L/h", "gpm"
-	case MassFlow.Name:
-		return "kg/h", "lb/h"
-	case Time.Name:
-		return "s", "s"
-	case Pressure.Name:
-		return "kPa", "psi"
-	case Density.Name:
-		return "kg/m³", "lb/ft³"
-	case SpecificHeat.Name:
-		return "kJ/(kg·K)", "Btu/(lb·°F)"
-	case Viscosity.Name:
-		return "mPa·s", "cP"
-	case HeatTransferCoefficient.Name:
-		return "W/(m²·K)", "Btu/(h·ft²·°F)"
-	case Power.Name:
-		return "kW", "Btu/h"
-	}
-	panic(panicPrefix + "no display unit for " + k.Name)
+	return k.display[0]
 }

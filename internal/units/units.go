@@ -41,41 +41,76 @@ func (s System) String() string {
 	return "si"
 }
 
-// Kind names what a field holds; it fixes the dimension a unit must have.
+// Kind names what a field holds; it fixes the dimension a unit must have and
+// the units the tool writes it in. Every kind is made by newKind, which takes
+// all of them, so a new kind cannot be added half-wired: its SI unit (records)
+// and its display units in each system (tables) are part of its definition,
+// and TestEveryKindIsWired converts with each of them.
 type Kind struct {
 	Name    string // what the field holds, as used in messages
 	Dim     Dim
-	Example string // a valid entry, shown in error messages
-	point   bool   // temperature point (offset scale)
+	Example string    // a valid entry, shown in error messages
+	SIUnit  string    // the coherent SI unit, as the record's inputs table prints it
+	display [2]string // display units for SI and US output; "" for plain numbers
+	point   bool      // temperature point (offset scale)
+}
+
+// all holds every fixed kind, in definition order (see Kinds).
+var all []Kind
+
+// newKind defines a fixed kind: siDisplay and usDisplay are the units the
+// tool prints it in (each must convert with FromSI; a test checks them).
+func newKind(name string, dim Dim, example, siUnit, siDisplay, usDisplay string) Kind {
+	return define(Kind{Name: name, Dim: dim, Example: example, SIUnit: siUnit, display: [2]string{siDisplay, usDisplay}})
+}
+
+// newPointKind is newKind for a temperature point (an offset scale).
+func newPointKind(name string, dim Dim, example, siUnit, siDisplay, usDisplay string) Kind {
+	return define(Kind{Name: name, Dim: dim, Example: example, SIUnit: siUnit, display: [2]string{siDisplay, usDisplay}, point: true})
+}
+
+func define(k Kind) Kind {
+	all = append(all, k)
+	return k
 }
 
 var (
-	Temperature             = Kind{Name: "temperature", Dim: Dim{0, 0, 0, 1}, Example: "72 °C or 161.6 °F", point: true}
-	TemperatureDifference   = Kind{Name: "temperature difference", Dim: Dim{0, 0, 0, 1}, Example: "6.3 °C (a difference) or 11.3 °F"}
-	Length                  = Kind{Name: "length", Dim: Dim{0, 1, 0, 0}, Example: "12.5 m or 41 ft"}
-	Area                    = Kind{Name: "area", Dim: Dim{0, 2, 0, 0}, Example: "0.35 m2 or 3.8 ft2"}
-	Volume                  = Kind{Name: "volume", Dim: Dim{0, 3, 0, 0}, Example: "25 L or 6.6 gal"}
-	VolumeFlow              = Kind{Name: "volumetric flow", Dim: Dim{0, 3, -1, 0}, Example: "10000 L/h or 44 gpm"}
-	MassFlow                = Kind{Name: "mass flow", Dim: Dim{1, 0, -1, 0}, Example: "10300 kg/h or 22700 lb/h"}
-	Time                    = Kind{Name: "time", Dim: Dim{0, 0, 1, 0}, Example: "15 s or 30 min"}
-	Pressure                = Kind{Name: "pressure", Dim: Dim{1, -1, -2, 0}, Example: "150 kPa or 22 psi"}
-	Density                 = Kind{Name: "density", Dim: Dim{1, -3, 0, 0}, Example: "1030 kg/m3 or 64.3 lb/ft3"}
-	SpecificHeat            = Kind{Name: "specific heat", Dim: Dim{0, 2, -2, -1}, Example: "3.93 kJ/(kg*K) or 0.94 Btu/(lb*°F)"}
-	Viscosity               = Kind{Name: "dynamic viscosity", Dim: Dim{1, -1, -1, 0}, Example: "2.1 mPa*s or 2.1 cP"}
-	HeatTransferCoefficient = Kind{Name: "heat-transfer coefficient", Dim: Dim{1, 0, -3, -1}, Example: "3300 W/(m2*K) or 580 Btu/(h*ft2*°F)"}
-	FoulingResistance       = Kind{Name: "fouling resistance", Dim: Dim{-1, 0, 3, 1}, Example: "0.00005 m2*K/W"}
-	ThermalConductivity     = Kind{Name: "thermal conductivity", Dim: Dim{1, 1, -3, -1}, Example: "0.6 W/(m*K)"}
-	Power                   = Kind{Name: "power", Dim: Dim{1, 2, -3, 0}, Example: "150 kW or 512000 Btu/h"}
-	Dimensionless           = Kind{Name: "number", Dim: Dim{}, Example: "0.92 or 92 %"}
+	Temperature           = newPointKind("temperature", Dim{0, 0, 0, 1}, "72 °C or 161.6 °F", "°C", "°C", "°F")
+	TemperatureDifference = newKind("temperature difference", Dim{0, 0, 0, 1}, "6.3 °C (a difference) or 11.3 °F", "K", "K", "°F")
+	Length                = newKind("length", Dim{0, 1, 0, 0}, "12.5 m or 41 ft", "m", "m", "ft")
+	Area                  = newKind("area", Dim{0, 2, 0, 0}, "0.35 m2 or 3.8 ft2", "m²", "m²", "ft²")
+	Volume                = newKind("volume", Dim{0, 3, 0, 0}, "25 L or 6.6 gal", "m³", "L", "gal")
+	VolumeFlow            = newKind("volumetric flow", Dim{0, 3, -1, 0}, "10000 L/h or 44 gpm", "m³/s", "L/h", "gpm")
+	MassFlow              = newKind("mass flow", Dim{1, 0, -1, 0}, "10300 kg/h or 22700 lb/h", "kg/s", "kg/h", "lb/h")
+	Time                  = newKind("time", Dim{0, 0, 1, 0}, "15 s or 30 min", "s", "s", "s")
+	Pressure              = newKind("pressure", Dim{1, -1, -2, 0}, "150 kPa or 22 psi", "Pa", "kPa", "psi")
+	Density               = newKind("density", Dim{1, -3, 0, 0}, "1030 kg/m3 or 64.3 lb/ft3", "kg/m³", "kg/m³", "lb/ft³")
+	SpecificHeat          = newKind("specific heat", Dim{0, 2, -2, -1}, "3.93 kJ/(kg*K) or 0.94 Btu/(lb*°F)",
+		"J/(kg·K)", "kJ/(kg·K)", "Btu/(lb·°F)")
+	Viscosity               = newKind("dynamic viscosity", Dim{1, -1, -1, 0}, "2.1 mPa*s or 2.1 cP", "Pa·s", "mPa·s", "cP")
+	HeatTransferCoefficient = newKind("heat-transfer coefficient", Dim{1, 0, -3, -1}, "3300 W/(m2*K) or 580 Btu/(h*ft2*°F)",
+		"W/(m²·K)", "W/(m²·K)", "Btu/(h·ft²·°F)")
+	FoulingResistance = newKind("fouling resistance", Dim{-1, 0, 3, 1}, "0.00005 m2*K/W",
+		"m²·K/W", "m²·K/W", "h·ft²·°F/Btu")
+	ThermalConductivity = newKind("thermal conductivity", Dim{1, 1, -3, -1}, "0.6 W/(m*K)",
+		"W/(m·K)", "W/(m·K)", "Btu/(h·ft·°F)")
+	Power         = newKind("power", Dim{1, 2, -3, 0}, "150 kW or 512000 Btu/h", "W", "kW", "Btu/h")
+	Dimensionless = newKind("number", Dim{}, "0.92 or 92 %", "1", "", "")
 )
+
+// Kinds lists every fixed kind (ConsistencyKind makes the others).
+func Kinds() []Kind { return append([]Kind(nil), all...) }
 
 // ConsistencyKind is the kind of a power-law consistency index K with flow
 // index n, whose SI unit is Pa·sⁿ.
 func ConsistencyKind(n float64) Kind {
+	unit := fmt.Sprintf("Pa*s^%g", n)
 	return Kind{
 		Name:    fmt.Sprintf("consistency index (Pa*s^%g)", n),
 		Dim:     Dim{1, -1, n - 2, 0},
 		Example: fmt.Sprintf("0.35 Pa*s^%g", n),
+		SIUnit:  "Pa·sⁿ",
+		display: [2]string{unit, unit},
 	}
 }
 

@@ -157,3 +157,31 @@ func TestRoundTrip(t *testing.T) {
 		t.Errorf("72 °C = %g °F, want 161.6", got)
 	}
 }
+
+func TestEveryKindIsWired(t *testing.T) {
+	// Every kind has an SI unit for records and display units that convert:
+	// 1 display unit to SI and back is 1 (up to rounding), and the display unit
+	// has the kind's dimension (FromSI panics otherwise). Plain numbers print bare.
+	kinds := append(Kinds(), ConsistencyKind(0.65))
+	if len(kinds) < 17 {
+		t.Fatalf("only %d kinds", len(kinds))
+	}
+	for _, k := range kinds {
+		if k.SIUnit == "" || k.Example == "" || k.Name == "" {
+			t.Errorf("%q: SI unit %q, example %q", k.Name, k.SIUnit, k.Example)
+		}
+		for _, sys := range []System{SI, US} {
+			u := DisplayUnit(k, sys)
+			if u == "" && k.Dim != (Dim{}) {
+				t.Errorf("%s has no %v display unit", k.Name, sys)
+				continue
+			}
+			if got := FromSI(ToSI(1, k, u), k, u); math.Abs(got-1) > 1e-12 {
+				t.Errorf("%s in %q: round trip %g", k.Name, u, got)
+			}
+		}
+		if _, err := Parse("1 "+DisplayUnit(k, SI), k); err != nil && k.Dim != (Dim{}) {
+			t.Errorf("%s: its SI display unit does not parse: %v", k.Name, err)
+		}
+	}
+}

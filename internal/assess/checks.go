@@ -1,0 +1,126 @@
+package assess
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// CheckID names a check; scripts depend on these words, so they never change.
+type CheckID string
+
+const (
+	HoldingTime         CheckID = "holding-time"
+	LogReduction        CheckID = "log-reduction"
+	TubeSlope           CheckID = "tube-slope"
+	RegeneratorPressure CheckID = "regenerator-pressure"
+	HeatingMedium       CheckID = "heating-medium"
+	CoolingOutlet       CheckID = "cooling-outlet"
+)
+
+// Limit says how a check's actual value is judged against the required one.
+type Limit string
+
+const (
+	AtLeast Limit = "min" // actual ≥ required
+	AtMost  Limit = "max" // actual ≤ required
+)
+
+// CheckDef is a check's definition: the registry below is the one list of
+// checks, in the order they are printed.
+type CheckDef struct {
+	ID CheckID
+	// Holding is true for checks that judge the holding tube alone: 'pasval
+	// hold' shows these and decides its exit status by them.
+	Holding    bool
+	Limit      Limit
+	Unit       string // of Required and Actual: "°C", "s", "Pa", "slope", "log"
+	MarginUnit string // of Margin: "K" for temperatures, else Unit
+	// PassesWhen is the rule in words, for the README's list of checks.
+	PassesWhen string
+	// Note is the check's note when it carries no numbers; a note with
+	// numbers (from Check.Detail) is worded in internal/present instead.
+	Note string
+}
+
+// checkDefs is the registry, in print order: the holding-tube checks, then the
+// line's.
+var checkDefs = []CheckDef{
+	{TubeSlope, true, AtLeast, "slope", "slope", "(rise entered) rise/length ≥ `min_slope`",
+		"continuous upward slope of the holding tube (rise/length)"},
+	{HoldingTime, true, AtLeast, "s", "s",
+		"(legal rows entered) some row has temperature ≤ setpoint and time ≤ the fastest particle's time", ""},
+	{LogReduction, true, AtLeast, "log", "log", "(per organism with `required_log_reduction`) fastest-particle log reduction ≥ required", ""},
+	{HeatingMedium, false, AtLeast, "°C", "K",
+		"(heating in rating mode) the medium inlet needed by the installed plates ≤ the hottest available", ""},
+	{CoolingOutlet, false, AtMost, "°C", "K", "(a rated cooling stage) the product leaving the last stage ≤ `outlet_target`",
+		"product leaving the last cooling stage, against the outlet target"},
+	{RegeneratorPressure, false, AtLeast, "Pa", "Pa", "(pressure entered) pasteurized minimum − raw maximum ≥ required margin",
+		"pasteurized-side minimum pressure above raw-side maximum in the regenerator"},
+}
+
+// CheckDefs returns the registry, in print order.
+func CheckDefs() []CheckDef { return append([]CheckDef(nil), checkDefs...) }
+
+// DefOf is the definition of a check; an unknown id is a programming error.
+func DefOf(id CheckID) CheckDef {
+	for _, d := range checkDefs {
+		if d.ID == id {
+			return d
+		}
+	}
+	panic(fmt.Sprintf("%sno check definition for %q", panicPrefix, id))
+}
+
+const panicPrefix = "assess: "
+
+// Tolerance is the one rule by which a check passes at its limit: a check
+// passes when its margin is at least −Tolerance·|required|, so that a value
+// equal to its limit by construction (a tube sized to the exact legal length,
+// a stage cooling to exactly its target) is not failed by the last bits of
+// floating-point rounding. The legal table is judged with the same rule
+// (lethality.JudgeLegal is given this tolerance).
+const Tolerance = 1e-9
+
+// NewCheck judges actual against required by the check's definition:
+//
+//	margin = actual − required   (AtLeast)
+//	margin = required − actual   (AtMost)
+//	pass   ⇔ margin ≥ −Tolerance·|required|
+func NewCheck(id CheckID, required, actual float64) Check {
+	def := DefOf(id)
+	c := Check{ID: id, Required: required, Actual: actual, Unit: def.Unit, MarginUnit: def.MarginUnit, Limit: def.Limit}
+	switch def.Limit {
+	case AtLeast:
+		c.Margin = actual - required
+	case AtMost:
+		c.Margin = required - actual
+	default:
+		panic(fmt.Sprintf("%scheck %s has no limit", panicPrefix, id))
+	}
+	c.Pass = c.Margin >= -Tolerance*math.Abs(required)
+	return c
+}
+
+// IsHolding reports whether a check judges the holding tube alone.
+func (c Check) IsHolding() bool { return DefOf(c.ID).Holding }
+
+// README markers around the generated list of checks.
+const (
+	ChecksBegin = "<!-- checks: generated from internal/assess/checks.go by 'go test ./internal/assess/ -update'; do not edit by hand -->"
+	ChecksEnd   = "<!-- end of checks -->"
+)
+
+// ChecksTable is the registry as a Markdown table for the README.
+func ChecksTable() string {
+	var b strings.Builder
+	b.WriteString("| id | passes when | `hold` |\n|---|---|---|\n")
+	for _, d := range checkDefs {
+		hold := ""
+		if d.Holding {
+			hold = "yes"
+		}
+		fmt.Fprintf(&b, "| `%s` | %s | %s |\n", d.ID, d.PassesWhen, hold)
+	}
+	return b.String()
+}

@@ -1,0 +1,45 @@
+package assess
+
+// WarningCode names a warning; its words are made where output is made
+// (internal/present), from the code and the values.
+type WarningCode string
+
+const (
+	// Holding tube and kinetics.
+	WarnLaminarFlow           WarningCode = "laminar-flow"           // values: reynolds, fastest_to_mean
+	WarnViscosityExtrapolated WarningCode = "viscosity-extrapolated" // setpoint_C, lowest_C, highest_C
+	WarnSensorAccuracy        WarningCode = "setpoint-within-sensor-accuracy"
+	// WarnSensorAccuracy values: setpoint_C, accuracy_K, row_temperature_C.
+	WarnNoRise WarningCode = "no-rise" // no values
+
+	// Values outside what the trade sees (typical ranges in sanity.go).
+	WarnUValue              WarningCode = "u-value-unusual"         // value_W_m2K, low_W_m2K, high_W_m2K
+	WarnPlateArea           WarningCode = "plate-area-unusual"      // value_m2, low_m2, high_m2
+	WarnFouling             WarningCode = "fouling-high"            // value_m2K_W, high_m2K_W
+	WarnRatioHigh           WarningCode = "regeneration-ratio-high" // ratio
+	WarnDensity             WarningCode = "density-unusual"         // value_kg_m3, low_kg_m3, high_kg_m3
+	WarnSpecificHeat        WarningCode = "specific-heat-unusual"   // value_J_kgK, low_J_kgK, high_J_kgK
+	WarnViscosityBelowWater WarningCode = "viscosity-below-water"   // value_Pa_s, at_C, water_Pa_s
+	WarnHoldingTimeLong     WarningCode = "holding-time-long"       // min_residence_s
+	WarnTubeVelocity        WarningCode = "tube-velocity-unusual"   // value_m_s, low_m_s, high_m_s
+	WarnOuterCoefficient    WarningCode = "outer-coefficient-high"  // value_W_m2K
+)
+
+// WarningCodes lists every code (tests walk each through the wording).
+var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, WarnSensorAccuracy, WarnNoRise,
+	WarnUValue, WarnPlateArea, WarnFouling, WarnRatioHigh, WarnDensity, WarnSpecificHeat, WarnViscosityBelowWater,
+	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient}
+
+// Warning is something the user should look at that is not a failed check.
+// assess fills Code, Field and Values (SI, each key naming its unit);
+// Message is made by internal/present (in SI for JSON).
+type Warning struct {
+	Code    WarningCode        `json:"code"`
+	Field   string             `json:"field,omitempty"` // the plant-file path concerned, when there is one
+	Message string             `json:"message"`
+	Values  map[string]float64 `json:"values,omitempty"`
+}
+
+func (r *Result) warn(code WarningCode, field string, values map[string]float64) {
+	r.Warnings = append(r.Warnings, Warning{Code: code, Field: field, Values: values})
+}

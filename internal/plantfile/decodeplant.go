@@ -1,0 +1,290 @@
+package plantfile
+
+import (
+	"fmt"
+	"math"
+
+	"go.yaml.in/yaml/v3"
+
+	"pasval/internal/inputerr"
+	"pasval/internal/units"
+)
+
+// The decoding of each part of the plant file. Which keys exist, their kinds
+// of value and whether they are required come from the field table
+// (fields.go); these functions put the values where the model wants them.
+
+var recordKeys = []string{"site", "line", "product", "schedule", "prepared_by", "notes"}
+
+func (d *decoder) decodePlant(p *Plant, top *object) {
+	if rec := top.sub("record"); rec != nil {
+		for _, k := range recordKeys {
+			if v := rec.text(k); v != "" {
+				p.Record = append(p.Record, RecordField{Key: k, Value: v})
+			}
+		}
+	}
+	defer d.decodeEconomics(p, top)
+	defer d.decodeHolding(p, top)
+	if prod := top.sub("product"); prod != nil {
+		d.decodeProduct(&p.Product, prod)
+	}
+	if fl := top.sub("flow"); fl != nil {
+		p.Flow.Pos = d.pos(fl.node)
+		p.Flow.Rate = fl.flowRate("rate")
+		p.Flow.MaxRate = fl.flowRate("max_rate")
+		if !fl.has("rate") && !fl.has("max_rate") {
+			d.errorf(fl.node, "flow", "give rate, max_rate or both, e.g. rate: 10000 L/h")
+		}
+	}
+	if pr := top.sub("process"); pr != nil {
+		p.Process.SensorAccuracy = pr.quantity("sensor_accuracy")
+		p.Process.Pos = d.pos(pr.node)
+		p.Process.RawInlet = pr.quantity("raw_inlet")
+		p.Process.HoldSetpoint = pr.quantity("hold_setpoint")
+		p.Process.OutletTarget = pr.quantity("outlet_target")
+	}
+	if rg := top.sub("regeneration"); rg != nil {
+		r := &Regeneration{Pos: d.pos(rg.node)}
+		r.Plates = d.decodePlates(rg)
+		r.Ratio, r.RatioPos, r.RatioSet = rg.number("ratio")
+		if pr := rg.sub("pressure"); pr != nil {
+			r.Pressure = &Pressure{Pos: d.pos(pr.node),
+				RawMax:         pr.quantity("raw_max"),
+				PasteurizedMin: pr.quantity("pasteurized_min"),
+				RequiredMargin: pr.quantity("required_margin"),
+			}
+		}
+		p.Regeneration = r
+	}
+	if ht := top.sub("heating"); ht != nil {
+		p.Heating = &Heating{Pos: d.pos(ht.node), MediumSide: d.decodeMediumSide(ht)}
+	}
+	for i, n := range top.list("cooling") {
+		st := d.object(n, fmt.Sprintf("cooling[%d]", i))
+		if st == nil {
+			continue
+		}
+		c := CoolingStage{Pos: d.pos(n), MediumSide: d.decodeMediumSide(st)}
+		c.Name = st.text("name")
+		if c.Name == "" {
+			c.Name = fmt.Sprintf("stage %d", i+1)
+		}
+		c.ProductOut = st.quantity("product_out")
+		p.Cooling = append(p.Cooling, c)
+	}
+}
+
+func (d *decoder) decodeHolding(p *Plant, top *object) {
+	if ht := top.sub("holding_tube"); ht != nil {
+		h := &HoldingTube{Pos: d.pos(ht.node)}
+		h.InnerDiameter = ht.quantity("inner_diameter")
+		h.SanitaryTube = ht.quantity("sanitary_tube")
+		h.OuterDiameter = ht.quantity("outer_diameter")
+		h.Length = ht.quantity("length")
+		h.Rise = ht.quantity("rise")
+		h.MinSlope, _, h.MinSlopeSet = ht.number("min_slope")
+		h.FastestToMean, _, _ = ht.number("fastest_to_mean")
+		h.Ambient = ht.quantity("ambient")
+		h.OuterCoefficient = ht.quantity("outer_coefficient")
+		h.PU = ht.boolean("pu")
+		h.resolveDiameters()
+		p.HoldingTube = h
+	}
+	for i, n := range top.list("organisms") {
+		o := d.object(n, fmt.Sprintf("organisms[%d]", i))
+		if o == nil {
+			continue
+		}
+		org := Organism{Pos: d.pos(n), Name: o.text("name"),
+			D:            o.quantity("D"),
+			DTemperature: o.quantity("D_temperature"),
+			Z:            o.quantity("z"),
+		}
+		org.RequiredLogReduction, _, org.RequiredSet = o.number("required_log_reduction")
+		p.Organisms = append(p.Organisms, org)
+	}
+	for i, n := range top.list("legal_minimums") {
+		o := d.object(n, fmt.Sprintf("legal_minimums[%d]", i))
+		if o == nil {
+			continue
+		}
+		p.LegalMinimums = append(p.LegalMinimums, LegalRow{Pos: d.pos(n),
+			Temperature: o.quantity("temperature"),
+			Time:        o.quantity("time")})
+	}
+}
+
+func (d *decoder) decodeEconomics(p *Plant, top *object) {
+	ec := top.sub("economics")
+	if ec == nil {
+		return
+	}
+	e := &Economics{Pos: d.pos(ec.node), Currency: ec.text("currency")}
+	if e.Currency == "" {
+		e.Currency = ec.field("currency").Default
+	}
+	for _, f := range []struct {
+		key string
+		dst *float64
+		max float64
+	}{
+		{"operating_hours_per_year", &e.OperatingHoursPerYear, 8784},
+		{"heat_price_per_kWh", &e.HeatPricePerKWh, math.Inf(1)},
+		{"cooling_price_per_kWh", &e.CoolingPricePerKWh, math.Inf(1)},
+		{"plate_cost", &e.PlateCost, math.Inf(1)},
+	} {
+		v, pos, ok := ec.number(f.key)
+		if ok && !(v >= 0 && v <= f.max) {
+			what := "a price cannot be negative"
+			if f.key == "operating_hours_per_year" {
+				what = "expected 0 to 8784 hours a year"
+			}
+			d.errs = append(d.errs, inputerr.At(pos, "economics."+f.key, "%s, found %g", what, v))
+		}
+		*f.dst = v
+	}
+	p.Economics = e
+}
+
+func (d *decoder) decodeProduct(pr *Product, o *object) {
+	pr.Pos = d.pos(o.node)
+	pr.Name = o.text("name")
+	pr.Density = o.quantity("density")
+	pr.SpecificHeat = o.quantity("specific_heat")
+	pr.Conductivity = o.quantity("conductivity")
+	if c := o.sub("composition"); c != nil {
+		comp := &Composition{Pos: d.pos(c.node)}
+		for _, f := range []struct {
+			key string
+			dst *float64
+		}{{"water", &comp.Water}, {"protein", &comp.Protein}, {"fat", &comp.Fat}, {"carbohydrate", &comp.Carbohydrate},
+			{"fiber", &comp.Fiber}, {"ash", &comp.Ash}} {
+			*f.dst, _, _ = c.number(f.key)
+		}
+		pr.Composition = comp
+	}
+	for i, n := range o.list("viscosity") {
+		vp := d.object(n, fmt.Sprintf("product.viscosity[%d]", i))
+		if vp == nil {
+			continue
+		}
+		pr.Viscosity = append(pr.Viscosity, ViscosityPoint{At: vp.quantity("at"), Value: vp.quantity("value")})
+	}
+	if pl := o.sub("power_law"); pl != nil {
+		law := &PowerLaw{Pos: d.pos(pl.node)}
+		var ok bool
+		law.FlowIndex, _, ok = pl.number("flow_index")
+		if ok && !(law.FlowIndex > 0 && law.FlowIndex <= 1.5) {
+			d.errorf(pl.values["flow_index"], "product.power_law.flow_index", "the flow index n must be above 0 and at most 1.5, found %g",
+				law.FlowIndex)
+			ok = false
+		}
+		pl.field("consistency")
+		if ok {
+			law.Consistency = pl.quantityOf("consistency", units.ConsistencyKind(law.FlowIndex))
+		}
+		pr.PowerLaw = law
+	}
+}
+
+func (d *decoder) decodePlates(o *object) Plates {
+	var p Plates
+	p.Arrangement = Arrangement(o.enum("arrangement"))
+	p.Plates, p.PlatesPos, _ = o.integer("plates")
+	p.PlateArea = o.quantity("plate_area")
+	p.UValue = o.quantity("u_value")
+	p.Fouling = o.quantity("fouling")
+	return p
+}
+
+func (d *decoder) decodeMediumSide(o *object) MediumSide {
+	m := MediumSide{Plates: d.decodePlates(o)}
+	m.MediumInlet = o.quantity("medium_inlet")
+	m.MediumRate = o.flowRate("medium_rate")
+	if word, mo := o.wordOrMapping("medium"); mo != nil {
+		m.Medium.Name = mo.text("name")
+		m.Medium.Density = mo.quantity("density")
+		m.Medium.SpecificHeat = mo.quantity("specific_heat")
+	} else if word == "water" {
+		m.Medium = Medium{Name: "water", Water: true}
+	}
+	return m
+}
+
+// enum reads one of the table's words; absent, it is the table's default.
+func (o *object) enum(key string) string {
+	f := o.field(key)
+	a := o.text(key)
+	if a == "" {
+		return f.Default
+	}
+	for _, v := range f.Values {
+		if a == v {
+			return a
+		}
+	}
+	o.d.errorf(o.values[key], join(o.path, key), "expected %s, found %q%s", orList(f.Values), a, didYouMean(a, f.Values))
+	return f.Default
+}
+
+// boolean reads true or false; absent, false.
+func (o *object) boolean(key string) bool {
+	s, n, ok := o.scalar(key, "true or false")
+	if !ok {
+		return false
+	}
+	switch s {
+	case "true":
+		return true
+	case "false":
+	default:
+		o.d.errorf(n, join(o.path, key), "expected true or false, found %q", s)
+	}
+	return false
+}
+
+// wordOrMapping reads a key that is a word of the table's (water) or a
+// mapping of its children: it returns the word, or the mapping.
+func (o *object) wordOrMapping(key string) (string, *object) {
+	f := o.field(key)
+	v := o.values[key]
+	expect := fmt.Sprintf("%s, or a mapping {%s}", orList(f.Values), joinKeys(allowedKeys(f.Path)))
+	switch {
+	case v == nil:
+		o.d.errorf(o.node, join(o.path, key), "missing; expected %s", expect)
+	case v.Kind == yaml.ScalarNode:
+		for _, w := range f.Values {
+			if v.Value == w {
+				return w, nil
+			}
+		}
+		o.d.errorf(v, join(o.path, key), "expected %s, found %q", expect, v.Value)
+		// Reported; read on as the first word so that the other keys are checked.
+		return f.Values[0], nil
+	default:
+		return "", o.d.object(v, join(o.path, key))
+	}
+	return "", nil
+}
+
+func orList(words []string) string {
+	switch len(words) {
+	case 1:
+		return words[0]
+	case 2:
+		return words[0] + " or " + words[1]
+	}
+	return fmt.Sprint(words)
+}
+
+func joinKeys(keys []string) string {
+	out := ""
+	for i, k := range keys {
+		if i > 0 {
+			out += ", "
+		}
+		out += k
+	}
+	return out
+}

@@ -1,0 +1,289 @@
+package plantfile
+
+import (
+	"fmt"
+	"regexp"
+	"strings"
+
+	"pasval/internal/units"
+)
+
+// ValueKind is what a plant-file key holds.
+type ValueKind int
+
+const (
+	KindQuantity       ValueKind = iota + 1 // "number unit" of the field's units.Kind
+	KindFlow                                // a product or medium flow, volumetric or by mass
+	KindConsistency                         // power-law K in Pa·sⁿ, n from the sibling flow_index
+	KindNumber                              // a plain number; a fraction may be written "92 %"
+	KindInteger                             // a whole number from Min to Max
+	KindText                                // free text
+	KindBoolean                             // true or false
+	KindEnum                                // one of Values
+	KindMapping                             // a mapping of the child fields
+	KindList                                // a list of mappings of the child fields ("path[].key")
+	KindWaterOrMapping                      // the word water, or a mapping of the child fields
+)
+
+// String names the kind as the reference table does.
+func (k ValueKind) String() string {
+	switch k {
+	case KindQuantity:
+		return "quantity"
+	case KindFlow:
+		return "flow"
+	case KindConsistency:
+		return "quantity"
+	case KindNumber:
+		return "number"
+	case KindInteger:
+		return "whole number"
+	case KindText:
+		return "text"
+	case KindBoolean:
+		return "true or false"
+	case KindEnum:
+		return "one of"
+	case KindMapping:
+		return "mapping"
+	case KindList:
+		return "list"
+	case KindWaterOrMapping:
+		return "water or mapping"
+	}
+	panic(fmt.Sprintf("%sno name for value kind %d", panicPrefix, int(k)))
+}
+
+const panicPrefix = "plantfile: "
+
+// Field is one key of the plant file. The table of fields (Fields) is the one
+// definition of the file's keys: the reader's allowed keys and did-you-mean
+// hints, the JSON Schema (internal/schema), the README's reference table and
+// the record's inputs table all come from it.
+type Field struct {
+	// Path is the key's place, lists written "[]": "product.viscosity[].at",
+	// "cooling[].medium_inlet", "organisms[].D".
+	Path     string
+	Value    ValueKind
+	Unit     units.Kind // Quantity: what it measures
+	Values   []string   // Enum: the words allowed; WaterOrMapping: the word
+	Min, Max float64    // Integer: the range allowed
+	Default  string     // as a user would write it; "" when there is none
+	// Required is true when the key must be given whenever its parent is;
+	// rules that span keys (exactly one of ratio and plates) are in Validate
+	// and in OneOf.
+	Required bool
+	// OneOf lists keys of a Mapping of which exactly one must be given.
+	OneOf       []string
+	Description string
+	Example     string // one valid entry
+}
+
+// Key is the last element of the path.
+func (f Field) Key() string { return f.Path[strings.LastIndex(f.Path, ".")+1:] }
+
+// Parent is the path of the mapping or list the key sits in ("" at the top).
+func (f Field) Parent() string {
+	i := strings.LastIndex(f.Path, ".")
+	if i < 0 {
+		return ""
+	}
+	return strings.TrimSuffix(f.Path[:i], "[]")
+}
+
+// Container reports whether the field holds other fields.
+func (f Field) Container() bool {
+	return f.Value == KindMapping || f.Value == KindList || f.Value == KindWaterOrMapping
+}
+
+// Fields returns the table of plant-file keys in the order the documentation
+// gives them (parents before their children).
+func Fields() []Field { return append([]Field(nil), fields...) }
+
+var listIndex = regexp.MustCompile(`\[\d+\]`)
+
+// Lookup finds the field of a concrete path such as "organisms[0].D" or
+// "cooling[1].medium_inlet" (indices are dropped) or of a table path.
+func Lookup(path string) (Field, bool) {
+	f, ok := byPath[listIndex.ReplaceAllString(path, "[]")]
+	return f, ok
+}
+
+// Children are the fields directly inside the mapping or list at path (a
+// table path, "" for the top level), in table order.
+func Children(path string) []Field {
+	return children[path]
+}
+
+var (
+	fields   = table()
+	byPath   = map[string]Field{}
+	children = map[string][]Field{}
+)
+
+func init() {
+	for _, f := range fields {
+		if _, dup := byPath[f.Path]; dup {
+			panic(panicPrefix + "field listed twice: " + f.Path)
+		}
+		byPath[f.Path] = f
+		children[f.Parent()] = append(children[f.Parent()], f)
+	}
+}
+
+// tablePath turns a concrete path into the table path of the mapping it
+// names: "cooling[1]" → "cooling", "cooling[1].medium" → "cooling[].medium".
+func tablePath(concrete string) string {
+	return strings.TrimSuffix(listIndex.ReplaceAllString(concrete, "[]"), "[]")
+}
+
+// allowedKeys are the keys of the mapping at a table path, in table order.
+func allowedKeys(path string) []string {
+	var keys []string
+	for _, f := range children[path] {
+		keys = append(keys, f.Key())
+	}
+	return keys
+}
+
+// field builders: one line per key in table().
+
+func q(path string, k units.Kind, desc, example string) Field {
+	return Field{Path: path, Value: KindQuantity, Unit: k, Description: desc, Example: example}
+}
+
+func flow(path, desc, example string) Field {
+	return Field{Path: path, Value: KindFlow, Description: desc, Example: example}
+}
+
+func num(path, desc, example string) Field {
+	return Field{Path: path, Value: KindNumber, Description: desc, Example: example}
+}
+
+func text(path, desc, example string) Field {
+	return Field{Path: path, Value: KindText, Description: desc, Example: example}
+}
+
+func mapping(path, desc string) Field {
+	return Field{Path: path, Value: KindMapping, Description: desc}
+}
+
+func list(path, desc string) Field { return Field{Path: path, Value: KindList, Description: desc} }
+
+func (f Field) required() Field { f.Required = true; return f }
+
+func (f Field) byDefault(d string) Field { f.Default = d; return f }
+
+func (f Field) exactlyOne(keys ...string) Field { f.OneOf = keys; return f }
+
+// platePack is the plate-pack keys every heat-exchange section has.
+func platePack(section string) []Field {
+	return []Field{
+		{Path: section + ".arrangement", Value: KindEnum, Values: []string{string(Counterflow), string(Cocurrent)}, Default: "counterflow",
+			Description: "relative direction of the two streams; co-current cannot pass 50 % regeneration", Example: "counterflow"},
+		{Path: section + ".plates", Value: KindInteger, Min: 1, Max: 100000,
+			Description: "installed thermal plates: given, the section is rated (rating mode)", Example: "112"},
+		q(section+".plate_area", units.Area, "effective heat-transfer area per plate", "0.35 m2").required(),
+		q(section+".u_value", units.HeatTransferCoefficient, "overall heat-transfer coefficient", "3300 W/(m2*K)").required(),
+		q(section+".fouling", units.FoulingResistance, "fouling resistance: 1/U_eff = 1/U + R_f", "0.00005 m2*K/W").byDefault("0 m2*K/W"),
+	}
+}
+
+// mediumSide is the medium keys of heating and of each cooling stage.
+func mediumSide(section, inletMeaning string) []Field {
+	return []Field{
+		{Path: section + ".medium", Value: KindWaterOrMapping, Values: []string{"water"}, Required: true,
+			Description: "water (IAPWS-IF97 properties) or a medium with constant properties", Example: "water"},
+		text(section+".medium.name", "medium name", "propylene glycol 30 %").required(),
+		q(section+".medium.density", units.Density, "medium density", "1040 kg/m3").required(),
+		q(section+".medium.specific_heat", units.SpecificHeat, "medium specific heat", "3.7 kJ/(kg*K)").required(),
+		q(section+".medium_inlet", units.Temperature, inletMeaning, "77 °C").required(),
+		flow(section+".medium_rate", "medium flow, volumetric or by mass", "20000 L/h").required(),
+	}
+}
+
+// table is the plant file, key by key. Adding a key is one entry here and its
+// decoding in parse.go (and a rule in validate.go when it spans keys).
+func table() []Field {
+	var t []Field
+	add := func(fs ...Field) { t = append(t, fs...) }
+	add(mapping("record", "free text for the record's cover and page headers"))
+	for _, k := range [][3]string{{"site", "site name", "Larkspur Meadow Dairy"}, {"line", "line name", "HTST line 2"},
+		{"product", "product as named on the record", "reduced-fat milk 2 %"},
+		{"schedule", "the thermal schedule in words", "72.5 °C at the diversion valve, 15 s"},
+		{"prepared_by", "who prepared the file", "J. Doe"}, {"notes", "notes", "sizing run for a plate pack change"}} {
+		add(text("record."+k[0], k[1], k[2]))
+	}
+	add(mapping("product", "the liquid being pasteurized").required(),
+		text("product.name", "product name", "whole milk").required(),
+		q("product.density", units.Density, "density as entered (or give composition)", "1030 kg/m3"),
+		q("product.specific_heat", units.SpecificHeat, "specific heat (or give composition)", "3.93 kJ/(kg*K)"),
+		q("product.conductivity", units.ThermalConductivity, "thermal conductivity, for the record", "0.6 W/(m*K)"),
+		mapping("product.composition", "mass fractions summing to 1, for Choi–Okos properties instead of density and specific heat"))
+	for _, c := range []string{"water", "protein", "fat", "carbohydrate", "fiber", "ash"} {
+		add(num("product.composition."+c, c+" mass fraction", "0.035").byDefault("0"))
+	}
+	add(list("product.viscosity", "Newtonian viscosity points; ln μ is linear in T between them, the nearest end held outside (with a warning)"),
+		q("product.viscosity[].at", units.Temperature, "temperature of the measurement", "72 °C").required(),
+		q("product.viscosity[].value", units.Viscosity, "viscosity", "0.72 mPa*s").required(),
+		mapping("product.power_law", "a power-law product at the holding temperature, instead of viscosity points"),
+		num("product.power_law.flow_index", "flow index n, 0 < n ≤ 1.5", "0.65").required(),
+		Field{Path: "product.power_law.consistency", Value: KindConsistency, Required: true,
+			Description: "consistency index K, in Pa·sⁿ with n the flow index", Example: "0.28 Pa*s^0.65"},
+		mapping("flow", "product rates, each volumetric or by mass"),
+		flow("flow.rate", "normal rate: sizes and rates the sections", "10000 L/h").byDefault("max_rate"),
+		flow("flow.max_rate", "sealed maximum: sets the holding time", "11000 L/h").byDefault("rate"),
+		mapping("process", "the schedule's temperatures").required(),
+		q("process.raw_inlet", units.Temperature, "raw product inlet", "5 °C").required(),
+		q("process.hold_setpoint", units.Temperature, "diversion setpoint at the holding-tube outlet", "72.5 °C").required(),
+		q("process.outlet_target", units.Temperature, "product outlet target (required with cooling)", "4 °C"),
+		q("process.sensor_accuracy", units.TemperatureDifference,
+			"stated accuracy of the diversion sensor, a difference: warns when the setpoint is within it of a legal row", "0.5 °C"),
+		mapping("regeneration", "product-to-product regeneration: ratio (sizing) or plates (rating)").exactlyOne("ratio", "plates"))
+	pack := platePack("regeneration")
+	add(pack[0], num("regeneration.ratio", "regeneration ratio, 0 < ratio < 1: given, the section is sized (sizing mode)", "0.92"))
+	add(pack[1:]...)
+	add(mapping("regeneration.pressure", "regenerator pressures, for the regenerator-pressure check"),
+		q("regeneration.pressure.raw_max", units.Pressure, "highest raw-side pressure", "95 kPa").required(),
+		q("regeneration.pressure.pasteurized_min", units.Pressure, "lowest pasteurized-side pressure", "130 kPa").required(),
+		q("regeneration.pressure.required_margin", units.Pressure, "margin the pasteurized side must keep", "6.9 kPa").byDefault("1 psi"),
+		mapping("heating", "heating with a hot medium"))
+	add(platePack("heating")...)
+	add(mediumSide("heating", "medium inlet: when sizing, the inlet used; when rating, the hottest available")...)
+	add(list("cooling", "cooling stages in flow order"),
+		text("cooling[].name", "stage name", "chilled water").byDefault("stage N"),
+		q("cooling[].product_out", units.Temperature,
+			"product outlet this sizing stage must reach; the last stage defaults to process.outlet_target", "20 °C"))
+	add(platePack("cooling[]")...)
+	add(mediumSide("cooling[]", "medium inlet")...)
+	add(mapping("holding_tube", "the holding tube").exactlyOne("inner_diameter", "sanitary_tube"),
+		q("holding_tube.inner_diameter", units.Length, "inner diameter (or sanitary_tube)", "47.5 mm"),
+		q("holding_tube.sanitary_tube", units.Length,
+			"sanitary tube size, OD = nominal: 1.5, 2, 2.5, 3 in (0.065 in wall), 4 in (0.083 in), 6 in (0.109 in)", "2 in"),
+		q("holding_tube.outer_diameter", units.Length, "outer diameter, for heat loss (a sanitary size gives it)", "50.8 mm"),
+		q("holding_tube.length", units.Length, "length from the heater outlet to the diversion sensor", "34 m").required(),
+		q("holding_tube.rise", units.Length, "rise of the outlet above the inlet, for the tube-slope check", "0.8 m"),
+		num("holding_tube.min_slope", "minimum slope, rise/length; may be written 2.1 cm/m", "0.021").byDefault("0.25 in/ft"),
+		num("holding_tube.fastest_to_mean", "override of the fastest-to-mean velocity ratio, 1 to 3", "2"),
+		q("holding_tube.ambient", units.Temperature, "ambient air around the tube, for heat loss (with outer_coefficient)", "20 °C"),
+		q("holding_tube.outer_coefficient", units.HeatTransferCoefficient, "outer heat-transfer coefficient, for heat loss (with ambient)",
+			"12 W/(m2*K)"),
+		Field{Path: "holding_tube.pu", Value: KindBoolean, Default: "false",
+			Description: "also report brewing pasteurization units (60 °C, z = 7 °C)", Example: "true"},
+		list("organisms", "target organisms, with kinetics the process authority accepts"),
+		text("organisms[].name", "organism", "Listeria monocytogenes").required(),
+		q("organisms[].D", units.Time, "D-value at D_temperature", "0.9 s").required(),
+		q("organisms[].D_temperature", units.Temperature, "reference temperature of D", "71.7 °C").required(),
+		q("organisms[].z", units.TemperatureDifference, "z-value, a temperature difference", "6.3 °C").required(),
+		num("organisms[].required_log_reduction", "required log reduction; without it the reduction is reported, not judged", "5"),
+		list("legal_minimums", "the legal time–temperature rows the regulator applies (never interpolated)"),
+		q("legal_minimums[].temperature", units.Temperature, "row temperature", "72 °C").required(),
+		q("legal_minimums[].time", units.Time, "row time", "15 s").required(),
+		mapping("economics", "prices for the added-plates what-if (pasval plates and the record's what-if page)"),
+		text("economics.currency", "currency name", "USD").byDefault("currency units"),
+		num("economics.operating_hours_per_year", "operating hours a year, 0 to 8784", "2600").required(),
+		num("economics.heat_price_per_kWh", "price per kWh of heat delivered to the heating medium", "0.048").required(),
+		num("economics.cooling_price_per_kWh", "price per kWh of heat removed by the cooling media", "0.029").required(),
+		num("economics.plate_cost", "cost per added plate, installed", "340").required())
+	return t
+}

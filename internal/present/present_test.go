@@ -1,0 +1,122 @@
+package present
+
+// Source of the expected values: the Fahrenheit scale definition (°F = °C·9/5
+// + 32; a difference of 1 K = 1.8 °F), NIST SP 811 Appendix B (1 psi =
+// 6894.757 Pa, 1 ft = 0.3048 m, 1 in = 0.0254 m) and the project's own
+// wording of notes and warnings.
+
+import (
+	"strings"
+	"testing"
+
+	"pasval/internal/assess"
+	"pasval/internal/plantfile"
+	"pasval/regen"
+)
+
+var (
+	si = Display{}
+	us = Display{Sys: 1}
+)
+
+func TestNumbersInEachSystem(t *testing.T) {
+	for _, c := range []struct{ name, got, want string }{
+		{"temperature SI", si.temp(72), "72.0 °C"},
+		// 72 °C = 161.6 °F (Fahrenheit definition).
+		{"temperature US", us.temp(72), "161.6 °F"},
+		// a 5 K difference is 9 °F.
+		{"difference US", us.diff(5), "9.0 °F"},
+		{"signed", Signed("-1.5"), "−1.5"},
+		{"signed plus", Signed("1.5"), "+1.5"},
+		// 0.0208333 = 0.25 in/ft = 2.08 cm/m.
+		{"slope SI", Slope(0.25/12, si), "2.08 cm/m"},
+		{"slope US", Slope(0.25/12, us), "0.250 in/ft"},
+		// 6894.757 Pa = 1 psi (NIST SP 811).
+		{"pressure US", CheckValue(6894.757, "Pa", us), "1.0 psi"},
+		{"pressure SI", CheckValue(6894.757, "Pa", si), "6.9 kPa"},
+		{"time", CheckValue(16.344, "s", us), "16.34 s"},
+		{"log", CheckValue(25.6, "log", si), "25.60 log"},
+		{"small US", us.Small(0.0254), "1.000 in"},
+		{"small SI", si.Small(0.0475), "47.5 mm"},
+		{"power US", us.Power(1055.05585262 / 3600 * 1000), "1000"},
+		{"power SI", si.Power(64200), "64.2"},
+	} {
+		if c.got != c.want {
+			t.Errorf("%s: %q, want %q", c.name, c.got, c.want)
+		}
+	}
+	m := assess.NewCheck(assess.HeatingMedium, 70, 75)
+	if got := CheckMargin(m, us); got != "+9.00 °F" {
+		t.Errorf("margin of 5 K in US units: %q", got)
+	}
+}
+
+func TestEveryCheckHasANote(t *testing.T) {
+	for _, d := range assess.CheckDefs() {
+		c := assess.NewCheck(d.ID, 1, 2)
+		c.Detail = assess.CheckDetail{RowTemperatureC: 72, SetpointC: 72.5, MarginPercent: 8.9, Plates: 40, DRefS: 0.9, DTemperatureC: 71.7, ZK: 6.3}
+		for _, d := range []Display{si, us} {
+			if CheckNote(c, d) == "" {
+				t.Errorf("%s: empty note", c.ID)
+			}
+		}
+	}
+	c := assess.NewCheck(assess.HoldingTime, 15, 16.34)
+	c.Detail = assess.CheckDetail{RowTemperatureC: 72, MarginPercent: 8.9}
+	if got := CheckNote(c, us); got != "fastest particle at the sealed maximum flow against the 161.6 °F row (+8.9 %)" {
+		t.Errorf("holding-time note: %q", got)
+	}
+	mustPanic(t, func() { CheckNote(assess.Check{ID: "no-such-check"}, si) })
+}
+
+func TestEveryWarningHasWords(t *testing.T) {
+	p := &plantfile.Plant{Inputs: []plantfile.Input{{Field: "regeneration.u_value", Text: "33000 W/(m2*K)"}}}
+	values := map[string]float64{"reynolds": 425, "fastest_to_mean": 1.788, "setpoint_C": 80.5, "accuracy_K": 0.5, "row_temperature_C": 80}
+	for _, code := range assess.WarningCodes {
+		w := assess.Warning{Code: code, Field: "regeneration.u_value", Values: values}
+		if text := WarningText(w, p, si); text == "" || strings.Contains(text, "%!") {
+			t.Errorf("%s: %q", code, text)
+		}
+	}
+	// The laminar warning names the regime from the Reynolds number (Re 425 < 2100).
+	got := WarningText(assess.Warning{Code: assess.WarnLaminarFlow, Values: values}, p, si)
+	if !strings.HasPrefix(got, "flow in the holding tube is laminar (Re 425), so the fastest particle moves at 1.79×") {
+		t.Errorf("laminar: %q", got)
+	}
+	// Entered text is quoted as written; ranges in the display units.
+	got = WarningText(assess.Warning{Code: assess.WarnUValue, Field: "regeneration.u_value",
+		Values: map[string]float64{"low_W_m2K": 300, "high_W_m2K": 10000}}, p, si)
+	if !strings.HasPrefix(got, "regeneration.u_value 33000 W/(m2*K) is outside") || !strings.Contains(got, "300 W/(m²·K) to 1e+04 W/(m²·K)") {
+		t.Errorf("u-value: %q", got)
+	}
+	// Sensor accuracy in US units: 80.5 °C = 176.9 °F, 0.5 K = 0.9 °F.
+	got = WarningText(assess.Warning{Code: assess.WarnSensorAccuracy, Values: values}, p, us)
+	if !strings.Contains(got, "the setpoint 176.9 °F is within the diversion sensor's stated accuracy (±0.9 °F) of the 176.0 °F") {
+		t.Errorf("sensor accuracy: %q", got)
+	}
+	mustPanic(t, func() { WarningText(assess.Warning{Code: "no-such-warning"}, p, si) })
+}
+
+func TestOtherStreamOfEveryKind(t *testing.T) {
+	p := &plantfile.Plant{Heating: &plantfile.Heating{}, Cooling: []plantfile.CoolingStage{{Name: "glycol"}}}
+	p.Heating.Medium.Name = "water"
+	p.Cooling[0].Medium.Name = "glycol 30 %"
+	want := map[regen.SectionKind]string{regen.RegenerationSection: "pasteurized product", regen.HeatingSection: "water",
+		regen.CoolingSection: "glycol 30 %"}
+	for _, k := range regen.SectionKinds {
+		if got := OtherStream(p, assess.Section{Kind: k, Stage: "glycol"}); got != want[k] {
+			t.Errorf("%v: %q", k, got)
+		}
+	}
+	mustPanic(t, func() { OtherStream(p, assess.Section{}) })
+}
+
+func mustPanic(t *testing.T, f func()) {
+	t.Helper()
+	defer func() {
+		if r := recover(); r == nil || !strings.HasPrefix(r.(string), panicPrefix) {
+			t.Errorf("no %q panic: %v", panicPrefix, r)
+		}
+	}()
+	f()
+}

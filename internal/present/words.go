@@ -1,0 +1,143 @@
+package present
+
+import (
+	"fmt"
+	"strings"
+
+	"pasval/internal/assess"
+	"pasval/internal/plantfile"
+	"pasval/internal/units"
+	"pasval/lethality"
+)
+
+// The words of check notes and warnings: assess returns codes and SI values,
+// and they are put into words here, once, in the units of the output (the
+// display system for terminal and record, SI for JSON).
+
+// temp is a temperature with one decimal, "72.0 °C"; diff a difference, "6.3 K".
+func (d Display) temp(c float64) string { return d.With(c, units.Temperature, 1) }
+func (d Display) diff(k float64) string { return d.With(k, units.TemperatureDifference, 1) }
+
+// g4 is a value with four significant digits and its display unit.
+func (d Display) g4(v float64, k units.Kind) string {
+	return fmt.Sprintf("%.4g %s", units.FromSI(v, k, d.Unit(k)), d.Unit(k))
+}
+
+// CheckNote is a check's note in words: the registry's fixed note, or, for a
+// note that carries numbers, the words made here.
+func CheckNote(c assess.Check, d Display) string {
+	x := c.Detail
+	switch c.ID {
+	case assess.HoldingTime:
+		if x.BelowEveryRow {
+			return fmt.Sprintf("the setpoint %s is below every legal row (coolest %s)", d.temp(x.SetpointC), d.temp(x.RowTemperatureC))
+		}
+		return fmt.Sprintf("fastest particle at the sealed maximum flow against the %s row (%+.1f %%)", d.temp(x.RowTemperatureC), x.MarginPercent)
+	case assess.LogReduction:
+		return fmt.Sprintf("fastest particle at the sealed maximum flow; D %.4g s at %s, z %s", x.DRefS, d.temp(x.DTemperatureC), d.diff(x.ZK))
+	case assess.HeatingMedium:
+		return fmt.Sprintf("medium inlet that %d plates need to bring the product to temperature, against the hottest available", x.Plates)
+	}
+	for _, def := range assess.CheckDefs() {
+		if def.ID == c.ID && def.Note != "" {
+			return def.Note
+		}
+	}
+	panic(fmt.Sprintf("%sno note for check %q", panicPrefix, c.ID))
+}
+
+const panicPrefix = "present: "
+
+// entered is the text the plant file gives a field, as written.
+func entered(p *plantfile.Plant, field string) string {
+	for _, in := range p.Inputs {
+		if in.Field == field {
+			return in.Text
+		}
+	}
+	return "?"
+}
+
+// WarningText is a warning in words.
+func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
+	v := w.Values
+	switch w.Code {
+	case assess.WarnLaminarFlow:
+		return fmt.Sprintf("flow in the holding tube is %s (Re %.0f), so the fastest particle moves at %.2f× the mean velocity: "+
+			"a holding-time test timed with water (turbulent) overstates this product's holding time (Dickerson et al. 1968: "+
+			"a tube timed at 26 s with water held ice-cream mix 21.9–23.5 s); time the tube with the product or as the regulator directs",
+			lethality.RegimeOf(v["reynolds"]), v["reynolds"], v["fastest_to_mean"])
+	case assess.WarnViscosityExtrapolated:
+		return fmt.Sprintf("the setpoint %s lies outside the entered viscosity points (%s to %s): the nearest point's viscosity is held; "+
+			"measure it at the holding temperature", d.temp(v["setpoint_C"]), d.temp(v["lowest_C"]), d.temp(v["highest_C"]))
+	case assess.WarnSensorAccuracy:
+		return fmt.Sprintf("the setpoint %s is within the diversion sensor's stated accuracy (±%s) of the %s legal row: "+
+			"a sensor reading high could let product forward below it", d.temp(v["setpoint_C"]), d.diff(v["accuracy_K"]), d.temp(v["row_temperature_C"]))
+	case assess.WarnNoRise:
+		return "holding_tube.rise is not given, so the tube's upward slope is not checked"
+	case assess.WarnUValue:
+		return fmt.Sprintf("%s %s is outside what plate heat exchangers reach in this service (typically %s to %s); check the value and its unit",
+			w.Field, entered(p, w.Field), d.g4(v["low_W_m2K"], units.HeatTransferCoefficient), d.g4(v["high_W_m2K"], units.HeatTransferCoefficient))
+	case assess.WarnPlateArea:
+		return fmt.Sprintf("%s %s per plate is outside the usual %s to %s; check the value and its unit",
+			w.Field, entered(p, w.Field), d.g4(v["low_m2"], units.Area), d.g4(v["high_m2"], units.Area))
+	case assess.WarnFouling:
+		return fmt.Sprintf("%s %s is far above the usual fouling resistances of plate heat exchangers (below 0.001 m²·K/W)", w.Field, entered(p, w.Field))
+	case assess.WarnRatioHigh:
+		return fmt.Sprintf("a regeneration ratio of %.1f %% is unusually high (plate regenerators commonly reach 80–94 %%); "+
+			"the plate count grows steeply near 100 %%", v["ratio"]*100)
+	case assess.WarnDensity:
+		return fmt.Sprintf("the product density %s is outside the usual %s to %s for liquid foods; check the value and its unit",
+			d.g4(v["value_kg_m3"], units.Density), d.g4(v["low_kg_m3"], units.Density), d.g4(v["high_kg_m3"], units.Density))
+	case assess.WarnSpecificHeat:
+		return fmt.Sprintf("the product specific heat %s is outside the usual %s to %s for liquid foods; check the value and its unit",
+			d.g4(v["value_J_kgK"], units.SpecificHeat), d.g4(v["low_J_kgK"], units.SpecificHeat), d.g4(v["high_J_kgK"], units.SpecificHeat))
+	case assess.WarnViscosityBelowWater:
+		point := strings.TrimSuffix(w.Field, ".value")
+		return fmt.Sprintf("%s: %s at %s is below water's %s at that temperature (IAPWS 2008); a liquid food is at least as viscous as water: "+
+			"check the value and its unit", point, entered(p, w.Field), entered(p, point+".at"), d.g4(v["water_Pa_s"], units.Viscosity))
+	case assess.WarnHoldingTimeLong:
+		return fmt.Sprintf("a fastest-particle holding time of %.0f s (%.1f min) is beyond what a continuous line holds (30 min is a vat hold); "+
+			"check the tube length, diameter and flow", v["min_residence_s"], v["min_residence_s"]/60)
+	case assess.WarnTubeVelocity:
+		return fmt.Sprintf("the mean velocity in the holding tube, %s/s, is outside the usual %s/s to %s/s; check the tube diameter and the flow",
+			d.g4(v["value_m_s"], units.Length), d.g4(v["low_m_s"], units.Length), d.g4(v["high_m_s"], units.Length))
+	case assess.WarnOuterCoefficient:
+		return fmt.Sprintf("holding_tube.outer_coefficient %s is above what still air gives a bare tube (typically 5–15 W/(m²·K)); "+
+			"check the value and its unit", entered(p, w.Field))
+	}
+	panic(fmt.Sprintf("%sno words for warning %q", panicPrefix, w.Code))
+}
+
+// Warnings are a result's warnings in words.
+func Warnings(res *assess.Result, d Display) []string {
+	out := make([]string, len(res.Warnings))
+	for i, w := range res.Warnings {
+		out[i] = WarningText(w, res.Plant, d)
+	}
+	return out
+}
+
+// ForJSON is a copy of the result with every note and warning message in
+// words, in SI (the JSON contract is SI throughout).
+func ForJSON(res *assess.Result) *assess.Result {
+	out := *res
+	si := Display{Sys: units.SI}
+	out.Checks = WordedChecks(res.Checks, si)
+	out.Warnings = make([]assess.Warning, len(res.Warnings))
+	for i, w := range res.Warnings {
+		w.Message = WarningText(w, res.Plant, si)
+		out.Warnings[i] = w
+	}
+	return &out
+}
+
+// WordedChecks is a copy of checks with their notes in words.
+func WordedChecks(checks []assess.Check, d Display) []assess.Check {
+	out := make([]assess.Check, len(checks))
+	for i, c := range checks {
+		c.Note = CheckNote(c, d)
+		out[i] = c
+	}
+	return out
+}

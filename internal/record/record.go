@@ -1,0 +1,355 @@
+// Package record fills the validation record (report.Document) from the
+// results of a plant file: the cover and its verdicts, the inputs with what
+// each field means, the method, the heat-exchange tables and temperature
+// diagram, the holding tube with the accumulated log reduction, the checks,
+// the cautions and the sign-off, and — when the plant file allows it — the
+// what-if page of added regeneration plates. It draws only what assess
+// returned: no physics is computed here.
+//
+//	doc, err := record.Build(res, record.Options{Date: day, PlantName: "line2.yaml"})
+//	pdf, pages, err := report.Render(doc)
+package record
+
+import (
+	"fmt"
+	"strings"
+	"time"
+
+	"pasval/internal/assess"
+	"pasval/internal/plantfile"
+	"pasval/internal/present"
+	"pasval/internal/units"
+	"pasval/regen"
+	"pasval/report"
+)
+
+// Options are the record's inputs beyond the results.
+type Options struct {
+	Date      time.Time // the record date; also the PDF creation date
+	PlantName string    // file name for the attachment
+}
+
+// Build makes the document from check results. The plant file travels in the
+// document (attached and hashed). A rated regenerator with an economics block
+// adds the what-if page (WantsWhatIf), whose options are computed here
+// through assess.
+func Build(res *assess.Result, opts Options) (*report.Document, error) {
+	var w *assess.WhatIf
+	if p := res.Plant; WantsWhatIf(p) {
+		var err error
+		if w, err = assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction); err != nil {
+			return nil, err
+		}
+	}
+	return build(res, opts, w), nil
+}
+
+// WantsWhatIf says whether a plant's record has the what-if page: a rated
+// regenerator (plates entered) and an economics block.
+func WantsWhatIf(p *plantfile.Plant) bool {
+	return p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0
+}
+
+// tableFrom turns a shared grid into a record table.
+func tableFrom(caption string, g present.Grid) report.Table {
+	t := report.Table{Caption: caption, Rows: g.Rows}
+	for i, h := range g.Headers {
+		t.Columns = append(t.Columns, report.Column{Title: h, Right: g.Right[i]})
+	}
+	return t
+}
+
+// Statement is printed on the cover.
+const Statement = "This record documents an engineering calculation made with pasval from the plant file " +
+	"attached to it. It is not a regulatory approval, an inspection or a process-authority letter."
+
+// AcceptanceTests are the tests the record never replaces (SAFETY.md).
+var AcceptanceTests = []string{
+	"the holding-time test at the sealed maximum flow, on the installed equipment, as the regulator directs;",
+	"the flow-diversion device tests (response time, assembly, leak detection, cut-in and cut-out temperatures);",
+	"the recorder-controller tests and the check of the indicating and recording thermometers against a certified standard;",
+	"the regenerator pressure-differential tests and any booster-pump interlock tests;",
+	"any other test the local regulator requires.",
+}
+
+func build(res *assess.Result, opts Options, whatIf *assess.WhatIf) *report.Document {
+	p := res.Plant
+	d := present.Display{Sys: p.System}
+	doc := &report.Document{
+		Title:      "Pasteurizer validation record",
+		SHA256:     res.InputSHA256,
+		ShortHash:  res.InputSHA256[:12],
+		Date:       opts.Date,
+		Version:    res.Version,
+		PlantName:  opts.PlantName,
+		PlantBytes: p.Source,
+		PageSize:   "A4",
+	}
+	if p.System == units.US {
+		doc.PageSize = "Letter"
+	}
+	var hdr []string
+	for _, k := range []string{"site", "line"} {
+		if v := p.RecordValue(k); v != "" {
+			hdr = append(hdr, v)
+		}
+	}
+	doc.Header = strings.Join(hdr, " · ")
+	if doc.Header == "" {
+		doc.Header = p.Product.Name
+	}
+	doc.Cover = buildCover(res, doc)
+	doc.Sections = []report.Section{
+		inputsSection(res),
+		methodSection(res),
+	}
+	if len(res.Sections) > 0 {
+		doc.Sections = append(doc.Sections, heatSection(res, d))
+	}
+	if res.HoldingTube != nil {
+		doc.Sections = append(doc.Sections, holdingSection(res, d))
+	}
+	doc.Sections = append(doc.Sections, checksSection(res, d))
+	if whatIf != nil {
+		doc.Sections = append(doc.Sections, whatIfSection(whatIf, d))
+	}
+	doc.Sections = append(doc.Sections, cautionSection(res), signOffSection())
+	return doc
+}
+
+func buildCover(res *assess.Result, doc *report.Document) report.Cover {
+	p := res.Plant
+	c := report.Cover{Statement: Statement, Pass: res.Pass}
+	labels := map[string]string{"site": "Site", "line": "Line", "product": "Product", "schedule": "Schedule", "prepared_by": "Prepared by", "notes": "Notes"}
+	for _, k := range []string{"site", "line", "product", "schedule", "prepared_by", "notes"} {
+		if v := p.RecordValue(k); v != "" {
+			c.Fields = append(c.Fields, [2]string{labels[k], v})
+		}
+	}
+	if p.RecordValue("product") == "" {
+		c.Fields = append(c.Fields, [2]string{"Product", p.Product.Name})
+	}
+	c.Fields = append(c.Fields,
+		[2]string{"Record date", doc.Date.Format("2006-01-02")},
+		[2]string{"Plant file", doc.PlantName},
+		[2]string{"Plant file SHA-256", res.InputSHA256},
+		[2]string{"Tool", "pasval " + res.Version},
+	)
+	for _, ch := range res.Checks {
+		c.Verdicts = append(c.Verdicts, report.Verdict{Check: present.CheckLabel(ch), Pass: ch.Pass})
+	}
+	c.Overall = "Result: " + present.Overall(res) + "."
+	return c
+}
+
+func inputsSection(res *assess.Result) report.Section {
+	t := report.Table{Caption: "Every quantity entered in the plant file, as written and in SI, with what the field means.",
+		Columns: []report.Column{{Title: "field"}, {Title: "as entered"}, {Title: "SI value", Right: true}, {Title: "SI unit"}, {Title: "meaning"}}}
+	for _, in := range res.Plant.Inputs {
+		f, _ := plantfile.Lookup(in.Field)
+		t.Rows = append(t.Rows, []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), in.SIUnit, f.Description})
+	}
+	pp := res.Product
+	kv := report.KeyValues{Pairs: [][2]string{
+		{"product", res.Plant.Product.Name},
+		{"density used", fmt.Sprintf("%.1f kg/m³", pp.Density)},
+		{"specific heat used", fmt.Sprintf("%.1f J/(kg·K)", pp.SpecificHeat)},
+		{"mass flow (normal, sealed maximum)", fmt.Sprintf("%.4f kg/s, %.4f kg/s", pp.MassFlow, pp.MaxMassFlow)},
+	}}
+	if pp.FromComposition {
+		kv.Pairs = append(kv.Pairs, [2]string{"properties", "Choi–Okos (1986) from the composition entered"})
+	}
+	return report.Section{Heading: "Inputs", Blocks: []report.Block{t, kv}}
+}
+
+func methodSection(res *assess.Result) report.Section {
+	items := []string{
+		"Units: every entered quantity carries its unit; calculations are in SI, temperatures in °C (differences in K).",
+		"Water media: IAPWS-IF97 region 1 (IAPWS R7-97(2012)); volumetric rates convert to mass at the medium inlet; cp at the mean of inlet and outlet, iterated.",
+		"Heat exchange: LMTD ΔT_lm = (ΔT₁ − ΔT₂)/ln(ΔT₁/ΔT₂) and effectiveness–NTU for counterflow and co-current flow (Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., §11.3–11.4); sizing gives the area for a duty, rating gives temperatures for the installed plates.",
+		"Regeneration ratio = (raw product leaving regeneration − raw inlet)/(diversion setpoint − raw inlet); the same product on both sides gives C_r = 1, so the ratio equals the effectiveness.",
+		"Plates = ceil(area / effective area per plate); required and installed areas are both reported.",
+	}
+	if res.HoldingTube != nil {
+		items = append(items,
+			"Holding tube: judged at the sealed maximum flow for the fastest particle, at the diversion setpoint.",
+			"Reynolds number ρvD/μ (Newtonian) or Metzner–Reed (power law; Metzner and Reed 1955). Re < 2100 laminar; 2100–4000 transitional, treated as laminar; ≥ 4000 turbulent.",
+			"Fastest-to-mean velocity ratio: 2 (laminar Newtonian), (3n+1)/(n+1) (laminar power law; Steffe 1996), (n_p+1)(2n_p+1)/(2n_p²) with n_p = 0.790 ln Re − 1.64 (turbulent; Petukhov friction factor, power-law velocity profile), unless entered.",
+			"Heat loss (when entered): T(x) = T_a + (T_in − T_a)·exp(−h_o π D_o x/(m c_p)), m the mass flow, outlet at the setpoint; lethality uses m at the sealed maximum, the heating section the tube inlet at the normal rate.",
+			"Lethality: D(T) = D_ref·10^((T_ref − T)/z); log reduction LR = ∫ dt/D(T) along the fastest particle (Simpson's rule, 1024 intervals; closed form when isothermal).",
+			"Legal table: met when some row has temperature ≤ setpoint and time ≤ the fastest particle's time; rows are never interpolated.",
+		)
+	}
+	return report.Section{Heading: "Method", Blocks: []report.Block{report.Bullets{Items: items}}}
+}
+
+func heatSection(res *assess.Result, d present.Display) report.Section {
+	blocks := []report.Block{
+		tableFrom("Sections at the normal rate.", present.Sections(res, d)),
+		tableFrom("Temperatures, "+d.Unit(units.Temperature)+". Other stream: the pasteurized product in regeneration, the medium elsewhere; in rated heating its inlet is the temperature required.",
+			present.Temperatures(res, d)),
+	}
+	if res.RegenerationRatio != nil {
+		blocks = append(blocks, report.KeyValues{Pairs: [][2]string{{"regeneration ratio", fmt.Sprintf("%.1f %%", *res.RegenerationRatio*100)}}})
+	}
+	blocks = append(blocks, temperatureDiagram(res, d))
+	for _, s := range res.Sections {
+		blocks = append(blocks, tableFrom("Section "+present.SectionLabel(s)+".", present.SectionDetail(res, s, d)))
+	}
+	return report.Section{Heading: "Heat exchange", Blocks: blocks}
+}
+
+// temperatureDiagram lays the product path out in process order: raw side of
+// regeneration, heating, holding tube, pasteurized side of regeneration,
+// cooling stages; each stretch shows the other stream against it.
+func temperatureDiagram(res *assess.Result, d present.Display) report.Diagram {
+	T := func(c float64) float64 { return units.FromSI(c, units.Temperature, d.Unit(units.Temperature)) }
+	dg := report.Diagram{Unit: d.Unit(units.Temperature), Setpoint: T(res.Plant.Process.HoldSetpoint.SI),
+		Caption: "Temperatures at the normal rate along the product path (solid) and of the stream on the other side of each plate pack (dashed; arrows show its direction)."}
+	var regenerator *assess.Section
+	for i := range res.Sections {
+		if res.Sections[i].Kind == regen.RegenerationSection {
+			regenerator = &res.Sections[i]
+		}
+	}
+	// stretch lays one section along the product path: product left to right;
+	// the other stream enters at the right when counterflow.
+	stretch := func(label string, s assess.Section, productIn, productOut, otherIn, otherOut float64, other string, hot, isProduct bool) report.Segment {
+		seg := report.Segment{Label: label, ProductIn: T(productIn), ProductOut: T(productOut), Other: other, OtherIsHot: hot, OtherIsProduct: isProduct}
+		if s.Arrangement == "counterflow" {
+			seg.OtherAtLeft, seg.OtherAtRight, seg.OtherLeftward = T(otherOut), T(otherIn), true
+		} else {
+			seg.OtherAtLeft, seg.OtherAtRight = T(otherIn), T(otherOut)
+		}
+		return seg
+	}
+	if regenerator != nil {
+		s := *regenerator
+		dg.Segments = append(dg.Segments, stretch("regeneration (raw)", s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, "pasteurized product", true, true))
+	}
+	for _, s := range res.Sections {
+		if s.Kind == regen.HeatingSection {
+			dg.Segments = append(dg.Segments, stretch("heating", s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, present.OtherStream(res.Plant, s), true, false))
+		}
+	}
+	if h := res.HoldingTube; h != nil {
+		// At the normal rate, like the sections: the heater delivers HeatingOutletC.
+		dg.Segments = append(dg.Segments, report.Segment{Label: "holding tube", ProductIn: T(h.HeatingOutletC), ProductOut: T(h.OutletTemperatureC)})
+	}
+	if regenerator != nil {
+		// The pasteurized side: the product here is the regenerator's other stream.
+		s := *regenerator
+		dg.Segments = append(dg.Segments, stretch("regeneration (pasteurized)", s, s.OtherInC, s.OtherOutC, s.ProductInC, s.ProductOutC, "raw product", false, true))
+	}
+	for _, s := range res.Sections {
+		if s.Kind == regen.CoolingSection {
+			dg.Segments = append(dg.Segments, stretch("cooling: "+s.Stage, s, s.ProductInC, s.ProductOutC, s.OtherInC, s.OtherOutC, present.OtherStream(res.Plant, s), false, false))
+		}
+	}
+	return dg
+}
+
+func holdingSection(res *assess.Result, d present.Display) report.Section {
+	h := res.HoldingTube
+	blocks := []report.Block{report.KeyValues{Pairs: append([][2]string{{"judged flow", d.With(h.MaxFlowM3s, units.VolumeFlow, 0) + " (sealed maximum)"}},
+		present.HoldingFacts(res, d)...)}}
+	if len(h.Rows) > 0 {
+		blocks = append(blocks, tableFrom("Legal minimums as entered; the judged row is marked. Rows are never interpolated.", present.LegalRows(res, d)))
+	}
+	if len(res.Lethality) > 0 {
+		plot := report.Plot{Caption: "Accumulated log reduction of the fastest particle along the holding tube.",
+			XLabel: "distance from the tube inlet, " + d.Unit(units.Length), YLabel: "log reduction"}
+		for _, l := range res.Lethality {
+			s := report.Series{Name: l.Organism}
+			for _, pt := range l.Along {
+				s.X = append(s.X, units.FromSI(pt.X, units.Length, d.Unit(units.Length)))
+				s.Y = append(s.Y, pt.LogRed)
+			}
+			plot.Series = append(plot.Series, s)
+		}
+		blocks = append(blocks, tableFrom("Log reduction of the fastest particle at the sealed maximum flow.", present.Lethality(res)), plot)
+	}
+	if len(res.Warnings) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: present.Warnings(res, d)})
+	}
+	return report.Section{Heading: "Holding tube and lethality", Blocks: blocks}
+}
+
+func checksSection(res *assess.Result, d present.Display) report.Section {
+	blocks := []report.Block{tableFrom("", present.Checks(res, d))}
+	if len(res.Checks) == 0 {
+		blocks = []report.Block{report.Paragraph{Text: "No check applies: every section is in sizing mode and no holding tube, kinetics or pressures are described."}}
+	}
+	blocks = append(blocks, report.Paragraph{Text: "Result: " + present.Overall(res) + ".", Emphasis: true})
+	return report.Section{Heading: "Checks", Blocks: blocks}
+}
+
+func cautionSection(res *assess.Result) report.Section {
+	return report.Section{Heading: "Cautions", Blocks: []report.Block{
+		report.Paragraph{Text: res.Caution, Emphasis: true},
+		report.Paragraph{Text: "In particular, this record does not replace:"},
+		report.Bullets{Items: AcceptanceTests},
+		report.Paragraph{Text: "It does not replace the process authority, who sets or accepts the schedule (temperature, time, target organisms and " +
+			"log reduction), nor the local regulator and local codes, whose legal minimums differ between places and products and change. " +
+			"Results are only as good as the plant file: U-values, plate areas, flows, viscosities and kinetic values must come from the " +
+			"equipment maker, measurements or literature the authority accepts. Kinetic values in demonstration files are illustrative."},
+	}}
+}
+
+func signOffSection() report.Section {
+	return report.Section{Heading: "Sign-off", Blocks: []report.Block{
+		report.Paragraph{Text: "Signatures confirm that the inputs describe the plant as built and that the results were reviewed; they do not make this record a regulatory approval."},
+		report.SignOff{Roles: []string{"Prepared by", "Reviewed by", "Approved by"}},
+	}}
+}
+
+// WhatIfSweep is the sweep of added plates a record shows: about ten steps up
+// to doubling the installed plates.
+func WhatIfSweep(plates int) []int {
+	step := max(1, (plates+5)/10)
+	var out []int
+	for a := step; a <= max(plates, 10); a += step {
+		out = append(out, a)
+	}
+	return out
+}
+
+func whatIfSection(w *assess.WhatIf, d present.Display) report.Section {
+	duty := d.DutyUnit()
+	t := report.Table{Caption: "The whole line recomputed with plates added to the regenerator (normal rate).",
+		Columns: []report.Column{{Title: "added", Right: true}, {Title: "plates", Right: true}, {Title: "ratio", Right: true},
+			{Title: "heating " + duty, Right: true}, {Title: "saved " + duty, Right: true}, {Title: "energy kWh/yr", Right: true},
+			{Title: "cost " + w.Currency + "/yr", Right: true}, {Title: "payback years", Right: true}, {Title: "checks"}}}
+	ratio := report.Plot{Caption: "Regeneration ratio against regeneration plates.", XLabel: "regeneration plates", YLabel: "regeneration ratio, %"}
+	payback := report.Plot{Caption: "Simple payback against added plates.", XLabel: "added plates", YLabel: "payback, years"}
+	rs := report.Series{Name: "regeneration ratio"}
+	ps := report.Series{Name: "payback"}
+	for _, o := range append([]assess.PlatesOption{w.Baseline}, w.Options...) {
+		energy, cost, pb := "—", "—", "—"
+		if o.AnnualEnergySavedKWh != nil && o.AddedPlates > 0 {
+			energy, cost = fmt.Sprintf("%.0f", *o.AnnualEnergySavedKWh), fmt.Sprintf("%.0f", *o.AnnualCostSaved)
+		}
+		if o.PaybackYears != nil {
+			pb = fmt.Sprintf("%.2f", *o.PaybackYears)
+			ps.X = append(ps.X, float64(o.AddedPlates))
+			ps.Y = append(ps.Y, *o.PaybackYears)
+		}
+		checks := present.ChecksText(o)
+		t.Rows = append(t.Rows, []string{present.AddedLabel(o), fmt.Sprint(o.Plates), fmt.Sprintf("%.1f %%", o.RegenerationRatio*100),
+			d.Power(o.HeatingDutyKW * 1e3), d.Power((o.HeatingSavedKW + o.CoolingSavedKW) * 1e3), energy, cost, pb, checks})
+		rs.X = append(rs.X, float64(o.Plates))
+		rs.Y = append(rs.Y, o.RegenerationRatio*100)
+	}
+	ratio.Series = []report.Series{rs}
+	blocks := []report.Block{t, ratio}
+	if len(ps.X) > 1 {
+		payback.Series = []report.Series{ps}
+		blocks = append(blocks, payback)
+	}
+	notes := []string{"Saved is heating plus cooling: each equals C · Δratio · (setpoint − raw inlet)."}
+	if w.KneeAdded != nil {
+		notes = append(notes, fmt.Sprintf("Knee: beyond +%d plates each further 10 plates save less than %.0f %% of what the first 10 saved.", *w.KneeAdded, w.KneeFraction*100))
+	}
+	blocks = append(blocks, report.Bullets{Items: notes})
+	return report.Section{Heading: "What if: added regeneration plates", Blocks: blocks}
+}

@@ -1,0 +1,147 @@
+package report
+
+import (
+	"math"
+)
+
+// Tables of the record: columns as wide as their content, wrapped to the
+// page, the header repeated after a page break, no cell split across pages.
+
+// table lays out a grid: columns as wide as their content, the widest text
+// columns wrapped when the total exceeds the page; the header repeats after
+// a page break.
+func (r *renderer) table(t Table) {
+	f := r.f
+	size := bodySize
+	if len(t.Columns) > 7 {
+		size = smallSize
+	}
+	lh := lineH * size / bodySize
+	n := len(t.Columns)
+	widths := make([]float64, n)
+	r.font("B", size)
+	for i, c := range t.Columns {
+		widths[i] = f.GetStringWidth(c.Title) + 2*cellPad
+	}
+	r.font("", size)
+	for _, row := range t.Rows {
+		for i := 0; i < n && i < len(row); i++ {
+			widths[i] = math.Max(widths[i], f.GetStringWidth(row[i])+2*cellPad)
+		}
+	}
+	fitWidths(widths, r.w)
+	header := func() {
+		r.font("B", size)
+		f.SetFillColor(235, 235, 235)
+		h := r.rowHeight(titles(t.Columns), widths, lh)
+		r.drawRow(titles(t.Columns), widths, t.Columns, h, lh, true)
+		r.font("", size)
+	}
+	// Keep the caption, the header and the first row together.
+	r.font("B", size)
+	need := r.rowHeight(titles(t.Columns), widths, lh) + 4
+	if len(t.Rows) > 0 {
+		r.font("", size)
+		need += r.rowHeight(t.Rows[0], widths, lh)
+	}
+	r.ensure(need + 8)
+	if t.Caption != "" {
+		r.font("", smallSize)
+		f.MultiCell(r.w, lineH*smallSize/bodySize, printable(t.Caption), "", "L", false)
+		f.Ln(0.8)
+	}
+	_, ph := f.GetPageSize()
+	// Page breaks are managed here, row by row, so that no cell splits.
+	f.SetAutoPageBreak(false, 0)
+	defer f.SetAutoPageBreak(true, margin+4)
+	header()
+	for _, row := range t.Rows {
+		r.font("", size)
+		h := r.rowHeight(row, widths, lh)
+		if f.GetY()+h > ph-margin-4 {
+			f.AddPage()
+			header()
+		}
+		r.drawRow(row, widths, t.Columns, h, lh, false)
+	}
+	f.Ln(3)
+}
+
+func titles(cols []Column) []string {
+	out := make([]string, len(cols))
+	for i, c := range cols {
+		out[i] = c.Title
+	}
+	return out
+}
+
+// fitWidths shrinks the widest columns until the total fits.
+func fitWidths(w []float64, total float64) {
+	for range 200 {
+		sum, wi := 0.0, 0
+		for i, v := range w {
+			sum += v
+			if v > w[wi] {
+				wi = i
+			}
+		}
+		if sum <= total {
+			// spread the spare width over the columns
+			extra := (total - sum) / float64(len(w))
+			if extra > 0 && sum > total*0.75 {
+				for i := range w {
+					w[i] += extra
+				}
+			}
+			return
+		}
+		w[wi] -= math.Min(sum-total, w[wi]*0.1+0.5)
+	}
+}
+
+func (r *renderer) rowHeight(cells []string, widths []float64, lh float64) float64 {
+	lines := 1
+	for i, c := range cells {
+		if i < len(widths) {
+			lines = max(lines, len(r.f.SplitText(printable(c), widths[i]-2*cellPad)))
+		}
+	}
+	return float64(lines)*lh + 1.2
+}
+
+func (r *renderer) drawRow(cells []string, widths []float64, cols []Column, h, lh float64, fill bool) {
+	f := r.f
+	x0, y0 := margin, f.GetY()
+	f.SetDrawColor(170, 170, 170)
+	f.SetLineWidth(0.15)
+	x := x0
+	for i, wd := range widths {
+		c := ""
+		if i < len(cells) {
+			c = cells[i]
+		}
+		style := "D"
+		if fill {
+			style = "FD"
+		}
+		f.Rect(x, y0, wd, h, style)
+		align := "L"
+		if cols[i].Right && !fill {
+			align = "R"
+		}
+		if c == "PASS" || c == "FAIL" {
+			col := colPass
+			if c == "FAIL" {
+				col = colFail
+			}
+			f.SetTextColor(col[0], col[1], col[2])
+		}
+		for j, line := range f.SplitText(printable(c), wd-2*cellPad) {
+			f.SetXY(x+cellPad, y0+0.6+float64(j)*lh)
+			f.CellFormat(wd-2*cellPad, lh, printable(line), "", 0, align, false, 0, "")
+		}
+		f.SetTextColor(0, 0, 0)
+		x += wd
+	}
+	f.SetXY(x0, y0+h)
+}
