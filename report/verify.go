@@ -20,6 +20,53 @@ var ErrUnreadable = errors.New("not a readable pasval record")
 // stream cannot exhaust memory (a plant file is a few kilobytes).
 const maxAttachment = 1 << 20
 
+// MaxRecordSize is the most bytes ReadRecord and Verify take as a record. A
+// record is about 70 KB (64 to 76 KB for the demos); 16 MiB leaves room for
+// any plant file a record can carry (maxAttachment) and long tables, while a
+// device or a file that keeps growing cannot exhaust memory.
+const MaxRecordSize = 16 << 20
+
+// MaxPlantFileSize is the most bytes ReadPlantFile takes: the largest plant
+// file a record can carry, so a longer one could never match.
+const MaxPlantFileSize = maxAttachment
+
+// SizeError reports an input longer than the most that is read of it. It
+// wraps ErrUnreadable.
+type SizeError struct {
+	What  string // "pasval record", "plant file"
+	Limit int64  // bytes
+}
+
+func (e *SizeError) Error() string {
+	return fmt.Sprintf("not a %s: larger than %d MiB (%d bytes)", e.What, e.Limit>>20, e.Limit)
+}
+
+func (e *SizeError) Unwrap() error { return ErrUnreadable }
+
+// ReadRecord reads a record from r, at most MaxRecordSize bytes: a longer
+// stream returns a *SizeError after reading MaxRecordSize+1 bytes, however
+// long r is or keeps growing.
+func ReadRecord(r io.Reader) ([]byte, error) {
+	return readAtMost(r, MaxRecordSize, "pasval record")
+}
+
+// ReadPlantFile reads a plant file to compare with a record, at most
+// MaxPlantFileSize bytes (a *SizeError beyond).
+func ReadPlantFile(r io.Reader) ([]byte, error) {
+	return readAtMost(r, MaxPlantFileSize, "plant file")
+}
+
+func readAtMost(r io.Reader, limit int64, what string) ([]byte, error) {
+	data, err := io.ReadAll(io.LimitReader(r, limit+1))
+	if err != nil {
+		return nil, err
+	}
+	if int64(len(data)) > limit {
+		return nil, &SizeError{What: what, Limit: limit}
+	}
+	return data, nil
+}
+
 // Verification is what Verify found.
 type Verification struct {
 	RecordedSHA256   string // from the document metadata
@@ -43,6 +90,9 @@ var (
 // A record that cannot be read returns an error wrapping ErrUnreadable.
 func Verify(pdf []byte, plant []byte) (Verification, error) {
 	var v Verification
+	if len(pdf) > MaxRecordSize {
+		return v, &SizeError{What: "pasval record", Limit: MaxRecordSize}
+	}
 	if !bytes.HasPrefix(pdf, []byte("%PDF-")) {
 		return v, fmt.Errorf("not a PDF file: %w", ErrUnreadable)
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -61,6 +62,12 @@ func manPageName(c *cobra.Command) string {
 	return strings.ReplaceAll(c.CommandPath(), " ", "-") + ".1"
 }
 
+// manPage is one rendered page and the file it goes to.
+type manPage struct {
+	path string
+	text []byte
+}
+
 func runDocs(root *cobra.Command, opts docsOptions, out io.Writer) error {
 	if st, err := os.Stat(opts.dir); err != nil || !st.IsDir() {
 		return usagef("%s is not a folder (create it first)", opts.dir)
@@ -79,23 +86,29 @@ func runDocs(root *cobra.Command, opts docsOptions, out io.Writer) error {
 		}
 	}
 	walk(root)
-	if !opts.force {
-		// Refuse before writing anything, so that a refusal leaves no mixed set.
-		for _, c := range cmds {
-			if _, err := os.Lstat(filepath.Join(opts.dir, manPageName(c))); err == nil {
-				return usagef("%s already exists; use --force to overwrite the pages", filepath.Join(opts.dir, manPageName(c)))
-			}
-		}
-	}
+	// Render every page, then check every target, before writing any: a
+	// refusal (a page without --force, a folder or pipe where a page goes)
+	// leaves the folder as it was, never a mixed set.
 	root.DisableAutoGenTag = true
+	pages := make([]manPage, 0, len(cmds))
 	for _, c := range cmds {
 		c.DisableAutoGenTag = true
 		var buf bytes.Buffer
 		if err := doc.GenMan(c, header, &buf); err != nil {
 			return err
 		}
-		path := filepath.Join(opts.dir, manPageName(c))
-		if err := fileout.Write(path, buf.Bytes(), opts.force); err != nil {
+		pages = append(pages, manPage{path: filepath.Join(opts.dir, manPageName(c)), text: buf.Bytes()})
+	}
+	for _, p := range pages {
+		if err := fileout.Check(p.path, opts.force); err != nil {
+			if errors.Is(err, fileout.ErrExists) {
+				return usagef("%s already exists; use --force to overwrite the pages", p.path)
+			}
+			return usagef("%v; no page was written", err)
+		}
+	}
+	for _, p := range pages {
+		if err := fileout.Write(p.path, p.text, opts.force); err != nil {
 			return usagef("%v", err)
 		}
 	}

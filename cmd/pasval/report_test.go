@@ -139,7 +139,7 @@ func TestRecordDeterminismTamperAndFiles(t *testing.T) {
 	// No temporary files are left beside the records.
 	entries, _ := os.ReadDir(dir)
 	for _, e := range entries {
-		if strings.Contains(e.Name(), ".tmp-") {
+		if strings.HasPrefix(e.Name(), ".") {
 			t.Errorf("temporary file left: %s", e.Name())
 		}
 	}

@@ -8,6 +8,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"pasval/internal/fileout"
 	"pasval/report"
 )
 
@@ -20,7 +21,9 @@ func newVerifyCmd(stdout io.Writer) *cobra.Command {
 		Short: "Check that a record matches its plant file",
 		Long: `verify reads a record written by 'pasval report'. Without a plant file it
 checks that the plant file attached to the record matches the SHA-256 in the
-record's metadata; with one, that the given file matches it too.`,
+record's metadata; with one, that the given file matches it too. ` + fmt.Sprintf(`Both are
+read only from regular files, a record of at most %d MiB (one is about 70 KB)
+and a plant file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20),
 		Example: `  pasval verify line2-record.pdf
   pasval verify line2-record.pdf line2.yaml`,
 		Args: func(cmd *cobra.Command, args []string) error {
@@ -47,14 +50,14 @@ Exit status:
 }
 
 func runVerify(recordPath, plantPath string, out io.Writer) error {
-	pdf, err := os.ReadFile(recordPath)
+	pdf, err := readRegular(recordPath, "record", report.ReadRecord)
 	if err != nil {
-		return usagef("cannot read the record: %v", err)
+		return err
 	}
 	var plant []byte
 	if plantPath != "" {
-		if plant, err = os.ReadFile(plantPath); err != nil {
-			return usagef("cannot read the plant file: %v", err)
+		if plant, err = readRegular(plantPath, "plant file", report.ReadPlantFile); err != nil {
+			return err
 		}
 	}
 	v, err := report.Verify(pdf, plant)
@@ -75,6 +78,36 @@ func runVerify(recordPath, plantPath string, out io.Writer) error {
 	}
 	fmt.Fprintln(out, "MATCH")
 	return nil
+}
+
+// readRegular reads a file named on the command line through read, which
+// bounds its size. Only a regular file (or a link to one) is opened: a named
+// pipe would block until written and a device may never end. The file is
+// checked again once open, in case it was swapped meanwhile.
+func readRegular(path, what string, read func(io.Reader) ([]byte, error)) ([]byte, error) {
+	st, err := os.Stat(path)
+	if err != nil {
+		return nil, usagef("cannot read the %s: %v", what, err)
+	}
+	if !st.Mode().IsRegular() {
+		return nil, usagef("%s: not a regular file (%s); verify reads the %s from a file", path, fileout.Kind(st.Mode()), what)
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, usagef("cannot read the %s: %v", what, err)
+	}
+	defer f.Close() // read-only: a close error loses nothing
+	if now, err := f.Stat(); err != nil || !os.SameFile(st, now) {
+		return nil, usagef("%s: the file changed while being opened; try again", path)
+	}
+	data, err := read(f)
+	if err != nil {
+		if errors.Is(err, report.ErrUnreadable) {
+			return nil, usagef("%s: %v", path, err)
+		}
+		return nil, usagef("cannot read the %s: %v", what, err)
+	}
+	return data, nil
 }
 
 func okWord(ok bool) string {
