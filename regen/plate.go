@@ -32,8 +32,10 @@ type PlateGeometry struct {
 	// PressingDepth b is the mean channel gap, > 0 (typically 2–5 mm).
 	PressingDepth float64
 	// EnlargementFactor Φ is the developed over the projected plate area,
-	// 1 ≤ Φ ≤ 2 (typically 1.1–1.25; Martin's sinusoidal pressing gives at
-	// most about 1.7 for the deepest pressings, so above 2 is taken as a typo).
+	// 1 ≤ Φ ≤ 2 (typically 1.1–1.25; a sinusoidal pressing as deep as its
+	// pitch/π gives about 1.7 by Martin's approximation
+	// Φ ≈ (1 + √(1+X²) + 4√(1+X²/2))/6, X = 2πb/pitch, from memory; above 2
+	// is taken as a typo).
 	EnlargementFactor float64
 	ChannelWidth      float64 // w, inside the gasket, > 0
 	PortToPortLength  float64 // L_p, port centre to port centre as entered, nothing subtracted, > 0

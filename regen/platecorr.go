@@ -24,8 +24,9 @@ const (
 	// BranchBandLow and BranchBandHigh bound the band, ±25 % around the
 	// switch, in which a rating is flagged: a modest change of flow or
 	// temperature there moves the result across the jump. The width is the
-	// project's choice; the literature describes the real transition in
-	// chevron channels as gradual, not as a step.
+	// project's choice; the real transition in chevron channels is gradual,
+	// not a step (as the python3-fluids 1.0.22 documentation of these
+	// correlations notes).
 	BranchBandLow  = 1500.0
 	BranchBandHigh = 2500.0
 	// PortLossCoefficient is the number of velocity heads lost per pass in
