@@ -86,7 +86,8 @@ func solveWithPack(pack PlatePack, flows PackFlows, section func(u float64) (Sec
 // PackExchange is a section rated from its two inlets with constant
 // capacity rates, its U from a plate pack.
 type PackExchange struct {
-	Name            string // the section's name in messages, e.g. "regeneration"
+	Kind            SectionKind // what the section does (names it in messages)
+	Stage           string      // cooling stage name, "" otherwise
 	Pack            PlatePack
 	PlateArea       float64 // effective heat-transfer area per thermal plate, m², > 0
 	Arrangement     Arrangement
@@ -113,20 +114,20 @@ type PackExchange struct {
 func RateWithPack(x PackExchange) (Section, PackRating, error) {
 	if !(x.PlateArea > 0) || !(x.ProductCapacity > 0) || !(x.OtherCapacity > 0) || !(x.Flows.OtherMassFlow > 0) {
 		panic(fmt.Sprintf("%sRateWithPack(%q): plate area %g, capacities %g and %g, other mass flow %g",
-			panicPrefix, x.Name, x.PlateArea, x.ProductCapacity, x.OtherCapacity, x.Flows.OtherMassFlow))
+			panicPrefix, label(x.Kind.String(), x.Stage), x.PlateArea, x.ProductCapacity, x.OtherCapacity, x.Flows.OtherMassFlow))
 	}
 	if err := x.Pack.Validate(); err != nil {
 		return Section{}, PackRating{}, err
 	}
 	if !(x.ProductIn != x.OtherIn) {
-		return Section{}, PackRating{}, sectionErrorf(x.Name, "both streams enter at %.2f °C; there is no heat to exchange", x.ProductIn)
+		return Section{}, PackRating{}, sectionErrorf(label(x.Kind.String(), x.Stage), "both streams enter at %.2f °C; there is no heat to exchange", x.ProductIn)
 	}
 	plates := x.Pack.ThermalPlates()
 	area := float64(plates) * x.PlateArea
 	productHot := x.ProductIn > x.OtherIn
 	section := func(u float64) (Section, error) {
 		surf := Surface{Arrangement: x.Arrangement, U: u, PlateArea: x.PlateArea, Plates: plates}
-		sec := Section{Name: x.Name, ProductIn: x.ProductIn, OtherIn: x.OtherIn,
+		sec := Section{Kind: x.Kind, Stage: x.Stage, ProductIn: x.ProductIn, OtherIn: x.OtherIn,
 			ProductCapacity: x.ProductCapacity, OtherCapacity: x.OtherCapacity}
 		st := streams{hotIn: x.OtherIn, coldIn: x.ProductIn, cHot: x.OtherCapacity, cCold: x.ProductCapacity, hot: "other", cold: "product"}
 		if productHot {

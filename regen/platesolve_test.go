@@ -24,7 +24,7 @@ func TestRateWithPackAgainstReference(t *testing.T) {
 		n++
 		t.Run(name, func(t *testing.T) {
 			sec, r, err := RateWithPack(PackExchange{
-				Name: name, Pack: referencePack(c), PlateArea: c["plate_area"], Arrangement: Counterflow,
+				Kind: RegenerationSection, Pack: referencePack(c), PlateArea: c["plate_area"], Arrangement: Counterflow,
 				Flows:           PackFlows{Product: WaterFluid{}, Other: WaterFluid{}, ProductMassFlow: c["m_p"], OtherMassFlow: c["m_o"]},
 				ProductCapacity: c["C_p"], OtherCapacity: c["C_o"], ProductIn: c["tin_p"], OtherIn: c["tin_o"],
 			})
@@ -145,7 +145,7 @@ func TestSolveWithPackPlatesMismatch(t *testing.T) {
 
 func TestRateWithPackEqualInlets(t *testing.T) {
 	flows := PackFlows{Product: WaterFluid{}, Other: WaterFluid{}, ProductMassFlow: 2.8, OtherMassFlow: 2.8}
-	_, _, err := RateWithPack(PackExchange{Name: "regeneration", Pack: demoPack(), PlateArea: 0.42, Flows: flows,
+	_, _, err := RateWithPack(PackExchange{Kind: RegenerationSection, Pack: demoPack(), PlateArea: 0.42, Flows: flows,
 		ProductCapacity: 11700, OtherCapacity: 11700, ProductIn: 40, OtherIn: 40})
 	var se *SectionError
 	if !errors.As(err, &se) || se.Section != "regeneration" {
@@ -248,7 +248,7 @@ func TestSizeWithPack(t *testing.T) {
 // both sides, rated from its inlets: the calculation the plates what-if
 // repeats for each option.
 func BenchmarkRateWithPackRegenerator(b *testing.B) {
-	x := PackExchange{Name: "regeneration", Pack: demoPack(), PlateArea: 0.42,
+	x := PackExchange{Kind: RegenerationSection, Pack: demoPack(), PlateArea: 0.42,
 		Flows:           PackFlows{Product: milkLike, Other: milkLike, ProductMassFlow: 2.8, OtherMassFlow: 2.8},
 		ProductCapacity: 2.8 * 3900, OtherCapacity: 2.8 * 3900, ProductIn: 4, OtherIn: 72}
 	for b.Loop() {
