@@ -15,7 +15,7 @@ import (
 //
 // With k = 0 the tube is isothermal at the setpoint.
 //
-// References: DOMAIN.md §2 (holding-tube heat loss); Incropera et al. (2007)
+// References: docs/METHOD.md §8 (holding-tube heat loss); Incropera et al. (2007)
 // Eq. 8.46a (constant surrounding temperature, overall coefficient).
 type Profile struct {
 	Outlet  float64 // °C: the diversion setpoint at the tube outlet
@@ -87,7 +87,7 @@ func integrate(f func(x float64) float64, length float64) float64 {
 //	LR = ∫₀ᴸ dx / (u_max D(T(x)))      (= t_min / D(T_set) when isothermal)
 //
 // References: Stumbo, Thermobacteriology in Food Processing, 2nd ed. (1973);
-// DOMAIN.md §2 (Lethality).
+// docs/METHOD.md §9.2 (Lethality).
 func LogReduction(p Profile, uMax float64, o Organism) float64 {
 	if p.Decay == 0 {
 		return p.Length / uMax / o.DAt(p.Outlet)
@@ -114,7 +114,7 @@ const (
 // PasteurizationUnits is PU = ∫ 10^((T − 60)/7) dt / 60 s (the z = 7 °C form;
 // the older 1.393^(T−60) form corresponds to z ≈ 6.95 °C).
 //
-// References: DOMAIN.md §2; Del Vecchio et al. (1951), Wallerstein Lab. Commun. 14:185.
+// References: docs/METHOD.md §9.3; Del Vecchio et al. (1951), Wallerstein Lab. Commun. 14:185.
 func PasteurizationUnits(p Profile, uMax float64) float64 {
 	return EquivalentTime(p, uMax, PUReference, PUZ) / 60
 }
@@ -171,7 +171,7 @@ type LegalVerdict struct {
 // Rows are never interpolated: the table is not one z-line (63 °C/30 min and
 // 72 °C/15 s imply z = 4.33 °C; 72 °C/15 s and 89 °C/1 s imply z = 14.45 °C).
 //
-// References: DOMAIN.md §2 (Legal minimum table) and §3.
+// References: docs/METHOD.md §10 (Legal minimum table) and §3.
 func JudgeLegal(rows []LegalRow, setpoint, minResidence, relTol float64) LegalVerdict {
 	idx := make([]int, 0, len(rows))
 	for i, r := range rows {

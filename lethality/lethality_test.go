@@ -13,13 +13,13 @@ func TestFastestToMean(t *testing.T) {
 		got, want float64
 		tol       float64
 	}{
-		// Laminar Newtonian: 2 (Poiseuille profile; DOMAIN.md §2).
+		// Laminar Newtonian: 2 (Poiseuille profile; docs/METHOD.md §7.4).
 		{"laminar newtonian", LaminarFastestToMean(1), 2, 1e-15},
-		// Laminar power law (3n+1)/(n+1): n = 0.5 → 2.5/1.5 (Steffe 1996; from memory per DOMAIN.md).
+		// Laminar power law (3n+1)/(n+1): n = 0.5 → 2.5/1.5 (Steffe 1996; from memory; docs/METHOD.md §7.4).
 		{"laminar n 0.5", LaminarFastestToMean(0.5), 2.5 / 1.5, 1e-15},
 		{"laminar n 0.7", LaminarFastestToMean(0.7), 3.1 / 1.7, 1e-15},
 		// Turbulent: published holding-section sizing guidance quotes 1.33 at Re 4000
-		// and 1.25 at Re 20 000 (DOMAIN.md §2); the formula gives 1.32608 and 1.25565
+		// and 1.25 at Re 20 000 (docs/METHOD.md §7.4); the formula gives 1.32608 and 1.25565
 		// (computed with python3).
 		{"turbulent Re 4000", TurbulentFastestToMean(4000), 1.33, 0.005},
 		{"turbulent Re 20000", TurbulentFastestToMean(20000), 1.25, 0.005},
@@ -62,7 +62,7 @@ func TestMetznerReedReducesToNewtonian(t *testing.T) {
 }
 
 func TestRegimes(t *testing.T) {
-	// DOMAIN.md §2: < 2100 laminar, 2100–4000 transitional (treated as laminar), ≥ 4000 turbulent.
+	// docs/METHOD.md §7.3: < 2100 laminar, 2100–4000 transitional (treated as laminar), ≥ 4000 turbulent.
 	for re, want := range map[float64]Regime{100: Laminar, 2099: Laminar, 2100: Transitional, 3999: Transitional, 4000: Turbulent} {
 		if got := RegimeOf(re); got != want {
 			t.Errorf("Re %g: %v, want %v", re, got, want)
@@ -97,14 +97,14 @@ func TestListeriaLogReduction(t *testing.T) {
 	if got := EquivalentTime(p, 1, 71.7, 6.3); !near(got, 15, 1e-12) {
 		t.Errorf("equivalent time %g", got)
 	}
-	// PU: 1 min at 60 °C is 1 PU (definition, DOMAIN.md §2).
+	// PU: 1 min at 60 °C is 1 PU (definition, docs/METHOD.md §9.3).
 	if got := PasteurizationUnits(Isothermal(60, 60), 1); !near(got, 1, 1e-12) {
 		t.Errorf("PU %g", got)
 	}
 }
 
 func TestHeatLossProfile(t *testing.T) {
-	// Closed form (DOMAIN.md §2): T(x) = Ta + (Tin − Ta) exp(−k x), k = h π Do /(ṁ cp),
+	// Closed form (docs/METHOD.md §8): T(x) = Ta + (Tin − Ta) exp(−k x), k = h π Do /(ṁ cp),
 	// outlet held at the setpoint. Hand-worked: h 10 W/(m²·K), Do 0.0508 m, ṁ 3 kg/s,
 	// cp 3900 → k = 10·π·0.0508/11 700 = 1.364038e-4 1/m; L = 30 m, Ta 20 °C, setpoint 72 °C:
 	// Tin = 20 + 52·exp(30k) = 72.213227 °C (computed with python3).
@@ -133,7 +133,7 @@ func TestHeatLossProfile(t *testing.T) {
 	}
 }
 
-// pmo is the Grade "A" PMO continuous-flow table (DOMAIN.md §3, as copied in
+// pmo is the Grade "A" PMO continuous-flow table (docs/METHOD.md §10.2, as copied in
 // Michigan Compiled Laws 288.697 and Texas 25 TAC §217.1).
 var pmo = []LegalRow{{63, 1800}, {72, 15}, {89, 1}, {90, 0.5}, {94, 0.1}, {96, 0.05}, {100, 0.01}}
 
@@ -167,7 +167,7 @@ func TestJudgeLegal(t *testing.T) {
 		t.Errorf("below every row: %+v", v)
 	}
 	// The z-values the rows imply differ, which is why they are not one line:
-	// (72 − 63)/log10(1800/15) = 4.33 °C, (89 − 72)/log10(15/1) = 14.45 °C (DOMAIN.md §2).
+	// (72 − 63)/log10(1800/15) = 4.33 °C, (89 − 72)/log10(15/1) = 14.45 °C (docs/METHOD.md §10.1).
 	if z1, z2 := 9/math.Log10(120), 17/math.Log10(15); !near(z1, 4.33, 0.001) || !near(z2, 14.45, 0.001) {
 		t.Errorf("implied z %g %g", z1, z2)
 	}

@@ -10,7 +10,7 @@
 //		lethality.Newtonian{Viscosity: 0.7e-3}, 0)
 //	fmt.Println(h.Regime, h.FastestToMean, h.MinResidence)
 //
-// Conventions (shared/DOMAIN.md §2): holding time is judged at the sealed
+// Conventions (docs/METHOD.md §7): holding time is judged at the sealed
 // maximum flow for the fastest particle, which moves at FastestToMean times the
 // mean velocity; transitional flow (2100 ≤ Re < 4000) is treated as laminar.
 //
@@ -46,7 +46,7 @@ func (t Tube) Volume() float64 { return t.CrossSection() * t.Length }
 func (t Tube) Slope() float64 { return t.Rise / t.Length }
 
 // DefaultMinSlope is 0.25 in per ft (2.083 cm/m), the minimum continuous
-// upward slope of the Grade "A" PMO, Item 16p (from memory; see DOMAIN.md §2).
+// upward slope of the Grade "A" PMO, Item 16p (from memory; see docs/METHOD.md §7.6).
 const DefaultMinSlope = 0.25 / 12
 
 // Rheology is the product's flow behaviour at the holding temperature.
@@ -105,7 +105,7 @@ func (r Regime) String() string {
 	return "laminar"
 }
 
-// Regime limits on the Reynolds number (DOMAIN.md §2).
+// Regime limits on the Reynolds number (docs/METHOD.md §7.3).
 const (
 	LaminarLimit   = 2100.0
 	TurbulentLimit = 4000.0
@@ -128,7 +128,7 @@ func RegimeOf(re float64) Regime {
 //	u_max/u_mean = (3n + 1)/(n + 1)   (= 2 for a Newtonian fluid, n = 1)
 //
 // References: Steffe (1996), ch. 1; Skelland, Non-Newtonian Flow and Heat
-// Transfer (1967) (from memory, DOMAIN.md §2).
+// Transfer (1967) (from memory, docs/METHOD.md §7.4).
 func LaminarFastestToMean(n float64) float64 { return (3*n + 1) / (n + 1) }
 
 // TurbulentFastestToMean is u_max/u_mean in turbulent flow from a power-law
@@ -141,7 +141,7 @@ func LaminarFastestToMean(n float64) float64 { return (3*n + 1) / (n + 1) }
 // correlation's lower limit); it panics below 1000.
 //
 // References: Petukhov (1970) via Incropera et al. (2007) Eq. 8.21; Bird,
-// Stewart and Lightfoot (2002) §5.1 (from memory, DOMAIN.md §2).
+// Stewart and Lightfoot (2002) §5.1 (from memory, docs/METHOD.md §7.4).
 func TurbulentFastestToMean(re float64) float64 {
 	if !(re >= 1000) {
 		panic(fmt.Sprintf("%sTurbulentFastestToMean(Re=%g) below the correlation's range", panicPrefix, re))

@@ -13,7 +13,7 @@
 //		Regeneration: &regen.RegenSpec{Surface: regen.Surface{U: 3300, PlateArea: 0.35}, Ratio: 0.92},
 //	})
 //
-// Conventions (shared/DOMAIN.md §2): the pasteurized side enters regeneration at
+// Conventions (docs/METHOD.md §6.2): the pasteurized side enters regeneration at
 // the diversion setpoint; the same product flows on both sides, so C_r = 1 and
 // the regeneration ratio equals the effectiveness. Water media convert a
 // volumetric rate to mass at their inlet temperature and take cp at the mean of

@@ -12,7 +12,7 @@ func near(got, want, tol float64) bool {
 }
 
 func TestEffectiveness(t *testing.T) {
-	// Check values from shared/DOMAIN.md §2, computed from the ε–NTU relations
+	// Check values from docs/METHOD.md §5.2, computed from the ε–NTU relations
 	// (Incropera et al. 2007, Table 11.3).
 	tests := []struct {
 		name    string
@@ -46,7 +46,7 @@ func TestEffectiveness(t *testing.T) {
 }
 
 func TestNTUInverse(t *testing.T) {
-	// DOMAIN.md §2: 90 % regeneration (C_r = 1) needs NTU = 0.9/0.1 = 9.
+	// docs/METHOD.md §6.2: 90 % regeneration (C_r = 1) needs NTU = 0.9/0.1 = 9.
 	n, err := NTU(Counterflow, 0.9, 1)
 	if err != nil || !near(n, 9, 1e-12) {
 		t.Fatalf("NTU(0.9, 1) = %g, %v; want 9", n, err)
@@ -66,7 +66,7 @@ func TestNTUInverse(t *testing.T) {
 }
 
 func TestCocurrentCeiling(t *testing.T) {
-	// DOMAIN.md §2: a co-current section with C_r = 1 can never pass 50 %.
+	// docs/METHOD.md §5.2: a co-current section with C_r = 1 can never pass 50 %.
 	for _, eps := range []float64{0.5, 0.6, 0.92} {
 		_, err := NTU(Cocurrent, eps, 1)
 		if !errors.Is(err, ErrInfeasible) || !strings.Contains(err.Error(), "co-current flow cannot") {
@@ -86,7 +86,7 @@ func TestCocurrentCeiling(t *testing.T) {
 }
 
 func TestLMTD(t *testing.T) {
-	// Symmetry and the equal-difference limit (DOMAIN.md §2, Incropera Eq. 11.15).
+	// Symmetry and the equal-difference limit (docs/METHOD.md §5.1, Incropera Eq. 11.15).
 	a, _ := LMTD(10, 4)
 	b, _ := LMTD(4, 10)
 	// (10 − 4)/ln(2.5) = 6.548089… (computed).
@@ -110,7 +110,7 @@ func TestLMTD(t *testing.T) {
 }
 
 func TestRegenerationSizingAndRating(t *testing.T) {
-	// DOMAIN.md §2 check: raw 4 → 65 °C with pasteurized product entering at 72 °C
+	// docs/METHOD.md §6.2 check: raw 4 → 65 °C with pasteurized product entering at 72 °C
 	// is (65 − 4)/(72 − 4) = 89.7 % regeneration (computed).
 	spec := RegenSpec{Surface: Surface{U: 3000, PlateArea: 0.3}, Ratio: 61.0 / 68.0}
 	sec, err := Regeneration(spec, 10000, 4, 72)
@@ -288,7 +288,7 @@ func TestWaterEnergyBalance(t *testing.T) {
 }
 
 func TestPlatesFor(t *testing.T) {
-	// DOMAIN.md §2: plates = ceil(area / plate area); an exact multiple does not round up.
+	// docs/METHOD.md §6.6: plates = ceil(area / plate area); an exact multiple does not round up.
 	for _, c := range []struct {
 		a, p float64
 		want int

@@ -137,7 +137,7 @@ type RegenSpec struct {
 //	sizing: NTU = NTU(ε = ratio, C_r = 1), A = NTU·C/U
 //	rating: A = plates × plate area, ratio = ε(U A / C, 1)
 //
-// References: shared/DOMAIN.md §2 (Regeneration); Incropera et al. (2007), §11.4.
+// References: docs/METHOD.md §6.2 (Regeneration); Incropera et al. (2007), §11.4.
 func Regeneration(spec RegenSpec, c, rawIn, hotIn float64) (Section, error) {
 	sec := Section{Kind: RegenerationSection}
 	span := hotIn - rawIn

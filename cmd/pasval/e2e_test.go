@@ -96,7 +96,7 @@ func checkJSON(t *testing.T, path string) (jsonResult, int) {
 }
 
 func TestDemoMilkSI(t *testing.T) {
-	// Expected values are worked by hand from the plant file (DOMAIN.md §2 conventions):
+	// Expected values are worked by hand from the plant file (docs/METHOD.md §2, §6 conventions):
 	// C = 10 000 L/h × 1.031 kg/L × 3930 J/(kg·K) / 3600 s/h = 11 254.90 W/K.
 	// Regeneration 92 %: raw 5 → 5 + 0.92·67.5 = 67.1 °C, pasteurized 72.5 → 10.4 °C,
 	// NTU = 0.92/0.08 = 11.5, area = 11.5·C/3300 = 39.2223 m², plates = ceil(39.2223/0.35) = 113.
@@ -117,7 +117,7 @@ func TestDemoMilkSI(t *testing.T) {
 		{"NTU", rg.NTU, 11.5},
 		{"area", rg.AreaM2, 11.5 * c / 3300},
 		{"duty", rg.DutyKW, c * 62.1 / 1e3},
-		// Heat loss in the holding tube (DOMAIN.md §2): the heater delivers the tube inlet at the
+		// Heat loss in the holding tube (docs/METHOD.md §8): the heater delivers the tube inlet at the
 		// normal rate, 20 + 52.5·exp(12·π·0.0508·34/(ṁ·cp)) °C, ṁ = 10 000 L/h × 1.031 kg/L.
 		{"heating duty", r.Sections[1].DutyKW, c * (20 + 52.5*math.Exp(12*math.Pi*0.0508*34/c) - 67.1) / 1e3},
 		{"cooling duty", r.Sections[2].DutyKW, c * 6.4 / 1e3},
@@ -144,7 +144,7 @@ func TestDemoMilkSI(t *testing.T) {
 func TestDemoCiderUS(t *testing.T) {
 	// Rated line in US units. Regeneration: 40 plates × 2.7 ft² × 520 Btu/(h·ft²·°F)
 	// on C = 18 gpm × 65.2 lb/ft³ × 0.91 Btu/(lb·°F): NTU = UA/C, ratio = NTU/(1+NTU)
-	// (C_r = 1, DOMAIN.md §2), computed below from exact NIST SP 811 factors.
+	// (C_r = 1, docs/METHOD.md §6.2), computed below from exact NIST SP 811 factors.
 	path := filepath.Join(demoDir, "cider-us.yaml")
 	r, code := checkJSON(t, path)
 	if code != 0 || !r.Pass || len(r.Checks) != 4 {

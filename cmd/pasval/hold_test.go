@@ -55,7 +55,7 @@ func holdOf(t *testing.T, cmd, path string) (holdJSON, int) {
 }
 
 func TestFrozenDessertFailsItsLegalTime(t *testing.T) {
-	// Hand-worked from the plant file: 2 in sanitary tube, ID 1.870 in (DOMAIN.md §2,
+	// Hand-worked from the plant file: 2 in sanitary tube, ID 1.870 in (docs/METHOD.md §7.1,
 	// from memory) = 0.047498 m; Q = 3300 L/h; v = Q/(πD²/4) = 0.51726 m/s.
 	// Power law n 0.65, K 0.28 Pa·s^0.65, ρ 1100: Metzner–Reed
 	// Re = ρ v^(2−n) Dⁿ / (K 8^(n−1) ((3n+1)/(4n))ⁿ) ≈ 425 → laminar,
@@ -119,7 +119,7 @@ func TestCiderLethality(t *testing.T) {
 	// Isothermal tube (no heat loss entered): LR = t_min / D(T_set) with
 	// D(T) = D_ref·10^((T_ref − T)/z); E. coli O157:H7 in apple juice D52 = 18 min,
 	// z = 4.8 °C (Splittstoesser et al. 1996; entered as 125.6 °F and 8.64 °F).
-	// PU = t_min/60 · 10^((T − 60)/7) (DOMAIN.md §2).
+	// PU = t_min/60 · 10^((T − 60)/7) (docs/METHOD.md §9.3).
 	r, code := holdOf(t, "hold", filepath.Join(demoDir, "cider-us.yaml"))
 	if code != 0 || len(r.Lethality) != 1 {
 		t.Fatalf("exit %d %+v", code, r)
@@ -144,7 +144,7 @@ func TestCiderLethality(t *testing.T) {
 func TestHeatLossFeedsTheHeater(t *testing.T) {
 	// SI demo: heat loss is entered, so the tube inlet is above the setpoint, and the
 	// heater's product outlet (normal rate, flatter profile at the lower flow) is above
-	// the judged inlet at the sealed maximum (DOMAIN.md §2).
+	// the judged inlet at the sealed maximum (docs/METHOD.md §8).
 	r, _ := holdOf(t, "check", filepath.Join(demoDir, "htst-milk-si.yaml"))
 	h := r.HoldingTube
 	if !(h.InletC > h.OutletC) || h.OutletC != 72.5 {

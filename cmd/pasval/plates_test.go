@@ -1,7 +1,7 @@
 package main
 
 // Source of the expected values: relations computed from the plant files
-// (payback = added × plate cost / annual saving, DOMAIN.md §2 for the ε–NTU
+// (payback = added × plate cost / annual saving, docs/METHOD.md §5.2, §18 for the ε–NTU
 // ceiling); the numbers themselves are checked against hand calculations in
 // internal/assess/whatif_test.go.
 
@@ -93,7 +93,7 @@ func TestPlatesCommand(t *testing.T) {
 
 func TestCompareArrangements(t *testing.T) {
 	// The SI demo's 92 % regenerator cannot be co-current (ceiling 50 % at C_r = 1,
-	// DOMAIN.md §2); heating and cooling can, with more area.
+	// docs/METHOD.md §6.2); heating and cooling can, with more area.
 	out, _, code := runBinary(t, "check", "--json", "--compare-arrangements", filepath.Join(demoDir, "htst-milk-si.yaml"))
 	var r struct {
 		Comparison []struct {

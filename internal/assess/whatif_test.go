@@ -1,7 +1,7 @@
 package assess
 
 // Source of the expected values: hand calculations written out beside each
-// case, computed from ε = NTU/(1+NTU) at C_r = 1 (DOMAIN.md §2).
+// case, computed from ε = NTU/(1+NTU) at C_r = 1 (docs/METHOD.md §5.2).
 
 import (
 	"math"
@@ -83,7 +83,7 @@ func TestAddPlatesHandWorked(t *testing.T) {
 
 func TestAddPlatesEnergyBalance(t *testing.T) {
 	// Heating saved equals cooling saved equals C·Δratio·(setpoint − raw) for every option
-	// (same product both sides of the regenerator; DOMAIN.md §2).
+	// (same product both sides of the regenerator; docs/METHOD.md §6.2).
 	p := load(t, whatIfPlant)
 	w, err := AddPlates(p, []int{1, 7, 40, 200}, DefaultKneeFraction)
 	if err != nil {

@@ -6,7 +6,7 @@ import (
 )
 
 func TestChoiOkosMilk(t *testing.T) {
-	// Check values from shared/DOMAIN.md §2, computed from the Choi–Okos table:
+	// Check values from docs/METHOD.md §2.2, computed from the Choi–Okos table:
 	// milk of 87.8 % water, 3.2 % protein, 3.5 % fat, 4.8 % carbohydrate,
 	// 0.7 % ash at 72 °C → cp ≈ 3.913 kJ/(kg·K), ρ ≈ 1005.0 kg/m³, k ≈ 0.6207 W/(m·K).
 	milk := Composition{Water: 0.878, Protein: 0.032, Fat: 0.035, Carbohydrate: 0.048, Ash: 0.007}
@@ -36,7 +36,7 @@ func TestChoiOkosMilk(t *testing.T) {
 }
 
 func TestViscosityCurve(t *testing.T) {
-	// ln μ linear in T (shared/DOMAIN.md §2): midway between 4 °C/2.9 mPa·s and
+	// ln μ linear in T (docs/METHOD.md §4.1): midway between 4 °C/2.9 mPa·s and
 	// 72 °C/0.7 mPa·s the value is the geometric mean √(2.9·0.7) = 1.42478 mPa·s (computed).
 	c, err := NewViscosityCurve([]ViscosityPoint{{72, 0.7e-3}, {4, 2.9e-3}})
 	if err != nil {

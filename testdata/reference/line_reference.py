@@ -7,7 +7,7 @@ Prints JSON: for each demo, per section the duty (W), the four temperatures
 (degC), LMTD (K), NTU, effectiveness, required area (m2) and plates. The Go
 test cmd/pasval/reference_test.go compares pasval's --json output with it.
 
-Conventions from shared/DOMAIN.md section 2: water volumetric rates convert to
+Conventions from docs/METHOD.md §3.5 and §6: water volumetric rates convert to
 mass at the inlet temperature; cp at the mean of inlet and outlet, iterated;
 water at 0.101325 MPa (1.01 p_sat above 100 degC).
 """
@@ -70,7 +70,7 @@ def milk_si():
     rho, cp = 1031.0, 3930.0
     c = 10000e-3 / 3600 * rho * cp
     raw, sp, target = 5.0, 72.5, 4.0
-    # Holding-tube heat loss (DOMAIN.md section 2): the heater must deliver the tube
+    # Holding-tube heat loss (docs/METHOD.md §8): the heater must deliver the tube
     # inlet at the normal rate, T_in = Ta + (T_set - Ta) exp(h pi Do L / (m cp)),
     # with h = 12 W/(m2 K), Do = 2 in, L = 34 m, Ta = 20 degC.
     m = 10000e-3 / 3600 * rho
