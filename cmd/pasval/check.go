@@ -131,6 +131,12 @@ func writeSections(w io.Writer, res *assess.Result, d present.Display) {
 	tableOf(present.Sections(res, d)).write(w)
 	fmt.Fprintf(w, "\nTemperatures (%s)\n", d.Unit(units.Temperature))
 	tableOf(present.Temperatures(res, d)).write(w)
+	if g := present.PackSides(res, d); len(g.Rows) > 0 {
+		fmt.Fprintf(w, "\nPlate packs (normal rate; Martin's correlation, docs/METHOD.md §12)\n")
+		tableOf(g).write(w)
+		fmt.Fprintln(w)
+		tableOf(present.PackU(res, d)).write(w)
+	}
 	if res.RegenerationRatio != nil {
 		fmt.Fprintf(w, "\nRegeneration ratio  %.1f %%\n", *res.RegenerationRatio*100)
 	}

@@ -71,11 +71,18 @@ func runHold(opts holdOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
-	worded := present.ForJSON(res)
+	// A heat-exchange section's warnings (its plate pack) are check's, not hold's.
+	only := *res
+	only.Warnings = []assess.Warning{}
+	for _, w := range res.Warnings {
+		if w.Section == "" {
+			only.Warnings = append(only.Warnings, w)
+		}
+	}
+	worded := present.ForJSON(&only)
 	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
 		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: worded.Warnings,
 		Pass: true, Caution: res.Caution}
-	only := *res
 	only.Checks = []assess.Check{}
 	for i, c := range res.Checks {
 		if c.IsHolding() {
@@ -93,7 +100,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
 		writeChecks(out, &only, d, useColour(out))
-		writeWarnings(out, present.Warnings(res, d))
+		writeWarnings(out, present.Warnings(&only, d))
 		fmt.Fprint(out, "\n"+wrap(res.Caution, "Caution:", 88))
 	}
 	if !rep.Pass {

@@ -38,6 +38,7 @@ const Caution = "This result supports, and never replaces, the regulatory accept
 type Check struct {
 	ID         CheckID `json:"id"`
 	Organism   string  `json:"organism,omitempty"`
+	Section    string  `json:"section,omitempty"` // the section judged, as regen labels it (pressure-drop)
 	Pass       bool    `json:"pass"`
 	Required   float64 `json:"required"`
 	Actual     float64 `json:"actual"`
@@ -91,6 +92,9 @@ type Section struct {
 	OtherOutC         float64           `json:"other_out_C"`
 	MediumAvailableC  *float64          `json:"medium_available_in_C,omitempty"`
 	MediumMassFlowKgS float64           `json:"medium_mass_flow_kg_s,omitempty"`
+	// PackFigures are the plate pack's results (docs/METHOD.md §12), absent
+	// without one; u_W_m2K above stays the U the section used.
+	*PackFigures
 
 	raw regen.Section
 }
@@ -204,8 +208,8 @@ func choiOkos(c *plantfile.Composition) props.Composition {
 }
 
 func surface(pl plantfile.Plates) regen.Surface {
-	u := pl.UValue.SI
-	if pl.Fouling.Set && pl.Fouling.SI > 0 {
+	u := pl.UValue.SI // 0 with a plate pack and no u_value: the pack sets U
+	if pl.Fouling.Set && pl.Fouling.SI > 0 && u > 0 {
 		u = 1 / (1/u + pl.Fouling.SI)
 	}
 	s := regen.Surface{U: u, PlateArea: pl.PlateArea.SI, Plates: pl.Plates}
@@ -248,6 +252,9 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 		}
 		in.Cooling = append(in.Cooling, cs)
 	}
+	if err := linePacks(p, res.Product, &in); err != nil {
+		return err
+	}
 	line, err := regen.Line(in)
 	if err != nil {
 		return sectionError(p, err)
@@ -259,7 +266,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 			AreaM2: s.Area(), RequiredAreaM2: s.RequiredArea, InstalledAreaM2: s.InstalledArea,
 			Plates: s.Plates, PlateAreaM2: s.PlateArea, UWm2K: s.U,
 			ProductInC: s.ProductIn, ProductOutC: s.ProductOut, OtherInC: s.OtherIn, OtherOutC: s.OtherOut,
-			MediumMassFlowKgS: s.MediumMassFlow, raw: s,
+			MediumMassFlowKgS: s.MediumMassFlow, PackFigures: packFigures(s.Pack), raw: s,
 		}
 		if s.Kind == regen.HeatingSection && s.Mode == regen.Rating {
 			avail := line.HeatingMediumAvailable
@@ -269,6 +276,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 			res.Checks = append(res.Checks, c)
 		}
 		res.Sections = append(res.Sections, out)
+		packResults(p, res, out)
 	}
 	if !math.IsNaN(line.RegenerationRatio) {
 		r := line.RegenerationRatio
@@ -294,9 +302,17 @@ func sectionError(p *plantfile.Plant, err error) error {
 	name, msg := "", err.Error()
 	var ce *regen.CrossError
 	var se *regen.SectionError
+	var pe *regen.PackError
 	switch {
 	case errors.As(err, &ce):
 		name, msg = ce.Section, ce.Detail()
+	case errors.As(err, &pe):
+		if field, pl := sectionPlates(p, pe.Section); pl != nil {
+			if e := packInputError(field, *pl, pe.Err); e != nil {
+				return e
+			}
+		}
+		name, msg = pe.Section, pe.Err.Error()
 	case errors.As(err, &se):
 		name, msg = se.Section, se.Err.Error()
 	}

@@ -23,23 +23,39 @@ const (
 	WarnHoldingTimeLong     WarningCode = "holding-time-long"       // min_residence_s
 	WarnTubeVelocity        WarningCode = "tube-velocity-unusual"   // value_m_s, low_m_s, high_m_s
 	WarnOuterCoefficient    WarningCode = "outer-coefficient-high"  // value_W_m2K
+
+	// Plate packs (docs/METHOD.md §12.5); each names its section.
+	WarnPackReynolds              WarningCode = "plate-pack-reynolds-out-of-range"  // reynolds, low, high
+	WarnPackBranch                WarningCode = "plate-pack-near-branch-switch"     // reynolds, switch, low, high
+	WarnPackAngle                 WarningCode = "plate-pack-angle-above-range"      // angle_rad, high_rad
+	WarnPackApparentViscosity     WarningCode = "plate-pack-apparent-viscosity"     // flow_index
+	WarnPackUDiffers              WarningCode = "plate-pack-u-differs"              // entered_W_m2K, computed_clean_W_m2K, difference
+	WarnPackViscosityExtrapolated WarningCode = "plate-pack-viscosity-extrapolated" // at_C, lowest_C, highest_C
 )
 
 // WarningCodes lists every code (tests walk each through the wording).
 var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, WarnSensorAccuracy, WarnNoRise,
 	WarnUValue, WarnPlateArea, WarnFouling, WarnRatioHigh, WarnDensity, WarnSpecificHeat, WarnViscosityBelowWater,
-	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient}
+	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient,
+	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated}
 
 // Warning is something the user should look at that is not a failed check.
 // assess fills Code, Field and Values (SI, each key naming its unit);
 // Message is made by internal/present (in SI for JSON).
 type Warning struct {
-	Code    WarningCode        `json:"code"`
-	Field   string             `json:"field,omitempty"` // the plant-file path concerned, when there is one
+	Code  WarningCode `json:"code"`
+	Field string      `json:"field,omitempty"` // the plant-file path concerned, when there is one
+	// Section names the heat-exchange section concerned, as regen labels it
+	// ("regeneration", "cooling stage \"chilled water\""), when there is one.
+	Section string             `json:"section,omitempty"`
 	Message string             `json:"message"`
 	Values  map[string]float64 `json:"values,omitempty"`
 }
 
 func (r *Result) warn(code WarningCode, field string, values map[string]float64) {
 	r.Warnings = append(r.Warnings, Warning{Code: code, Field: field, Values: values})
+}
+
+func (r *Result) warnSection(code WarningCode, section, field string, values map[string]float64) {
+	r.Warnings = append(r.Warnings, Warning{Code: code, Section: section, Field: field, Values: values})
 }

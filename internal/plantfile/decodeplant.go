@@ -227,19 +227,19 @@ func (d *decoder) decodePack(o *object) *PlatePack {
 		pk.Conductivity = pl.quantity("conductivity")
 		pk.PortDiameter = pl.quantity("port_diameter")
 	}
-	side := func(s *object) SideLayout {
+	side := func(s *object, product bool) SideLayout {
 		if s == nil {
 			return SideLayout{}
 		}
 		l := SideLayout{Set: true, Pos: d.pos(s.node)}
 		l.Passes, l.PassesPos, _ = s.integer("passes")
 		l.ChannelsPerPass, l.ChannelsPos, _ = s.integer("channels_per_pass")
+		if product {
+			l.MaxPressureDrop = s.quantity("max_pressure_drop")
+		}
 		return l
 	}
-	pk.Product, pk.Other = side(ps), side(other)
-	if ps != nil {
-		pk.Product.MaxPressureDrop = ps.quantity("max_pressure_drop")
-	}
+	pk.Product, pk.Other = side(ps, true), side(other, false)
 	return pk
 }
 

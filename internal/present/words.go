@@ -2,6 +2,7 @@ package present
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"pasval/internal/assess"
@@ -106,6 +107,9 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 		return fmt.Sprintf("holding_tube.outer_coefficient %s is above what still air gives a bare tube (typically 5–15 W/(m²·K)); "+
 			"check the value and its unit", entered(p, w.Field))
 	}
+	if text, ok := packWarningText(w, p, d); ok {
+		return text
+	}
 	panic(fmt.Sprintf("%sno words for warning %q", panicPrefix, w.Code))
 }
 
@@ -140,4 +144,61 @@ func WordedChecks(checks []assess.Check, d Display) []assess.Check {
 		out[i] = c
 	}
 	return out
+}
+
+// packWarningText words the plate-pack warnings (docs/METHOD.md §12.5); each
+// begins with the section it concerns.
+func packWarningText(w assess.Warning, p *plantfile.Plant, d Display) (string, bool) {
+	v := w.Values
+	section := w.Section
+	if section == "" {
+		section = "plate pack"
+	}
+	switch w.Code {
+	case assess.WarnPackReynolds:
+		return fmt.Sprintf("%s: Re %.0f on the %s is outside %.0f–%.0f, the range of the data behind Martin's plate correlation; "+
+			"its film coefficient and pressure drop are extrapolated", section, v["reynolds"], PackSideName(w, p), v["low"], v["high"]), true
+	case assess.WarnPackBranch:
+		return fmt.Sprintf("%s: Re %.0f on the %s lies within %.0f–%.0f, around Re %.0f where Martin's friction factor switches branch "+
+			"(ξ jumps about 5 %%, h about 2 %%): a small change of flow or temperature moves U and the pressure drop across the jump",
+			section, v["reynolds"], PackSideName(w, p), v["low"], v["high"], v["switch"]), true
+	case assess.WarnPackAngle:
+		return fmt.Sprintf("%s: a chevron angle of %.1f° is above the %.0f° of the data behind Martin's plate correlation; U and the pressure drop are extrapolated",
+			section, v["angle_rad"]*180/math.Pi, v["high_rad"]*180/math.Pi), true
+	case assess.WarnPackApparentViscosity:
+		return fmt.Sprintf("%s: the %s is a power-law fluid (n = %.3g), rated with its apparent viscosity at the channel wall shear rate "+
+			"in correlations fitted to Newtonian fluids: treat its film coefficient and pressure drop as estimates", section, PackSideName(w, p), v["flow_index"]), true
+	case assess.WarnPackUDiffers:
+		return fmt.Sprintf("%s: the entered u_value %s differs from the plate pack's clean U %s by %s %% (both before fouling); "+
+			"the section uses the entered value: check it against the plate data", section,
+			d.g4(v["entered_W_m2K"], units.HeatTransferCoefficient), d.g4(v["computed_clean_W_m2K"], units.HeatTransferCoefficient),
+			Signed(fmt.Sprintf("%.0f", v["difference"]*100))), true
+	case assess.WarnPackViscosityExtrapolated:
+		return fmt.Sprintf("%s: the product in the plate pack reaches %s, outside the entered viscosity points (%s to %s), where the nearest "+
+			"point's viscosity is held; add a viscosity point there", section, d.temp(v["at_C"]), d.temp(v["lowest_C"]), d.temp(v["highest_C"])), true
+	}
+	return "", false
+}
+
+// PackSideName names the stream on one side of a section's plate pack, from
+// the side's plant-file path: "raw product" and "pasteurized product" in
+// regeneration, "product" and the medium's name elsewhere.
+func PackSideName(w assess.Warning, p *plantfile.Plant) string {
+	other := strings.HasSuffix(w.Field, ".other_side")
+	switch {
+	case strings.HasPrefix(w.Field, "regeneration.") && other:
+		return "pasteurized-product side"
+	case strings.HasPrefix(w.Field, "regeneration."):
+		return "raw-product side"
+	case !other:
+		return "product side"
+	case strings.HasPrefix(w.Field, "heating.") && p.Heating != nil:
+		return p.Heating.Medium.Name + " side"
+	}
+	for i, c := range p.Cooling {
+		if strings.HasPrefix(w.Field, fmt.Sprintf("cooling[%d].", i)) {
+			return c.Medium.Name + " side"
+		}
+	}
+	return "other side"
 }

@@ -37,7 +37,7 @@ func Build(res *assess.Result, opts Options) (*report.Document, error) {
 	var w *assess.WhatIf
 	if p := res.Plant; WantsWhatIf(p) {
 		var err error
-		if w, err = assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction); err != nil {
+		if w, err = assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction, WhatIfLayout(p)); err != nil {
 			return nil, err
 		}
 	}
@@ -48,6 +48,26 @@ func Build(res *assess.Result, opts Options) (*report.Document, error) {
 // regenerator (plates entered) and an economics block.
 func WantsWhatIf(p *plantfile.Plant) bool {
 	return p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0
+}
+
+// hasPack reports whether any section has a plate pack.
+func hasPack(res *assess.Result) bool {
+	for _, s := range res.Sections {
+		if s.PackFigures != nil {
+			return true
+		}
+	}
+	return false
+}
+
+// WhatIfLayout is how the record's what-if page adds plates: as channels per
+// pass to a regenerator with a plate pack, so that the page shows U falling
+// with the velocity (the page says so), and simply as plates otherwise.
+func WhatIfLayout(p *plantfile.Plant) assess.Layout {
+	if p.Regeneration != nil && p.Regeneration.Pack != nil {
+		return assess.LayoutChannels
+	}
+	return assess.LayoutNone
 }
 
 // tableFrom turns a shared grid into a record table.
@@ -170,6 +190,11 @@ func methodSection(res *assess.Result) report.Section {
 		"Regeneration ratio = (raw product leaving regeneration − raw inlet)/(diversion setpoint − raw inlet); the same product on both sides gives C_r = 1, so the ratio equals the effectiveness.",
 		"Plates = ceil(area / effective area per plate); required and installed areas are both reported.",
 	}
+	if hasPack(res) {
+		items = append(items,
+			"Plate packs (docs/METHOD.md §12): hydraulic diameter 2b/Φ; channel velocity ṁ/(channels per pass · ρ b w); Darcy factor by Martin's correlation in the VDI Heat Atlas form (2010); Nu = 0.122 Pr^(1/3) (μ/μ_w)^(1/6) (ξ Re² sin 2φ)^0.374, μ_w at the wall temperature from the clean resistances, iterated with the section; U_clean = 1/(1/h_product + t/k_w + 1/h_other), 1/U_service = 1/U_clean + fouling; water conductivity IAPWS R15-11, viscosity R12-08.",
+			"Pressure drop per side: ξ (passes · L_p/d_h) ρv²/2 + 1.4 · passes · ρ v_port²/2 (port losses after Kakaç and Liu, Heat Exchangers, 2nd ed., 2002); elevation ignored. A section without an entered u_value uses U_service; with one, the entered U is used and the computed one reported beside it.")
+	}
 	if res.HoldingTube != nil {
 		items = append(items,
 			"Holding tube: judged at the sealed maximum flow for the fastest particle, at the diversion setpoint.",
@@ -192,11 +217,31 @@ func heatSection(res *assess.Result, d present.Display) report.Section {
 	if res.RegenerationRatio != nil {
 		blocks = append(blocks, report.KeyValues{Pairs: [][2]string{{"regeneration ratio", fmt.Sprintf("%.1f %%", *res.RegenerationRatio*100)}}})
 	}
+	if g := present.PackSides(res, d); len(g.Rows) > 0 {
+		blocks = append(blocks,
+			tableFrom("Plate packs at the normal rate, each side: layout, channel velocity, Reynolds number, film coefficient and pressure drop (Martin's correlation; ports included, elevation ignored).", g),
+			tableFrom("Plate packs: overall coefficient clean and in service (with fouling), and the U each section used.", present.PackU(res, d)))
+	}
 	blocks = append(blocks, temperatureDiagram(res, d))
 	for _, s := range res.Sections {
 		blocks = append(blocks, tableFrom("Section "+present.SectionLabel(s)+".", present.SectionDetail(res, s, d)))
 	}
+	if w := warningsAbout(res, d, true); len(w) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Warnings on the sections:", Emphasis: true}, report.Bullets{Items: w})
+	}
 	return report.Section{Heading: "Heat exchange", Blocks: blocks}
+}
+
+// warningsAbout are the result's warnings in words: those that concern a
+// heat-exchange section (sections true), or all the others.
+func warningsAbout(res *assess.Result, d present.Display, sections bool) []string {
+	var out []string
+	for _, w := range res.Warnings {
+		if (w.Section != "") == sections {
+			out = append(out, present.WarningText(w, res.Plant, d))
+		}
+	}
+	return out
 }
 
 // temperatureDiagram lays the product path out in process order: raw side of
@@ -269,8 +314,8 @@ func holdingSection(res *assess.Result, d present.Display) report.Section {
 		}
 		blocks = append(blocks, tableFrom("Log reduction of the fastest particle at the sealed maximum flow.", present.Lethality(res)), plot)
 	}
-	if len(res.Warnings) > 0 {
-		blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: present.Warnings(res, d)})
+	if w := warningsAbout(res, d, false); len(w) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: w})
 	}
 	return report.Section{Heading: "Holding tube and lethality", Blocks: blocks}
 }
@@ -341,12 +386,17 @@ func whatIfSection(w *assess.WhatIf, d present.Display) report.Section {
 		rs.Y = append(rs.Y, o.RegenerationRatio*100)
 	}
 	ratio.Series = []report.Series{rs}
-	blocks := []report.Block{t, ratio}
+	blocks := []report.Block{t}
+	if w.Layout != assess.LayoutNone {
+		blocks = append(blocks, tableFrom("The regenerator's plate pack in each option: layout (passes × channels per pass), raw-side velocity, U and raw-side pressure drop.",
+			present.PlatesLayout(w, d)))
+	}
+	blocks = append(blocks, ratio)
 	if len(ps.X) > 1 {
 		payback.Series = []report.Series{ps}
 		blocks = append(blocks, payback)
 	}
-	notes := []string{"Saved is heating plus cooling: each equals C · Δratio · (setpoint − raw inlet)."}
+	notes := append([]string{"Saved is heating plus cooling: each equals C · Δratio · (setpoint − raw inlet)."}, present.LayoutNotes(w)...)
 	if w.KneeAdded != nil {
 		notes = append(notes, fmt.Sprintf("Knee: beyond +%d plates each further 10 plates save less than %.0f %% of what the first 10 saved.", *w.KneeAdded, w.KneeFraction*100))
 	}

@@ -204,7 +204,7 @@ func TestWhatIfPage(t *testing.T) {
 		t.Fatal(err)
 	}
 	res, _ := assess.Run(p)
-	w, err := assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction)
+	w, err := assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction, WhatIfLayout(p))
 	if err != nil {
 		t.Fatal(err)
 	}
