@@ -94,6 +94,17 @@ var badCases = map[string]badCase{
 	"economics-hours":                {31, "economics.operating_hours_per_year", "8784 hours"},
 	"holding-heat-loss-absurd":       {52, "holding_tube.outer_coefficient", "more than 1000 K"},
 	"magnitude-tiny":                 {4, "product.density", "outside the magnitudes"},
+	"no-u-value":                     {15, "regeneration.u_value", "or describe the plate pack"},
+	"plate-pack-plates-mismatch":     {16, "regeneration.plates", "the layout gives 8 × 7 + 8 × 7 − 1 = 111 (product_side.passes at line 26, other_side.passes at line 27)"},
+	"plate-pack-angle-range":         {17, "regeneration.plate.chevron_angle", "must be above 0° and below 90°"},
+	"plate-pack-angle-celsius":       {17, "regeneration.plate.chevron_angle", "is a temperature, not an angle"},
+	"plate-pack-one-side-passes":     {25, "regeneration.product_side.passes", "give the passes of both sides"},
+	"plate-pack-no-conductivity":     {3, "product.conductivity", "needs the product's thermal conductivity"},
+	"plate-pack-missing-side":        {15, "regeneration.other_side", "layout of both sides"},
+	"plate-pack-unequal-channels":    {26, "regeneration.other_side.channels_per_pass", "may differ by at most one"},
+	"plate-pack-missing-port":        {17, "regeneration.plate.port_diameter", "missing"},
+	"plate-pack-enlargement":         {19, "regeneration.plate.enlargement_factor", "between 1 and 2"},
+	"plate-pack-medium-no-viscosity": {28, "heating.medium.viscosity", "needs the medium's viscosity"},
 }
 
 const badDir = "../../testdata/bad"

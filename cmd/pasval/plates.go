@@ -122,11 +122,6 @@ func runPlates(opts platesOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if p.Regeneration != nil && p.Regeneration.Plates.Plates > 0 {
-		if err := assess.CheckLayout(p, layout); err != nil {
-			return usagef("%v", err)
-		}
-	}
 	w, err := assess.AddPlates(p, added, opts.knee, layout)
 	if err != nil {
 		return err

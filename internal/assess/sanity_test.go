@@ -62,12 +62,15 @@ holding_tube:
 			t.Errorf("%s: %s = %g, want %g", want.code, want.key, w.Values[want.key], want.value)
 		}
 	}
-	// The demos raise none of these.
+	// The demos raise none of these. The SI demo's heating section keeps an
+	// entered U 35 % below its plate pack's, which it shows on purpose.
 	for _, demo := range []string{"htst-milk-si", "cider-us"} {
 		p := load(t, string(mustRead(t, "../../testdata/demo/"+demo+".yaml")))
 		res, _ := Run(p)
-		if len(res.Warnings) != 0 {
-			t.Errorf("%s warns: %v", demo, res.Warnings)
+		for _, w := range res.Warnings {
+			if !(demo == "htst-milk-si" && w.Code == WarnPackUDiffers && w.Section == "heating") {
+				t.Errorf("%s warns: %v", demo, w)
+			}
 		}
 	}
 }

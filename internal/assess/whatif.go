@@ -134,13 +134,13 @@ func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64, layout Lay
 	if p.Regeneration == nil || p.Regeneration.Plates.Plates == 0 {
 		return nil, regenerationNotRated(p)
 	}
-	if err := CheckLayout(p, layout); err != nil {
-		return nil, err
-	}
 	added = append([]int(nil), added...)
 	sort.Ints(added)
 	base, err := option(p, 0, 0, layout, nil)
 	if err != nil {
+		return nil, err // the plant's own errors first
+	}
+	if err := CheckLayout(p, layout); err != nil {
 		return nil, err
 	}
 	w := &WhatIf{Baseline: base, Options: []PlatesOption{}, KneeFraction: kneeFraction, Layout: layout, Caution: Caution}

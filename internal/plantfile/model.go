@@ -215,6 +215,12 @@ type SideLayout struct {
 	Pos             inputerr.Pos
 }
 
+// layoutComplete reports whether both sides are given, each with its passes
+// or neither with them.
+func (p *PlatePack) layoutComplete() bool {
+	return p.Product.Set && p.Other.Set && (p.Product.Passes == 0) == (p.Other.Passes == 0)
+}
+
 // LayoutPlates is the number of thermal plates the two sides' layouts give
 // when both give their passes (ok false otherwise):
 //

@@ -187,7 +187,7 @@ func (v *validator) pack(section string, pos inputerr.Pos, pl *Plates) {
 		name string
 	}{{pk.Product, "product_side"}, {pk.Other, "other_side"}} {
 		if !side.l.Set {
-			v.add(pk.Pos, section+"."+side.name, "missing; a plate pack needs the layout of both sides, e.g. %s: {passes: 8, channels_per_pass: 7}", side.name)
+			v.add(pos, section+"."+side.name, "missing; a plate pack needs the layout of both sides, e.g. %s: {passes: 8, channels_per_pass: 7}", side.name)
 		}
 	}
 	if !pk.Product.Set || !pk.Other.Set {
@@ -224,7 +224,9 @@ func (v *validator) regeneration(p *Plant) {
 	case r.RatioSet && r.Plates.Plates > 0:
 		v.add(r.RatioPos, "regeneration.ratio", "give either ratio (sizing) or plates (rating), not both")
 	case !r.RatioSet && r.Plates.Plates == 0 && r.Pack != nil:
-		v.add(r.Pos, "regeneration.ratio", "missing; give ratio (sizing, e.g. 0.92) or the passes of both sides of the plate pack (rating)")
+		if r.Pack.layoutComplete() { // else the layout's own error says what is missing
+			v.add(r.Pos, "regeneration.ratio", "missing; give ratio (sizing, e.g. 0.92) or the passes of both sides of the plate pack (rating)")
+		}
 	case !r.RatioSet && r.Plates.Plates == 0:
 		v.add(r.Pos, "regeneration.ratio", "missing; give ratio (sizing, e.g. 0.92) or plates (rating, e.g. 112)")
 	case r.RatioSet && !(r.Ratio > 0 && r.Ratio < 1):

@@ -192,7 +192,7 @@ func methodSection(res *assess.Result) report.Section {
 	}
 	if hasPack(res) {
 		items = append(items,
-			"Plate packs (docs/METHOD.md §12): hydraulic diameter 2b/Φ; channel velocity ṁ/(channels per pass · ρ b w); Darcy factor by Martin's correlation in the VDI Heat Atlas form (2010); Nu = 0.122 Pr^(1/3) (μ/μ_w)^(1/6) (ξ Re² sin 2φ)^0.374, μ_w at the wall temperature from the clean resistances, iterated with the section; U_clean = 1/(1/h_product + t/k_w + 1/h_other), 1/U_service = 1/U_clean + fouling; water conductivity IAPWS R15-11, viscosity R12-08.",
+			"Plate packs (docs/METHOD.md §12): hydraulic diameter 2b/Φ; channel velocity m/(channels per pass · ρ b w), m the side's mass flow; Darcy factor by Martin's correlation in the VDI Heat Atlas form (2010); Nu = 0.122 Pr^(1/3) (μ/μ_w)^(1/6) (ξ Re² sin 2φ)^0.374, μ_w at the wall temperature from the clean resistances, iterated with the section; U_clean = 1/(1/h_product + t/k_w + 1/h_other), 1/U_service = 1/U_clean + fouling; water conductivity IAPWS R15-11, viscosity R12-08.",
 			"Pressure drop per side: ξ (passes · L_p/d_h) ρv²/2 + 1.4 · passes · ρ v_port²/2 (port losses after Kakaç and Liu, Heat Exchangers, 2nd ed., 2002); elevation ignored. A section without an entered u_value uses U_service; with one, the entered U is used and the computed one reported beside it.")
 	}
 	if res.HoldingTube != nil {
