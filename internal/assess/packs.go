@@ -147,7 +147,8 @@ func sectionPack(p *plantfile.Plant, pp ProductProps, field string, pl plantfile
 // for any other error.
 func packInputError(field string, pl plantfile.Plates, err error) inputerr.List {
 	pk := pl.Pack
-	pos, key := pk.Pos, "plate"
+	var pos inputerr.Pos
+	var key string
 	var ve *regen.PackValueError
 	var le *regen.LayoutError
 	var pe *regen.PassesError

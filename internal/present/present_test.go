@@ -120,3 +120,27 @@ func mustPanic(t *testing.T, f func()) {
 	}()
 	f()
 }
+
+func TestPackWarningWords(t *testing.T) {
+	// A plate-pack warning begins with its section and names the side's stream.
+	p := &plantfile.Plant{Cooling: []plantfile.CoolingStage{{Name: "glycol"}}}
+	p.Cooling[0].Medium.Name = "glycol 30 %"
+	w := assess.Warning{Code: assess.WarnPackBranch, Section: `cooling stage "glycol"`, Field: "cooling[0].other_side",
+		Values: map[string]float64{"reynolds": 1900, "switch": 2000, "low": 1500, "high": 2500}}
+	got := WarningText(w, p, si)
+	if !strings.HasPrefix(got, `cooling stage "glycol": Re 1900 on the glycol 30 % side lies within 1500–2500, around Re 2000`) {
+		t.Errorf("branch: %q", got)
+	}
+	for field, want := range map[string]string{"regeneration.product_side": "raw-product side", "regeneration.other_side": "pasteurized-product side",
+		"heating.product_side": "product side", "cooling[0].product_side": "product side"} {
+		if got := PackSideName(assess.Warning{Field: field}, p); got != want {
+			t.Errorf("%s: %q, want %q", field, got, want)
+		}
+	}
+	// −35 % with a true minus sign; 5845 W/(m²·K) is 1029 Btu/(h·ft²·°F) (NIST SP 811 factor 5.678263).
+	w = assess.Warning{Code: assess.WarnPackUDiffers, Section: "heating", Field: "heating.u_value",
+		Values: map[string]float64{"entered_W_m2K": 3800, "computed_clean_W_m2K": 5845, "difference": -0.35}}
+	if got := WarningText(w, p, us); !strings.Contains(got, "clean U 1029 Btu/(h·ft²·°F) by −35 %") {
+		t.Errorf("u differs: %q", got)
+	}
+}
