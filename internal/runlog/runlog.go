@@ -1,0 +1,688 @@
+// Package runlog reads recorded runs of a continuous pasteurizer — the
+// holding-tube outlet temperature, the flow and the flow-diversion position
+// against time, as a recorder or historian exports them — one row per sample,
+// streaming, so memory stays flat however long the file
+// (docs/METHOD.md §13 (recorded runs)).
+//
+//	r, err := runlog.Open("shift.csv.gz", runlog.Options{})
+//	if err != nil {
+//		return err // an inputerr.List: file, line, column, field, what was expected
+//	}
+//	defer r.Close()
+//	for r.Next() {
+//		rec := r.Record() // SI: s, °C, m³/s (kg/s when r.FlowIsMass())
+//		_ = rec
+//	}
+//	return r.Err()
+//
+// The file is CSV with a header row. Compressed files are recognised by the
+// gzip magic bytes, whatever their name. The separator is ',', ';' or tab,
+// the one the header uses most unless Options.Separator says; numbers use '.'
+// as the decimal mark, or ',' with Options.DecimalComma (then a '.' in a
+// number is an error: it could be a thousands separator).
+//
+// Columns are found by header name, ignoring case and surrounding spaces:
+// time, hold_outlet_temperature, flow_rate and forward, or the names that
+// Options.Columns maps these keys to. A numeric column's unit is written in
+// the header in brackets, "hold_outlet_temperature [°F]", "flow_rate [gpm]",
+// and read by pasval/internal/units; a column without one takes
+// Options.TemperatureUnit or Options.FlowUnit, and with neither the file is
+// refused: a unit is never assumed. A flow may be volumetric (L/h, gpm, m3/h)
+// or by mass (kg/h, lb/h); FlowIsMass says which, and the caller converts a
+// mass flow with the product density.
+//
+// Time is an RFC 3339 date and time, "2026-03-14T06:00:00Z", with or without
+// an offset (without, it is read in Options.Location, UTC by default; a space
+// may replace the T), or a number of seconds from any origin; the first row
+// fixes which, for the whole file. Time may stand still between rows (a
+// duplicated sample) but never go back. forward is 1/0, true/false or
+// forward/divert, in any case.
+//
+// Positions in errors: the line is the file's line (the header is the first
+// non-blank line; blank lines are skipped and counted); the column is the
+// 1-based byte offset of the field's first byte in its line (an editor's
+// "go to column" lands on it; after the UTF-8 byte-order mark on the first
+// line, if any); the field is the column's key. A malformed row stops the
+// reading unless Options.SkipBadRows allows it; time going backwards always
+// stops it.
+package runlog
+
+import (
+	"bufio"
+	"bytes"
+	"compress/gzip"
+	"crypto/sha256"
+	"errors"
+	"fmt"
+	"hash"
+	"io"
+	"math"
+	"os"
+	"strings"
+	"sync/atomic"
+	"time"
+
+	"pasval/internal/inputerr"
+	"pasval/internal/units"
+)
+
+// Options say how to read a file; the zero value reads a standard file.
+type Options struct {
+	// Separator is ',', ';' or '\t'; 0 takes the one the header line uses.
+	Separator byte
+	// DecimalComma reads "72,5" as 72.5; not with the ',' separator.
+	DecimalComma bool
+	// Columns maps a column key (time, hold_outlet_temperature, flow_rate,
+	// forward, or an Optional key) to the name the file's header uses;
+	// the unit in brackets is not part of the name.
+	Columns map[string]string
+	// Optional lists further numeric columns, read when the header has them.
+	Optional []Column
+	// TemperatureUnit and FlowUnit are the units of temperature and flow
+	// columns whose header gives none ("°F", "gpm", "kg/h"). A header unit
+	// that says otherwise is an error.
+	TemperatureUnit, FlowUnit string
+	// Location is the time zone of clock times written without an offset;
+	// nil is UTC.
+	Location *time.Location
+	// SkipBadRows is how many malformed rows may be skipped (counted, the
+	// first MaxListed kept for listing); 0 stops at the first.
+	SkipBadRows int
+	// Hash computes the SHA-256 of the file's bytes as stored while reading.
+	Hash bool
+}
+
+// MaxListed is how many skipped rows' errors a Reader keeps.
+const MaxListed = 10
+
+const panicPrefix = "runlog: "
+
+// Record is one sample, in SI. The Reader reuses it: copy what you keep.
+type Record struct {
+	Line        int     // the file's line
+	Time        float64 // s: since 1970-01-01 UTC for clock times, else as written
+	Temperature float64 // °C, hold_outlet_temperature
+	Flow        float64 // m³/s, or kg/s when the Reader's FlowIsMass
+	Forward     bool
+	// Optional holds Options.Optional's columns in SI, in that order; NaN
+	// where the column is absent or the cell empty.
+	Optional []float64
+}
+
+// Reader reads one recorded-run file.
+type Reader struct {
+	name   string
+	opt    Options
+	loc    *time.Location
+	closer io.Closer
+	raw    *bufio.Reader // the bytes as stored
+	src    *bufio.Reader // the text (raw itself, or decompressed)
+	hash   hash.Hash
+	count  *countingReader
+	sp     splitter
+
+	line    int // the last line read
+	header  int // the header's line
+	nfields int
+	found   []Found // in Standard then Optional order; Index −1 when absent
+	idx     [4]int  // field index of the standard columns
+	numeric []numField
+	clock   bool // times are clock times (else seconds)
+	decided bool // the first row fixed clock
+	zoneNo  bool // some clock time had no offset
+
+	rec      Record
+	rows     int
+	prevTime float64
+	prevLine int
+	bad      int
+	listed   inputerr.List
+	err      inputerr.List
+	done     bool
+}
+
+// numField is a numeric column to convert.
+type numField struct {
+	field    int      // index in the line
+	key      string   // for messages
+	dst      *float64 // where the SI value goes
+	scale    float64
+	offset   float64
+	optional bool // empty cells read as NaN
+	temp     bool // a temperature point: refuse below absolute zero
+}
+
+// Open opens path and reads its header. The caller closes the Reader.
+func Open(path string, opt Options) (*Reader, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, inputerr.List{inputerr.At(inputerr.Pos{File: path}, "", "cannot read the file: %v", unwrapPath(err))}
+	}
+	r, err := newReader(f, path, opt)
+	if err != nil {
+		f.Close()
+		return nil, err
+	}
+	r.closer = f
+	if st, err := f.Stat(); err == nil {
+		r.count.total = st.Size()
+	}
+	return r, nil
+}
+
+// NewReader reads a recorded run from rd; name is the file name used in
+// errors.
+func NewReader(rd io.Reader, name string, opt Options) (*Reader, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
+	return newReader(rd, name, opt)
+}
+
+func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
+	r := &Reader{name: name, opt: opt, loc: opt.Location}
+	if r.loc == nil {
+		r.loc = time.UTC
+	}
+	r.count = &countingReader{r: rd}
+	var in io.Reader = r.count
+	if opt.Hash {
+		r.hash = sha256.New()
+		in = io.TeeReader(in, r.hash)
+	}
+	r.raw = bufio.NewReaderSize(in, 256<<10)
+	r.src = r.raw
+	if magic, _ := r.raw.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+		gz, err := gzip.NewReader(r.raw)
+		if err != nil {
+			return nil, r.listAt(inputerr.Pos{File: name}, "", "the file starts like gzip-compressed data but cannot be decompressed: %v", err)
+		}
+		r.src = bufio.NewReaderSize(gz, 256<<10)
+	}
+	if err := r.readHeader(); err != nil {
+		return nil, err
+	}
+	return r, nil
+}
+
+func unwrapPath(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+func (r *Reader) listAt(pos inputerr.Pos, field, format string, args ...any) inputerr.List {
+	return inputerr.List{inputerr.At(pos, field, format, args...)}
+}
+
+func (r *Reader) pos(line, byteOffset int) inputerr.Pos {
+	return inputerr.Pos{File: r.name, Line: line, Column: byteOffset + 1}
+}
+
+// readLine returns the next non-blank line without its line break; the
+// slice is valid until the next call. ok is false at the end or on error
+// (then r.err is set).
+func (r *Reader) readLine() (line []byte, ok bool) {
+	for {
+		b, err := r.src.ReadSlice('\n')
+		if err == bufio.ErrBufferFull {
+			r.line++
+			r.err = r.listAt(inputerr.Pos{File: r.name, Line: r.line}, "", "the line is longer than %d bytes: this is not a recorder export (or its line breaks are lost)", r.src.Size())
+			return nil, false
+		}
+		if err != nil && err != io.EOF {
+			r.err = r.listAt(inputerr.Pos{File: r.name, Line: r.line + 1}, "", "cannot read on: %v", describeReadError(err))
+			return nil, false
+		}
+		if len(b) == 0 && err == io.EOF {
+			return nil, false
+		}
+		r.line++
+		if n := len(b); n > 0 && b[n-1] == '\n' {
+			b = b[:n-1]
+		}
+		if n := len(b); n > 0 && b[n-1] == '\r' {
+			b = b[:n-1]
+		}
+		if len(b) == 0 {
+			if err == io.EOF {
+				return nil, false
+			}
+			continue
+		}
+		return b, true
+	}
+}
+
+func describeReadError(err error) string {
+	if err == io.ErrUnexpectedEOF || errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) {
+		return "the compressed data is damaged or cut short (" + err.Error() + ")"
+	}
+	return err.Error()
+}
+
+// readHeader reads the header line: separator, columns, units.
+func (r *Reader) readHeader() error {
+	line, ok := r.readLine()
+	if !ok {
+		if len(r.err) > 0 {
+			return r.err
+		}
+		return r.listAt(inputerr.Pos{File: r.name, Line: r.line + 1}, "", "expected a header row naming the columns (%s), found the end of the file: the file is empty", standardNames())
+	}
+	r.header = r.line
+	line = bytes.TrimPrefix(line, []byte("\xef\xbb\xbf"))
+	r.sp.sep = r.opt.Separator
+	if r.sp.sep == 0 {
+		sep, ok := detectSeparator(line)
+		if !ok {
+			return r.listAt(inputerr.Pos{File: r.name, Line: r.line}, "", "cannot tell the separator from the header %q: expected columns (%s) separated by ',', ';' or tabs; give the separator if the header uses several", clip(line), standardNames())
+		}
+		r.sp.sep = sep
+	}
+	if serr := r.sp.split(line); serr != nil {
+		return r.listAt(r.pos(r.line, serr.at), "", "in the header: %s", serr.msg)
+	}
+	r.nfields = len(r.sp.fields)
+	cols := r.opt.columns()
+	r.found = make([]Found, len(cols))
+	var errs inputerr.List
+	names := make([]string, r.nfields)
+	for i, f := range r.sp.fields {
+		names[i] = string(r.sp.trim(f))
+	}
+	for c, col := range cols {
+		want := r.opt.headerName(col)
+		r.found[c] = Found{Key: col.Key, Index: -1}
+		for i, h := range names {
+			name, unit, hasUnit := splitHeader(h)
+			if !strings.EqualFold(name, want) {
+				continue
+			}
+			if r.found[c].Index >= 0 {
+				errs = append(errs, inputerr.At(r.pos(r.line, r.sp.starts[i]), col.Key, "a second column named %q (the first is column %d): keep one", name, r.found[c].Index+1))
+				continue
+			}
+			r.found[c] = Found{Key: col.Key, Header: h, Index: i}
+			if err := r.setUnit(&r.found[c], col, unit, hasUnit, r.sp.starts[i]); err != nil {
+				errs = append(errs, err)
+			}
+		}
+		if r.found[c].Index < 0 && col.Required {
+			errs = append(errs, inputerr.At(inputerr.Pos{File: r.name, Line: r.line}, col.Key,
+				"the header has no column %q (it has %s); name the file's column for it with the columns option", want, quoteList(names)))
+		}
+	}
+	if len(errs) > 0 {
+		return errs
+	}
+	for k := range r.idx {
+		r.idx[k] = r.found[k].Index
+	}
+	r.rec.Optional = make([]float64, len(r.opt.Optional))
+	for i := range r.rec.Optional {
+		r.rec.Optional[i] = math.NaN()
+	}
+	for c, col := range cols {
+		if col.Role != RoleNumber || r.found[c].Index < 0 {
+			continue
+		}
+		var dst *float64
+		switch {
+		case c >= len(Standard):
+			dst = &r.rec.Optional[c-len(Standard)]
+		case col.Key == KeyTemperature:
+			dst = &r.rec.Temperature
+		case col.Key == KeyFlow:
+			dst = &r.rec.Flow
+		default:
+			panic(panicPrefix + "a standard numeric column without a Record field: " + col.Key)
+		}
+		r.numeric = append(r.numeric, numField{field: r.found[c].Index, key: col.Key, dst: dst,
+			scale: r.found[c].Scale, offset: r.found[c].Offset, optional: !col.Required, temp: r.found[c].Kind == units.Temperature})
+	}
+	return nil
+}
+
+// setUnit settles a column's unit from its header and the options.
+func (r *Reader) setUnit(f *Found, col Column, unit string, hasUnit bool, at int) *inputerr.Error {
+	pos := r.pos(r.line, at)
+	switch col.Role {
+	case RoleFlag:
+		if hasUnit {
+			return inputerr.At(pos, col.Key, "the forward/divert column takes no unit, found [%s]", unit)
+		}
+		return nil
+	case RoleTime:
+		// A unit is allowed for seconds-from-start times ("time [min]");
+		// it is checked against the first row.
+		if hasUnit {
+			v, err := units.Parse("1 "+unit, units.Time)
+			if err != nil {
+				return inputerr.At(pos, col.Key, "the time column's unit [%s] is not a unit of time: write [s] or [min], or no unit for clock times", unit)
+			}
+			f.Unit, f.Kind, f.Scale = unit, units.Time, v.SI
+		}
+		return nil
+	}
+	opt := r.opt.fallbackUnit(col)
+	if hasUnit && unit == "" {
+		hasUnit = false
+	}
+	if !hasUnit && opt == "" {
+		return inputerr.At(pos, col.Key, "no unit for %s: write it in the header, as %q, or give the %s unit option",
+			col.Kinds[0].Name, col.Key+" ["+exampleUnit(col.Kinds[0])+"]", col.Kinds[0].Name)
+	}
+	use := unit
+	if !hasUnit {
+		use = opt
+	}
+	kind, scale, offset, err := converter(use, col.Kinds)
+	if err != nil {
+		names := make([]string, len(col.Kinds))
+		for i, k := range col.Kinds {
+			names[i] = k.Name
+		}
+		return inputerr.At(pos, col.Key, "[%s] is not a unit of %s: expected e.g. [%s]", use, strings.Join(names, " or "), exampleUnit(col.Kinds[0]))
+	}
+	if hasUnit && opt != "" {
+		k2, s2, o2, err := converter(opt, col.Kinds)
+		if err != nil || k2 != kind || !sameConversion(scale, offset, s2, o2) {
+			return inputerr.At(pos, col.Key, "the header says [%s] but the unit option says %q: remove one", unit, opt)
+		}
+	}
+	f.Unit, f.Kind, f.Scale, f.Offset = use, kind, scale, offset
+	return nil
+}
+
+func exampleUnit(k units.Kind) string {
+	switch k {
+	case units.Temperature:
+		return "°C"
+	case units.VolumeFlow:
+		return "L/h"
+	}
+	return units.DisplayUnit(k, units.SI)
+}
+
+func standardNames() string {
+	names := make([]string, len(Standard))
+	for i, c := range Standard {
+		names[i] = c.Key
+	}
+	return strings.Join(names, ", ")
+}
+
+func quoteList(names []string) string {
+	q := make([]string, len(names))
+	for i, n := range names {
+		q[i] = fmt.Sprintf("%q", n)
+	}
+	return strings.Join(q, ", ")
+}
+
+func clip(b []byte) string {
+	if len(b) > 80 {
+		return string(b[:80]) + "…"
+	}
+	return string(b)
+}
+
+// Next reads the next sample; false at the end of the file or on an error
+// (see Err).
+func (r *Reader) Next() bool {
+	if r.done {
+		return false
+	}
+	for {
+		line, ok := r.readLine()
+		if !ok {
+			r.finish()
+			return false
+		}
+		err, fatal := r.parseRow(line)
+		if err == nil {
+			r.rows++
+			return true
+		}
+		if fatal || r.bad >= r.opt.SkipBadRows {
+			if r.bad > 0 && !fatal {
+				err.Msg += fmt.Sprintf(" (one more than the %d bad rows allowed)", r.opt.SkipBadRows)
+			}
+			r.err = append(r.listed, err)
+			r.done = true
+			return false
+		}
+		r.bad++
+		if len(r.listed) < MaxListed {
+			r.listed = append(r.listed, err)
+		}
+	}
+}
+
+// finish runs at the end of the text.
+func (r *Reader) finish() {
+	r.done = true
+	if r.err != nil {
+		r.err = append(r.listed, r.err...)
+		return
+	}
+	if r.rows == 0 {
+		msg := "no data rows after the header"
+		if r.bad > 0 {
+			msg = fmt.Sprintf("no readable data rows: all %d were malformed", r.bad)
+		}
+		r.err = append(r.listed, inputerr.At(inputerr.Pos{File: r.name, Line: r.header + 1}, "", "%s", msg))
+		return
+	}
+	if r.hash != nil {
+		// Hash the whole file as stored, trailing bytes included.
+		if _, err := io.Copy(io.Discard, r.raw); err != nil {
+			r.err = r.listAt(inputerr.Pos{File: r.name}, "", "cannot read to the end: %v", err)
+		}
+	}
+}
+
+// parseRow parses one data line into r.rec. fatal errors stop the reading
+// whatever Options.SkipBadRows says.
+func (r *Reader) parseRow(line []byte) (err *inputerr.Error, fatal bool) {
+	if serr := r.sp.split(line); serr != nil {
+		return inputerr.At(r.pos(r.line, serr.at), "", "%s", serr.msg), false
+	}
+	if len(r.sp.fields) != r.nfields {
+		return r.fieldCountError(line), false
+	}
+	f := r.sp.fields
+	rec := &r.rec
+	rec.Line = r.line
+
+	// Time.
+	ti := r.idx[0]
+	tb := r.sp.trim(f[ti])
+	if !r.decided {
+		r.clock = len(tb) >= 5 && tb[4] == '-'
+		if !r.clock && r.found[0].Unit == "" {
+			r.found[0].Scale = 1
+		}
+		if r.clock && r.found[0].Unit != "" {
+			return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "a clock time under a header with a unit of time [%s]: remove the unit", r.found[0].Unit), true
+		}
+		r.decided = true
+	}
+	if r.clock {
+		c, ok := parseClock(tb)
+		if !ok {
+			return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "expected an RFC 3339 date and time such as 2026-03-14T06:00:00Z (as in the first row), found %q", clip(tb)), false
+		}
+		if !c.zoned {
+			r.zoneNo = true
+		}
+		rec.Time = c.seconds(r.loc)
+	} else {
+		v, ok := parseNumber(tb, r.opt.DecimalComma)
+		if !ok {
+			return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "expected seconds from the start as a number (as in the first row), found %q", clip(tb)), false
+		}
+		rec.Time = v * r.found[0].Scale
+	}
+
+	// Flag.
+	fi := r.idx[3]
+	fb := r.sp.trim(f[fi])
+	fwd, ok := parseFlag(fb)
+	if !ok {
+		return inputerr.At(r.pos(r.line, r.sp.starts[fi]), KeyForward, "expected 1/0, true/false or forward/divert, found %q", clip(fb)), false
+	}
+	rec.Forward = fwd
+
+	// Numbers.
+	for i := range r.numeric {
+		n := &r.numeric[i]
+		b := r.sp.trim(f[n.field])
+		if len(b) == 0 && n.optional {
+			*n.dst = math.NaN()
+			continue
+		}
+		v, ok := parseNumber(b, r.opt.DecimalComma)
+		if !ok {
+			return r.numberError(n, b), false
+		}
+		si := v*n.scale + n.offset
+		if n.temp && si < -273.15 {
+			return inputerr.At(r.pos(r.line, r.sp.starts[n.field]), n.key, "%q is below absolute zero in this column's unit", clip(b)), false
+		}
+		*n.dst = si
+	}
+
+	// Order: checked last, so a malformed row never becomes the reference.
+	if r.rows > 0 && rec.Time < r.prevTime {
+		return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "time goes backwards: %q is before the time on line %d; a recorded run must be in time order (a clock set back, or files joined out of order?)", clip(tb), r.prevLine), true
+	}
+	r.prevTime, r.prevLine = rec.Time, r.line
+	return nil, false
+}
+
+func (r *Reader) numberError(n *numField, b []byte) *inputerr.Error {
+	pos := r.pos(r.line, r.sp.starts[n.field])
+	switch {
+	case len(b) == 0:
+		return inputerr.At(pos, n.key, "empty: expected a number")
+	case !r.opt.DecimalComma && bytes.IndexByte(b, ',') >= 0:
+		if _, ok := parseNumber(b, true); ok {
+			return inputerr.At(pos, n.key, "expected a number with '.' as the decimal mark, found %q: is the file written with decimal commas?", clip(b))
+		}
+	case r.opt.DecimalComma && bytes.IndexByte(b, '.') >= 0:
+		return inputerr.At(pos, n.key, "expected a number with ',' as the decimal mark, found %q ('.' could be a thousands separator)", clip(b))
+	}
+	return inputerr.At(pos, n.key, "expected a number, found %q", clip(b))
+}
+
+// fieldCountError explains a row with the wrong number of fields, naming
+// another separator when the row seems to use it.
+func (r *Reader) fieldCountError(line []byte) *inputerr.Error {
+	pos := inputerr.Pos{File: r.name, Line: r.line}
+	got := len(r.sp.fields)
+	for _, other := range []byte{',', ';', '\t'} {
+		if other == r.sp.sep {
+			continue
+		}
+		if bytes.Count(line, []byte{other})+1 == r.nfields {
+			return inputerr.At(pos, "", "%d fields where the header has %d: this row seems separated by %s, the header by %s (mixed separators)",
+				got, r.nfields, sepName(other), sepName(r.sp.sep))
+		}
+	}
+	return inputerr.At(pos, "", "%d fields where the header has %d (separated by %s)", got, r.nfields, sepName(r.sp.sep))
+}
+
+func sepName(sep byte) string {
+	if sep == '\t' {
+		return "tabs"
+	}
+	return fmt.Sprintf("'%c'", sep)
+}
+
+// Record is the sample Next read; it is overwritten by the next call.
+func (r *Reader) Record() *Record { return &r.rec }
+
+// Err is the error that stopped the reading, nil at a clean end. It is an
+// inputerr.List: the skipped rows' errors kept so far, then the one that
+// stopped it.
+func (r *Reader) Err() error {
+	if len(r.err) == 0 {
+		return nil
+	}
+	return r.err
+}
+
+// Rows is the number of samples read so far.
+func (r *Reader) Rows() int { return r.rows }
+
+// Skipped is the number of malformed rows skipped and the first MaxListed
+// of their errors.
+func (r *Reader) Skipped() (int, inputerr.List) { return r.bad, r.listed }
+
+// Name is the file name used in errors.
+func (r *Reader) Name() string { return r.name }
+
+// Separator is the separator in use.
+func (r *Reader) Separator() byte { return r.sp.sep }
+
+// Columns lists the known columns and where the header has them (Index −1
+// for an optional column it lacks), standard ones first.
+func (r *Reader) Columns() []Found { return append([]Found(nil), r.found...) }
+
+// HasOptional says whether the header has Options.Optional[i].
+func (r *Reader) HasOptional(i int) bool { return r.found[len(Standard)+i].Index >= 0 }
+
+// FlowIsMass says whether flow_rate is a mass flow (kg/s) rather than a
+// volumetric one (m³/s).
+func (r *Reader) FlowIsMass() bool { return r.found[2].Kind == units.MassFlow }
+
+// ClockTimes says whether times are clock times (seconds since 1970-01-01
+// UTC) rather than seconds from an origin of the file's own; known after the
+// first row.
+func (r *Reader) ClockTimes() bool { return r.clock }
+
+// ZoneLess says whether some clock time was written without an offset (and
+// so read in Options.Location).
+func (r *Reader) ZoneLess() bool { return r.zoneNo }
+
+// SHA256 is the digest of the file's bytes as stored, when Options.Hash was
+// set and the file was read to its end; nil otherwise.
+func (r *Reader) SHA256() []byte {
+	if r.hash == nil || !r.done || r.err != nil {
+		return nil
+	}
+	return r.hash.Sum(nil)
+}
+
+// Progress is how many bytes of the file as stored have been read, and its
+// size (0 when unknown). Safe to call from another goroutine.
+func (r *Reader) Progress() (read, total int64) { return r.count.n.Load(), r.count.total }
+
+// Close closes the file Open opened.
+func (r *Reader) Close() error {
+	if r.closer == nil {
+		return nil
+	}
+	err := r.closer.Close()
+	r.closer = nil
+	return err
+}
+
+type countingReader struct {
+	r     io.Reader
+	n     atomic.Int64
+	total int64
+}
+
+func (c *countingReader) Read(p []byte) (int, error) {
+	n, err := c.r.Read(p)
+	c.n.Add(int64(n))
+	return n, err
+}
