@@ -592,11 +592,18 @@ func (r *Reader) fieldCountError(line []byte) *inputerr.Error {
 			continue
 		}
 		if bytes.Count(line, []byte{other})+1 == r.nfields {
-			return inputerr.At(pos, "", "%d fields where the header has %d: this row seems separated by %s, the header by %s (mixed separators)",
-				got, r.nfields, sepName(other), sepName(r.sp.sep))
+			return inputerr.At(pos, "", "%s where the header has %d: this row seems separated by %s, the header by %s (mixed separators)",
+				fieldCount(got), r.nfields, sepName(other), sepName(r.sp.sep))
 		}
 	}
-	return inputerr.At(pos, "", "%d fields where the header has %d (separated by %s)", got, r.nfields, sepName(r.sp.sep))
+	return inputerr.At(pos, "", "%s where the header has %d (separated by %s)", fieldCount(got), r.nfields, sepName(r.sp.sep))
+}
+
+func fieldCount(n int) string {
+	if n == 1 {
+		return "1 field"
+	}
+	return fmt.Sprintf("%d fields", n)
 }
 
 func sepName(sep byte) string {
