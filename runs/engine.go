@@ -25,14 +25,13 @@ type Engine struct {
 	lastU    float64   // its fastest-particle speed, m/s
 	lastRes  float64   // its parcel's residence, s
 	lastLR   []float64 // its parcel's log reduction per organism
+	required []float64 // each organism's required log reduction (0: none)
 	prevTime float64   // the latest time added (for order)
 	tr       tracker
 
-	// Caches of the last inputs (recorder values repeat).
-	speedQ, speedT, speedU float64
-	dT                     float64
-	d                      []float64
-	legal                  map[float64]legalBounds
+	temps    *tempCache
+	speeds   speedCache
+	lastTemp *tempEntry // the cache entry of the last sample's temperature
 
 	sum    Summary
 	events []Event
@@ -49,19 +48,14 @@ type openEvent struct {
 	gap, temp, flow, allMet bool
 }
 
-// legalBounds are, for one temperature, the least residence known to meet
-// the legal table and the greatest known to fail it. Meeting it is monotone
-// in the residence (a longer one meets every row a shorter one meets), so
-// lethality.JudgeLegal, the one home of the rule, is asked only when a
-// residence falls between them.
-type legalBounds struct {
-	met, fail       float64
-	hasMet, hasFail bool
-}
-
-// legalCacheSize bounds the cache; recorders write temperatures to a
-// resolution of 0.01 to 0.1 °C, so a run has a few hundred distinct values.
-const legalCacheSize = 4096
+// A reading equal to a limit is not past it; these tolerances keep a value
+// written in other units (161.6 °F for 72 °C, gpm for L/h) on the same
+// side of the limit after conversion. They match lethality.JudgeLegal's and
+// lie far below any sensor's resolution.
+const (
+	limitTolerance = 1e-9  // K
+	flowTolerance  = 1e-12 // relative
+)
 
 // NewEngine starts the analysis of one run. It returns ErrNoCriteria for a
 // model with nothing to judge events against, and panics on a model no
@@ -74,9 +68,12 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		panic(fmt.Sprintf("%sNewEngine: gap threshold %g s", panicPrefix, opt.GapThreshold))
 	}
 	no := len(m.Organisms)
-	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), d: make([]float64, no),
-		speedQ: math.NaN(), dT: math.NaN(), legal: map[float64]legalBounds{}}
+	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no)}
 	e.tr.length = m.Tube.Length
+	e.required = make([]float64, no)
+	for i, o := range m.Organisms {
+		e.required[i] = o.RequiredLogReduction
+	}
 	e.median = math.NaN()
 	e.sum = Summary{MinForwardTemperature: math.Inf(1), MaxForwardFlow: math.Inf(-1), MinForwardResidence: math.Inf(1),
 		MinForwardLogReduction: make([]float64, no), MedianInterval: math.NaN()}
@@ -96,14 +93,16 @@ func (e *Engine) Add(s Sample) error {
 		return e.err
 	}
 	idx := e.n + len(e.pending)
-	for _, f := range []struct {
-		name string
-		v    float64
-	}{{"time", s.Time}, {"temperature", s.Temperature}, {"flow", s.Flow}} {
-		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
-			e.err = &SampleError{Index: idx, Field: f.name, Value: f.v, Previous: math.NaN()}
-			return e.err
+	if !finite(s.Time) || !finite(s.Temperature) || !finite(s.Flow) {
+		field, v := "time", s.Time
+		switch {
+		case !finite(s.Temperature):
+			field, v = "temperature", s.Temperature
+		case !finite(s.Flow):
+			field, v = "flow", s.Flow
 		}
+		e.err = &SampleError{Index: idx, Field: field, Value: v, Previous: math.NaN()}
+		return e.err
 	}
 	if idx > 0 && s.Time < e.prevTime {
 		e.err = &SampleError{Index: idx, Field: "time", Value: s.Time, Previous: e.prevTime}
@@ -156,9 +155,9 @@ func (e *Engine) take(s Sample) {
 		e.tr.advance(e.lastU, s.Time)
 	}
 	e.lastRes = e.tr.residence()
-	e.dValues(s.Temperature)
-	for i := range e.lastLR {
-		e.lastLR[i] = e.lastRes / e.d[i]
+	e.lastTemp = e.temps.at(s.Temperature, &e.m)
+	for i, d := range e.lastTemp.d {
+		e.lastLR[i] = e.lastRes / d
 	}
 	e.lastU = e.speed(s.Flow, s.Temperature)
 	e.last = s
@@ -176,27 +175,17 @@ func (e *Engine) speed(q, temp float64) float64 {
 	if e.m.RheologyAt == nil {
 		temp = 0 // the rheology does not depend on it
 	}
-	if q == e.speedQ && temp == e.speedT {
-		return e.speedU
+	if u, ok := e.speeds.get(q, temp); ok {
+		return u
 	}
 	rh := e.m.Rheology
 	if e.m.RheologyAt != nil {
 		rh = e.m.RheologyAt(temp)
 	}
 	h := e.m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: e.m.Density}, rh, e.m.FastestToMean)
-	e.speedQ, e.speedT, e.speedU = q, temp, h.FastestToMean*h.MeanVelocity
-	return e.speedU
-}
-
-// dValues fills e.d with each organism's D at temp.
-func (e *Engine) dValues(temp float64) {
-	if temp == e.dT {
-		return
-	}
-	for i, o := range e.m.Organisms {
-		e.d[i] = o.DAt(temp)
-	}
-	e.dT = temp
+	u := h.FastestToMean * h.MeanVelocity
+	e.speeds.put(q, temp, u)
+	return u
 }
 
 // close books sample s (index i) with its held interval d, s.
@@ -212,18 +201,29 @@ func (e *Engine) close(s Sample, i int, d float64) {
 		sum.Forward += d
 		sum.ForwardVolume += vol
 		sum.ForwardSamples++
-		sum.MinForwardTemperature = math.Min(sum.MinForwardTemperature, s.Temperature)
-		sum.MaxForwardFlow = math.Max(sum.MaxForwardFlow, s.Flow)
-		sum.MinForwardResidence = math.Min(sum.MinForwardResidence, e.lastRes)
+		// Plain comparisons: every value here is a number (Add refuses NaN;
+		// a residence may be +Inf), and math.Min's NaN and −0 rules cost time
+		// in the per-sample path.
+		if s.Temperature < sum.MinForwardTemperature {
+			sum.MinForwardTemperature = s.Temperature
+		}
+		if s.Flow > sum.MaxForwardFlow {
+			sum.MaxForwardFlow = s.Flow
+		}
+		if e.lastRes < sum.MinForwardResidence {
+			sum.MinForwardResidence = e.lastRes
+		}
 		for k, lr := range e.lastLR {
-			sum.MinForwardLogReduction[k] = math.Min(sum.MinForwardLogReduction[k], lr)
+			if lr < sum.MinForwardLogReduction[k] {
+				sum.MinForwardLogReduction[k] = lr
+			}
 		}
 	} else {
 		sum.Diverted += d
 		sum.DivertedVolume += vol
 	}
 
-	below := s.Temperature < e.m.Setpoint
+	below := s.Temperature < e.m.Setpoint-limitTolerance
 	e.trackDrop(s, i, below)
 
 	if !s.Forward {
@@ -232,11 +232,11 @@ func (e *Engine) close(s Sample, i int, d float64) {
 	}
 	gap := d > e.threshold
 	temp := below
-	flow := s.Flow > e.m.MaxFlow
-	legal := e.meetsLegal(s.Temperature, e.lastRes)
+	flow := s.Flow > e.m.MaxFlow*(1+flowTolerance)
+	legal := e.lastTemp.meetsLegal(e.lastRes, &e.m)
 	reqMet := true
 	for k, lr := range e.lastLR {
-		if r := e.m.Organisms[k].RequiredLogReduction; r > 0 && !(lr >= r) {
+		if r := e.required[k]; r > 0 && !(lr >= r) {
 			reqMet = false
 		}
 	}
@@ -286,34 +286,6 @@ func (e *Engine) close(s Sample, i int, d float64) {
 		ev.allMet = false
 		ev.AtRiskVolume += vol
 	}
-}
-
-// meetsLegal says whether a parcel at temperature temp (°C) with residence
-// res (s) meets a row of the legal table; true when the model has none.
-func (e *Engine) meetsLegal(temp, res float64) bool {
-	if len(e.m.Legal) == 0 {
-		return true
-	}
-	b, ok := e.legal[temp]
-	if !ok {
-		if len(e.legal) >= legalCacheSize {
-			clear(e.legal)
-		}
-	}
-	switch {
-	case b.hasMet && res >= b.met:
-		return true
-	case b.hasFail && res <= b.fail:
-		return false
-	}
-	met := lethality.JudgeLegal(e.m.Legal, temp, res).Met
-	if met {
-		b.met, b.hasMet = res, true
-	} else {
-		b.fail, b.hasFail = res, true
-	}
-	e.legal[temp] = b
-	return met
 }
 
 // trackDrop follows the temperature drops below the setpoint.
@@ -406,3 +378,6 @@ func (e *Engine) Finish() Result {
 	}
 	return Result{Summary: e.sum, Events: e.events, Drops: e.drops}
 }
+
+// finite says whether v is a number other than ±Inf.
+func finite(v float64) bool { return v-v == 0 }

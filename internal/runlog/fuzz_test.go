@@ -126,8 +126,8 @@ func referenceRead(t *testing.T, data []byte, r *Reader, opt Options) ([]Record,
 	if err != nil {
 		t.Fatalf("the reader read a header that encoding/csv refuses: %v", err)
 	}
-	if len(header) != r.nfields {
-		t.Fatalf("header: %d fields, encoding/csv %d", r.nfields, len(header))
+	if len(header) != r.cfg.nfields {
+		t.Fatalf("header: %d fields, encoding/csv %d", r.cfg.nfields, len(header))
 	}
 	cols := r.Columns()
 	trim := " \t"
@@ -158,7 +158,7 @@ func referenceRead(t *testing.T, data []byte, r *Reader, opt Options) ([]Record,
 		if endLine != line || strings.ContainsAny(strings.Join(fields, ""), "\n") {
 			return recs, line // a quoted field across lines: refused by design
 		}
-		if len(fields) != r.nfields {
+		if len(fields) != r.cfg.nfields {
 			return recs, line
 		}
 		rec := Record{Line: line}

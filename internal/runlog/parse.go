@@ -34,40 +34,36 @@ func parseNumber(b []byte, decimalComma bool) (float64, bool) {
 		mark = ','
 	}
 	i, neg := 0, false
-	if i < len(b) && (b[i] == '+' || b[i] == '-') {
-		neg = b[i] == '-'
-		i++
+	if len(b) > 0 && (b[0] == '+' || b[0] == '-') {
+		neg = b[0] == '-'
+		i = 1
 	}
+	// mant collects every digit, leading zeros included; more than 19 of
+	// them may overflow it, and then strconv reads the text instead.
 	var mant uint64
-	sig, exp, digits := 0, 0, 0
-	many := false // more significant digits than mant holds
-	for ; i < len(b) && b[i] >= '0' && b[i] <= '9'; i++ {
-		digits++
-		if sig < 19 {
-			mant = mant*10 + uint64(b[i]-'0')
-			if mant != 0 {
-				sig++
-			}
-		} else {
-			many = true
+	nd, exp := 0, 0
+	for ; i < len(b); i++ {
+		c := b[i] - '0'
+		if c > 9 {
+			break
 		}
+		mant = mant*10 + uint64(c)
+		nd++
 	}
 	if i < len(b) && b[i] == mark {
 		i++
-		for ; i < len(b) && b[i] >= '0' && b[i] <= '9'; i++ {
-			digits++
-			if sig < 19 {
-				mant = mant*10 + uint64(b[i]-'0')
-				if mant != 0 {
-					sig++
-				}
-				exp--
-			} else {
-				many = true
+		intDigits := nd
+		for ; i < len(b); i++ {
+			c := b[i] - '0'
+			if c > 9 {
+				break
 			}
+			mant = mant*10 + uint64(c)
+			nd++
 		}
+		exp = intDigits - nd
 	}
-	if digits == 0 {
+	if nd == 0 {
 		return 0, false
 	}
 	if i < len(b) && (b[i] == 'e' || b[i] == 'E') {
@@ -78,9 +74,13 @@ func parseNumber(b []byte, decimalComma bool) (float64, bool) {
 			i++
 		}
 		start, e := i, 0
-		for ; i < len(b) && b[i] >= '0' && b[i] <= '9'; i++ {
+		for ; i < len(b); i++ {
+			c := b[i] - '0'
+			if c > 9 {
+				break
+			}
 			if e < 100000 {
-				e = e*10 + int(b[i]-'0')
+				e = e*10 + int(c)
 			}
 		}
 		if i == start {
@@ -94,7 +94,7 @@ func parseNumber(b []byte, decimalComma bool) (float64, bool) {
 	if i != len(b) {
 		return 0, false
 	}
-	if !many && mant < 1<<53 {
+	if nd <= 19 && mant < 1<<53 {
 		f := float64(mant)
 		ok := true
 		switch {
@@ -149,33 +149,42 @@ type clock struct {
 // Ranges are those time.Parse applies to the same layout: month 1–12, the
 // day within its month, hour 0–23, minute and second 0–59 (no leap second),
 // offset hour up to 24 and minute up to 60; fraction digits past the ninth are
-// dropped.
-func parseClock(b []byte) (clock, bool) {
-	var c clock
-	if len(b) < 19 || b[4] != '-' || b[7] != '-' || (b[10] != 'T' && b[10] != ' ') || b[13] != ':' || b[16] != ':' {
-		return c, false
+// dropped. It fills *c (a pointer rather than a returned value: copying the
+// returned struct stalled on the stores just made, doubling the time).
+func parseClock(b []byte, c *clock) bool {
+	*c = clock{}
+	if len(b) < 19 {
+		return false
 	}
-	var ok1, ok2, ok3, ok4, ok5, ok6 bool
-	c.year, ok1 = digitsAt(b, 0, 4)
-	c.month, ok2 = digitsAt(b, 5, 2)
-	c.day, ok3 = digitsAt(b, 8, 2)
-	c.hour, ok4 = digitsAt(b, 11, 2)
-	c.min, ok5 = digitsAt(b, 14, 2)
-	c.sec, ok6 = digitsAt(b, 17, 2)
-	if !(ok1 && ok2 && ok3 && ok4 && ok5 && ok6) {
-		return c, false
+	_ = b[18]
+	if b[4] != '-' || b[7] != '-' || (b[10] != 'T' && b[10] != ' ') || b[13] != ':' || b[16] != ':' {
+		return false
 	}
+	y0, y1, y2, y3 := b[0]-'0', b[1]-'0', b[2]-'0', b[3]-'0'
+	mo0, mo1, d0, d1 := b[5]-'0', b[6]-'0', b[8]-'0', b[9]-'0'
+	h0, h1, mi0, mi1, s0, s1 := b[11]-'0', b[12]-'0', b[14]-'0', b[15]-'0', b[17]-'0', b[18]-'0'
+	if y0 > 9 || y1 > 9 || y2 > 9 || y3 > 9 || mo0 > 9 || mo1 > 9 || d0 > 9 || d1 > 9 ||
+		h0 > 9 || h1 > 9 || mi0 > 9 || mi1 > 9 || s0 > 9 || s1 > 9 {
+		return false
+	}
+	c.year = int(y0)*1000 + int(y1)*100 + int(y2)*10 + int(y3)
+	c.month, c.day = int(mo0)*10+int(mo1), int(d0)*10+int(d1)
+	c.hour, c.min, c.sec = int(h0)*10+int(h1), int(mi0)*10+int(mi1), int(s0)*10+int(s1)
 	if c.month < 1 || c.month > 12 || c.day < 1 || c.day > daysIn(c.month, c.year) ||
 		c.hour > 23 || c.min > 59 || c.sec > 59 {
-		return c, false
+		return false
 	}
 	i := 19
-	if i+1 < len(b) && (b[i] == '.' || b[i] == ',') && b[i+1] >= '0' && b[i+1] <= '9' {
+	if i+1 < len(b) && (b[i] == '.' || b[i] == ',') && b[i+1]-'0' <= 9 {
 		i++
 		n := 0
-		for ; i < len(b) && b[i] >= '0' && b[i] <= '9'; i++ {
+		for ; i < len(b); i++ {
+			d := b[i] - '0'
+			if d > 9 {
+				break
+			}
 			if n < 9 {
-				c.nsec = c.nsec*10 + int(b[i]-'0')
+				c.nsec = c.nsec*10 + int(d)
 				n++
 			}
 		}
@@ -185,24 +194,24 @@ func parseClock(b []byte) (clock, bool) {
 	}
 	switch {
 	case i == len(b):
-		return c, true
+		return true
 	case b[i] == 'Z' && i+1 == len(b):
 		c.zoned = true
-		return c, true
+		return true
 	case (b[i] == '+' || b[i] == '-') && i+6 == len(b) && b[i+3] == ':':
 		h, okh := digitsAt(b, i+1, 2)
 		m, okm := digitsAt(b, i+4, 2)
 		if !okh || !okm || h > 24 || m > 60 {
-			return c, false
+			return false
 		}
 		c.offset = (h*60 + m) * 60
 		if b[i] == '-' {
 			c.offset = -c.offset
 		}
 		c.zoned = true
-		return c, true
+		return true
 	}
-	return c, false
+	return false
 }
 
 // digitsAt reads n decimal digits at b[at:].

@@ -67,7 +67,8 @@ func TestParseClock(t *testing.T) {
 		{"2026-03-14T06:00:00.Z", time.Time{}, false},
 	}
 	for _, c := range cases {
-		cl, ok := parseClock([]byte(c.in))
+		var cl clock
+		ok := parseClock([]byte(c.in), &cl)
 		if ok != c.ok {
 			t.Errorf("parseClock(%q) ok = %v, want %v", c.in, ok, c.ok)
 			continue

@@ -56,9 +56,9 @@ import (
 	"fmt"
 	"hash"
 	"io"
-	"math"
 	"os"
 	"strings"
+	"sync"
 	"sync/atomic"
 	"time"
 
@@ -90,6 +90,9 @@ type Options struct {
 	SkipBadRows int
 	// Hash computes the SHA-256 of the file's bytes as stored while reading.
 	Hash bool
+	// Workers is the number of goroutines parsing the file; 0 is one per
+	// core.
+	Workers int
 }
 
 // MaxListed is how many skipped rows' errors a Reader keeps.
@@ -109,47 +112,40 @@ type Record struct {
 	Optional []float64
 }
 
-// Reader reads one recorded-run file.
+// Reader reads one recorded-run file. Its methods are for one goroutine;
+// Close releases the goroutines it reads with (reading to the end or to an
+// error releases them too).
 type Reader struct {
 	name   string
 	opt    Options
-	loc    *time.Location
 	closer io.Closer
 	raw    *bufio.Reader // the bytes as stored
 	src    *bufio.Reader // the text (raw itself, or decompressed)
 	hash   hash.Hash
 	count  *countingReader
-	sp     splitter
 
-	line    int // the last line read
-	header  int // the header's line
-	nfields int
-	found   []Found // in Standard then Optional order; Index −1 when absent
-	idx     [4]int  // field index of the standard columns
-	numeric []numField
-	clock   bool // times are clock times (else seconds)
-	decided bool // the first row fixed clock
-	zoneNo  bool // some clock time had no offset
+	line   int // the last line of the header phase
+	header int // the header's line
+	found  []Found
+	cfg    rowConfig
 
-	rec      Record
+	// The parsing pipeline (pipeline.go).
+	futures chan chan *batch
+	quit    chan struct{}
+	wg      sync.WaitGroup
+	decided bool // the time format is fixed (producer only)
+	cur     *batch
+	ri, ei  int
+
+	rec      *Record
 	rows     int
 	prevTime float64
 	prevLine int
+	zoneNo   bool
 	bad      int
 	listed   inputerr.List
 	err      inputerr.List
 	done     bool
-}
-
-// numField is a numeric column to convert.
-type numField struct {
-	field    int      // index in the line
-	key      string   // for messages
-	dst      *float64 // where the SI value goes
-	scale    float64
-	offset   float64
-	optional bool // empty cells read as NaN
-	temp     bool // a temperature point: refuse below absolute zero
 }
 
 // Open opens path and reads its header. The caller closes the Reader.
@@ -183,9 +179,10 @@ func NewReader(rd io.Reader, name string, opt Options) (*Reader, error) {
 }
 
 func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
-	r := &Reader{name: name, opt: opt, loc: opt.Location}
-	if r.loc == nil {
-		r.loc = time.UTC
+	r := &Reader{name: name, opt: opt}
+	r.cfg.name, r.cfg.decimalComma, r.cfg.loc, r.cfg.nOptional = name, opt.DecimalComma, opt.Location, len(opt.Optional)
+	if r.cfg.loc == nil {
+		r.cfg.loc = time.UTC
 	}
 	r.count = &countingReader{r: rd}
 	var in io.Reader = r.count
@@ -220,13 +217,9 @@ func (r *Reader) listAt(pos inputerr.Pos, field, format string, args ...any) inp
 	return inputerr.List{inputerr.At(pos, field, format, args...)}
 }
 
-func (r *Reader) pos(line, byteOffset int) inputerr.Pos {
-	return inputerr.Pos{File: r.name, Line: line, Column: byteOffset + 1}
-}
-
-// readLine returns the next non-blank line without its line break; the
-// slice is valid until the next call. ok is false at the end or on error
-// (then r.err is set).
+// readLine returns the next non-blank line of the header phase without its
+// line break; the slice is valid until the next call. ok is false at the end
+// or on error (then r.err is set).
 func (r *Reader) readLine() (line []byte, ok bool) {
 	for {
 		b, err := r.src.ReadSlice('\n')
@@ -277,24 +270,25 @@ func (r *Reader) readHeader() error {
 	}
 	r.header = r.line
 	line = bytes.TrimPrefix(line, []byte("\xef\xbb\xbf"))
-	r.sp.sep = r.opt.Separator
-	if r.sp.sep == 0 {
+	sp := splitter{sep: r.opt.Separator}
+	if sp.sep == 0 {
 		sep, ok := detectSeparator(line)
 		if !ok {
 			return r.listAt(inputerr.Pos{File: r.name, Line: r.line}, "", "cannot tell the separator from the header %q: expected columns (%s) separated by ',', ';' or tabs; give the separator if the header uses several", clip(line), standardNames())
 		}
-		r.sp.sep = sep
+		sp.sep = sep
 	}
-	if serr := r.sp.split(line); serr != nil {
-		return r.listAt(r.pos(r.line, serr.at), "", "in the header: %s", serr.msg)
+	r.cfg.sep = sp.sep
+	if serr := sp.split(line, true); serr != nil {
+		return r.listAt(r.cfg.pos(r.line, serr.at), "", "in the header: %s", serr.msg)
 	}
-	r.nfields = len(r.sp.fields)
+	r.cfg.nfields = sp.n
 	cols := r.opt.columns()
 	r.found = make([]Found, len(cols))
 	var errs inputerr.List
-	names := make([]string, r.nfields)
-	for i, f := range r.sp.fields {
-		names[i] = string(r.sp.trim(f))
+	names := make([]string, r.cfg.nfields)
+	for i := range names {
+		names[i] = string(trim(sp.field(i), sp.sep))
 	}
 	for c, col := range cols {
 		want := r.opt.headerName(col)
@@ -305,11 +299,11 @@ func (r *Reader) readHeader() error {
 				continue
 			}
 			if r.found[c].Index >= 0 {
-				errs = append(errs, inputerr.At(r.pos(r.line, r.sp.starts[i]), col.Key, "a second column named %q (the first is column %d): keep one", name, r.found[c].Index+1))
+				errs = append(errs, inputerr.At(r.cfg.pos(r.line, sp.start(i)), col.Key, "a second column named %q (the first is column %d): keep one", name, r.found[c].Index+1))
 				continue
 			}
 			r.found[c] = Found{Key: col.Key, Header: h, Index: i}
-			if err := r.setUnit(&r.found[c], col, unit, hasUnit, r.sp.starts[i]); err != nil {
+			if err := r.setUnit(&r.found[c], col, unit, hasUnit, sp.start(i)); err != nil {
 				errs = append(errs, err)
 			}
 		}
@@ -321,37 +315,35 @@ func (r *Reader) readHeader() error {
 	if len(errs) > 0 {
 		return errs
 	}
-	for k := range r.idx {
-		r.idx[k] = r.found[k].Index
-	}
-	r.rec.Optional = make([]float64, len(r.opt.Optional))
-	for i := range r.rec.Optional {
-		r.rec.Optional[i] = math.NaN()
+	r.cfg.timeField, r.cfg.flagField = r.found[0].Index, r.found[3].Index
+	r.cfg.timeUnit, r.cfg.timeScale = r.found[0].Unit, 1
+	if r.cfg.timeUnit != "" {
+		r.cfg.timeScale = r.found[0].Scale
 	}
 	for c, col := range cols {
 		if col.Role != RoleNumber || r.found[c].Index < 0 {
 			continue
 		}
-		var dst *float64
+		n := numField{field: r.found[c].Index, key: col.Key, scale: r.found[c].Scale, offset: r.found[c].Offset,
+			optional: !col.Required, temp: r.found[c].Kind == units.Temperature}
 		switch {
 		case c >= len(Standard):
-			dst = &r.rec.Optional[c-len(Standard)]
+			n.target = c - len(Standard)
 		case col.Key == KeyTemperature:
-			dst = &r.rec.Temperature
+			n.target = targetTemperature
 		case col.Key == KeyFlow:
-			dst = &r.rec.Flow
+			n.target = targetFlow
 		default:
 			panic(panicPrefix + "a standard numeric column without a Record field: " + col.Key)
 		}
-		r.numeric = append(r.numeric, numField{field: r.found[c].Index, key: col.Key, dst: dst,
-			scale: r.found[c].Scale, offset: r.found[c].Offset, optional: !col.Required, temp: r.found[c].Kind == units.Temperature})
+		r.cfg.numeric = append(r.cfg.numeric, n)
 	}
 	return nil
 }
 
 // setUnit settles a column's unit from its header and the options.
 func (r *Reader) setUnit(f *Found, col Column, unit string, hasUnit bool, at int) *inputerr.Error {
-	pos := r.pos(r.line, at)
+	pos := r.cfg.pos(r.line, at)
 	switch col.Role {
 	case RoleFlag:
 		if hasUnit {
@@ -433,188 +425,8 @@ func clip(b []byte) string {
 	return string(b)
 }
 
-// Next reads the next sample; false at the end of the file or on an error
-// (see Err).
-func (r *Reader) Next() bool {
-	if r.done {
-		return false
-	}
-	for {
-		line, ok := r.readLine()
-		if !ok {
-			r.finish()
-			return false
-		}
-		err, fatal := r.parseRow(line)
-		if err == nil {
-			r.rows++
-			return true
-		}
-		if fatal || r.bad >= r.opt.SkipBadRows {
-			if r.bad > 0 && !fatal {
-				err.Msg += fmt.Sprintf(" (one more than the %d bad rows allowed)", r.opt.SkipBadRows)
-			}
-			r.err = append(r.listed, err)
-			r.done = true
-			return false
-		}
-		r.bad++
-		if len(r.listed) < MaxListed {
-			r.listed = append(r.listed, err)
-		}
-	}
-}
-
-// finish runs at the end of the text.
-func (r *Reader) finish() {
-	r.done = true
-	if r.err != nil {
-		r.err = append(r.listed, r.err...)
-		return
-	}
-	if r.rows == 0 {
-		msg := "no data rows after the header"
-		if r.bad > 0 {
-			msg = fmt.Sprintf("no readable data rows: all %d were malformed", r.bad)
-		}
-		r.err = append(r.listed, inputerr.At(inputerr.Pos{File: r.name, Line: r.header + 1}, "", "%s", msg))
-		return
-	}
-	if r.hash != nil {
-		// Hash the whole file as stored, trailing bytes included.
-		if _, err := io.Copy(io.Discard, r.raw); err != nil {
-			r.err = r.listAt(inputerr.Pos{File: r.name}, "", "cannot read to the end: %v", err)
-		}
-	}
-}
-
-// parseRow parses one data line into r.rec. fatal errors stop the reading
-// whatever Options.SkipBadRows says.
-func (r *Reader) parseRow(line []byte) (err *inputerr.Error, fatal bool) {
-	if serr := r.sp.split(line); serr != nil {
-		return inputerr.At(r.pos(r.line, serr.at), "", "%s", serr.msg), false
-	}
-	if len(r.sp.fields) != r.nfields {
-		return r.fieldCountError(line), false
-	}
-	f := r.sp.fields
-	rec := &r.rec
-	rec.Line = r.line
-
-	// Time.
-	ti := r.idx[0]
-	tb := r.sp.trim(f[ti])
-	if !r.decided {
-		r.clock = len(tb) >= 5 && tb[4] == '-'
-		if !r.clock && r.found[0].Unit == "" {
-			r.found[0].Scale = 1
-		}
-		if r.clock && r.found[0].Unit != "" {
-			return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "a clock time under a header with a unit of time [%s]: remove the unit", r.found[0].Unit), true
-		}
-		r.decided = true
-	}
-	if r.clock {
-		c, ok := parseClock(tb)
-		if !ok {
-			return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "expected an RFC 3339 date and time such as 2026-03-14T06:00:00Z (as in the first row), found %q", clip(tb)), false
-		}
-		if !c.zoned {
-			r.zoneNo = true
-		}
-		rec.Time = c.seconds(r.loc)
-	} else {
-		v, ok := parseNumber(tb, r.opt.DecimalComma)
-		if !ok {
-			return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "expected seconds from the start as a number (as in the first row), found %q", clip(tb)), false
-		}
-		rec.Time = v * r.found[0].Scale
-	}
-
-	// Flag.
-	fi := r.idx[3]
-	fb := r.sp.trim(f[fi])
-	fwd, ok := parseFlag(fb)
-	if !ok {
-		return inputerr.At(r.pos(r.line, r.sp.starts[fi]), KeyForward, "expected 1/0, true/false or forward/divert, found %q", clip(fb)), false
-	}
-	rec.Forward = fwd
-
-	// Numbers.
-	for i := range r.numeric {
-		n := &r.numeric[i]
-		b := r.sp.trim(f[n.field])
-		if len(b) == 0 && n.optional {
-			*n.dst = math.NaN()
-			continue
-		}
-		v, ok := parseNumber(b, r.opt.DecimalComma)
-		if !ok {
-			return r.numberError(n, b), false
-		}
-		si := v*n.scale + n.offset
-		if n.temp && si < -273.15 {
-			return inputerr.At(r.pos(r.line, r.sp.starts[n.field]), n.key, "%q is below absolute zero in this column's unit", clip(b)), false
-		}
-		*n.dst = si
-	}
-
-	// Order: checked last, so a malformed row never becomes the reference.
-	if r.rows > 0 && rec.Time < r.prevTime {
-		return inputerr.At(r.pos(r.line, r.sp.starts[ti]), KeyTime, "time goes backwards: %q is before the time on line %d; a recorded run must be in time order (a clock set back, or files joined out of order?)", clip(tb), r.prevLine), true
-	}
-	r.prevTime, r.prevLine = rec.Time, r.line
-	return nil, false
-}
-
-func (r *Reader) numberError(n *numField, b []byte) *inputerr.Error {
-	pos := r.pos(r.line, r.sp.starts[n.field])
-	switch {
-	case len(b) == 0:
-		return inputerr.At(pos, n.key, "empty: expected a number")
-	case !r.opt.DecimalComma && bytes.IndexByte(b, ',') >= 0:
-		if _, ok := parseNumber(b, true); ok {
-			return inputerr.At(pos, n.key, "expected a number with '.' as the decimal mark, found %q: is the file written with decimal commas?", clip(b))
-		}
-	case r.opt.DecimalComma && bytes.IndexByte(b, '.') >= 0:
-		return inputerr.At(pos, n.key, "expected a number with ',' as the decimal mark, found %q ('.' could be a thousands separator)", clip(b))
-	}
-	return inputerr.At(pos, n.key, "expected a number, found %q", clip(b))
-}
-
-// fieldCountError explains a row with the wrong number of fields, naming
-// another separator when the row seems to use it.
-func (r *Reader) fieldCountError(line []byte) *inputerr.Error {
-	pos := inputerr.Pos{File: r.name, Line: r.line}
-	got := len(r.sp.fields)
-	for _, other := range []byte{',', ';', '\t'} {
-		if other == r.sp.sep {
-			continue
-		}
-		if bytes.Count(line, []byte{other})+1 == r.nfields {
-			return inputerr.At(pos, "", "%s where the header has %d: this row seems separated by %s, the header by %s (mixed separators)",
-				fieldCount(got), r.nfields, sepName(other), sepName(r.sp.sep))
-		}
-	}
-	return inputerr.At(pos, "", "%s where the header has %d (separated by %s)", fieldCount(got), r.nfields, sepName(r.sp.sep))
-}
-
-func fieldCount(n int) string {
-	if n == 1 {
-		return "1 field"
-	}
-	return fmt.Sprintf("%d fields", n)
-}
-
-func sepName(sep byte) string {
-	if sep == '\t' {
-		return "tabs"
-	}
-	return fmt.Sprintf("'%c'", sep)
-}
-
 // Record is the sample Next read; it is overwritten by the next call.
-func (r *Reader) Record() *Record { return &r.rec }
+func (r *Reader) Record() *Record { return r.rec }
 
 // Err is the error that stopped the reading, nil at a clean end. It is an
 // inputerr.List: the skipped rows' errors kept so far, then the one that
@@ -637,7 +449,7 @@ func (r *Reader) Skipped() (int, inputerr.List) { return r.bad, r.listed }
 func (r *Reader) Name() string { return r.name }
 
 // Separator is the separator in use.
-func (r *Reader) Separator() byte { return r.sp.sep }
+func (r *Reader) Separator() byte { return r.cfg.sep }
 
 // Columns lists the known columns and where the header has them (Index −1
 // for an optional column it lacks), standard ones first.
@@ -653,7 +465,7 @@ func (r *Reader) FlowIsMass() bool { return r.found[2].Kind == units.MassFlow }
 // ClockTimes says whether times are clock times (seconds since 1970-01-01
 // UTC) rather than seconds from an origin of the file's own; known after the
 // first row.
-func (r *Reader) ClockTimes() bool { return r.clock }
+func (r *Reader) ClockTimes() bool { return r.cfg.clock }
 
 // ZoneLess says whether some clock time was written without an offset (and
 // so read in Options.Location).
@@ -672,8 +484,9 @@ func (r *Reader) SHA256() []byte {
 // size (0 when unknown). Safe to call from another goroutine.
 func (r *Reader) Progress() (read, total int64) { return r.count.n.Load(), r.count.total }
 
-// Close closes the file Open opened.
+// Close stops the reading and closes the file Open opened.
 func (r *Reader) Close() error {
+	r.stop()
 	if r.closer == nil {
 		return nil
 	}

@@ -7,10 +7,13 @@ import "bytes"
 // end of its line: recorder exports never need that, and refusing it keeps
 // every row on one line, so line numbers in messages are the editor's.
 type splitter struct {
-	sep    byte
-	fields [][]byte // field contents, quotes removed
-	starts []int    // byte offset of each field's first byte in the line
-	buf    []byte   // unquoted contents of quoted fields
+	sep byte
+	n   int     // fields in the last line split
+	src []byte  // the line, or the unquoted copy of a line with quotes
+	st  []int32 // field i is src[st[i]:en[i]]
+	en  []int32
+	at  []int32 // byte offset of field i's first byte in the line
+	buf []byte  // the unquoted copy
 }
 
 // splitError says what is wrong with a line and where (a byte offset).
@@ -19,20 +22,36 @@ type splitError struct {
 	msg string
 }
 
-// split fills s.fields and s.starts; the slices are valid until the next call.
-func (s *splitter) split(line []byte) *splitError {
-	s.fields, s.starts = s.fields[:0], s.starts[:0]
-	if bytes.IndexByte(line, '"') < 0 {
+// field is the i-th field of the last line split, quotes removed; valid
+// until the next split.
+func (s *splitter) field(i int) []byte { return s.src[s.st[i]:s.en[i]] }
+
+// start is the byte offset of the i-th field in its line.
+func (s *splitter) start(i int) int { return int(s.at[i]) }
+
+// add records a field.
+func (s *splitter) add(st, en, at int) {
+	if s.n == len(s.st) {
+		s.st, s.en, s.at = append(s.st, 0), append(s.en, 0), append(s.at, 0)
+	}
+	s.st[s.n], s.en[s.n], s.at[s.n] = int32(st), int32(en), int32(at)
+	s.n++
+}
+
+// split cuts line into fields. quotes false promises that the line holds no
+// quote character (the caller looked at a whole block of lines at once).
+func (s *splitter) split(line []byte, quotes bool) *splitError {
+	s.n = 0
+	if !quotes || bytes.IndexByte(line, '"') < 0 {
+		s.src = line
 		start := 0
 		for {
 			i := bytes.IndexByte(line[start:], s.sep)
 			if i < 0 {
-				s.fields = append(s.fields, line[start:])
-				s.starts = append(s.starts, start)
+				s.add(start, len(line), start)
 				return nil
 			}
-			s.fields = append(s.fields, line[start:start+i])
-			s.starts = append(s.starts, start)
+			s.add(start, start+i, start)
 			start += i + 1
 		}
 	}
@@ -41,19 +60,15 @@ func (s *splitter) split(line []byte) *splitError {
 
 // splitQuoted handles a line with a quote character in it: a field that
 // starts with '"' runs to the next lone '"', inside which '""' is one quote
-// and the separator is text; a quote anywhere else is an error.
+// and the separator is text; a quote anywhere else is an error. The fields'
+// contents are copied, unquoted, into s.buf.
 func (s *splitter) splitQuoted(line []byte) *splitError {
 	s.buf = s.buf[:0]
-	// Contents of quoted fields go into s.buf; record offsets first and
-	// slice at the end, since s.buf may move while it grows.
-	type span struct{ from, to int }
-	var quoted []span
-	var kinds []bool // true: span in s.buf; false: span in line
 	pos := 0
 	for {
 		start := pos
+		from := len(s.buf)
 		if pos < len(line) && line[pos] == '"' {
-			from := len(s.buf)
 			pos++
 			for {
 				i := bytes.IndexByte(line[pos:], '"')
@@ -69,9 +84,7 @@ func (s *splitter) splitQuoted(line []byte) *splitError {
 				}
 				break
 			}
-			quoted = append(quoted, span{from, len(s.buf)})
-			kinds = append(kinds, true)
-			s.starts = append(s.starts, start)
+			s.add(from, len(s.buf), start)
 			if pos == len(line) {
 				break
 			}
@@ -89,31 +102,27 @@ func (s *splitter) splitQuoted(line []byte) *splitError {
 		if q := bytes.IndexByte(line[pos:end], '"'); q >= 0 {
 			return &splitError{at: pos + q, msg: `a quote inside a field that does not start with one (quote the whole field and write the quote as "")`}
 		}
-		quoted = append(quoted, span{pos, end})
-		kinds = append(kinds, false)
-		s.starts = append(s.starts, start)
+		s.buf = append(s.buf, line[pos:end]...)
+		s.add(from, len(s.buf), start)
 		if i < 0 {
 			break
 		}
 		pos = end + 1
 	}
-	for k, sp := range quoted {
-		if kinds[k] {
-			s.fields = append(s.fields, s.buf[sp.from:sp.to])
-		} else {
-			s.fields = append(s.fields, line[sp.from:sp.to])
-		}
-	}
+	s.src = s.buf
 	return nil
 }
 
 // trim removes the spaces (and tabs, unless tab separates fields) around a
 // field.
-func (s *splitter) trim(b []byte) []byte {
-	for len(b) > 0 && (b[0] == ' ' || (b[0] == '\t' && s.sep != '\t')) {
+func trim(b []byte, sep byte) []byte {
+	if len(b) > 0 && b[0] > ' ' && b[len(b)-1] > ' ' {
+		return b
+	}
+	for len(b) > 0 && (b[0] == ' ' || (b[0] == '\t' && sep != '\t')) {
 		b = b[1:]
 	}
-	for len(b) > 0 && (b[len(b)-1] == ' ' || (b[len(b)-1] == '\t' && s.sep != '\t')) {
+	for len(b) > 0 && (b[len(b)-1] == ' ' || (b[len(b)-1] == '\t' && sep != '\t')) {
 		b = b[:len(b)-1]
 	}
 	return b
