@@ -5,6 +5,7 @@ import (
 	"compress/gzip"
 	"crypto/sha256"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -380,5 +381,80 @@ func TestEach(t *testing.T) {
 	}
 	if errs[5] == nil || !strings.Contains(errs[5].Error(), "missing.csv: cannot read the file") {
 		t.Errorf("missing file: %v", errs[5])
+	}
+}
+
+// TestManyBlocks reads a file of many blocks on several goroutines: records
+// in order with their own line numbers, skipped rows counted across
+// blocks, time going backwards caught at a block boundary.
+func TestManyBlocks(t *testing.T) {
+	const rows = 60000 // about 2 MB: several blocks
+	var b strings.Builder
+	b.WriteString(hdr)
+	t0 := time.Date(2026, 3, 14, 0, 0, 0, 0, time.UTC)
+	lineOf := map[int]int{} // record index → line
+	line, bad := 1, 0
+	for i := range rows {
+		if i%7919 == 5 {
+			b.WriteString("\n") // a blank line
+			line++
+		}
+		if i%10007 == 3 {
+			b.WriteString("2026-03-14T00:00:00Z,not a number,10000,1\n")
+			line++
+			bad++
+		}
+		line++
+		lineOf[i] = line
+		b.WriteString(t0.Add(time.Duration(i)*time.Second).Format(time.RFC3339) + ",72.8," + strconv.Itoa(10000+i%100) + ",1\n")
+	}
+	text := b.String()
+	for _, workers := range []int{1, 3} {
+		t.Run(fmt.Sprintf("%d workers", workers), func(t *testing.T) {
+			recs, r := readAll(t, text, Options{SkipBadRows: bad, Workers: workers})
+			if len(recs) != rows {
+				t.Fatalf("%d records, want %d", len(recs), rows)
+			}
+			for i, rec := range recs {
+				want := float64(t0.Unix() + int64(i))
+				if rec.Line != lineOf[i] || math.Abs(rec.Time-want) > 1e-9 || math.Abs(rec.Flow-float64(10000+i%100)/3.6e6) > 1e-15 {
+					t.Fatalf("record %d: line %d time %.0f flow %g; want line %d time %.0f", i, rec.Line, rec.Time, rec.Flow, lineOf[i], want)
+				}
+			}
+			if n, listed := r.Skipped(); n != bad || listed[0].Pos.Line != lineOf[3]-1 {
+				t.Errorf("skipped %d (first %v), want %d at line %d", n, listed[0], bad, lineOf[3]-1)
+			}
+		})
+	}
+	// Swap two rows so that the one going back in time is inside a block,
+	// or opens the second block (rows are of one length, so the blocks do
+	// not move: the first holds the k lines after the header that fit in
+	// blockSize bytes): the error names its line either way.
+	lines := strings.Split(text, "\n")
+	k := strings.Count(text[len(hdr):len(hdr)+blockSize], "\n")
+	for _, at := range []int{rows / 2, k} {
+		swapped := append([]string(nil), lines...)
+		swapped[at], swapped[at+1] = swapped[at+1], swapped[at]
+		e := firstError(t, strings.Join(swapped, "\n"), Options{SkipBadRows: bad, Workers: 3})
+		if e.Pos.Line != at+2 || e.Field != KeyTime || !strings.Contains(e.Msg, "time goes backwards") {
+			t.Errorf("swap at line %d: %v", at+1, e)
+		}
+	}
+}
+
+// TestOptionalManyRows checks optional values across a batch's storage
+// growing and across blocks.
+func TestOptionalManyRows(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("time,hold_outlet_temperature [°C],flow_rate [L/h],forward,heating_medium_in [°C]\n")
+	for i := range 30000 {
+		fmt.Fprintf(&b, "%d,72.8,10000,1,%d\n", i, i%1000)
+	}
+	opt := Options{Optional: []Column{{Key: "heating_medium_in", Role: RoleNumber, Kinds: []units.Kind{units.Temperature}}}, Workers: 2}
+	recs, _ := readAll(t, b.String(), opt)
+	for i, rec := range recs {
+		if math.Abs(rec.Optional[0]-float64(i%1000)) > 1e-12 {
+			t.Fatalf("record %d: heating_medium_in %g, want %d", i, rec.Optional[0], i%1000)
+		}
 	}
 }
