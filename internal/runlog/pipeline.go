@@ -6,7 +6,6 @@ import (
 	"io"
 	"math"
 	"runtime"
-	"sync"
 
 	"pasval/internal/inputerr"
 )
@@ -63,6 +62,8 @@ func (r *Reader) start() {
 		workers = runtime.GOMAXPROCS(0)
 	}
 	r.futures = make(chan chan *batch, 2*workers+2)
+	inFlight := cap(r.futures) + 2*workers + 2
+	r.freeBufs, r.freeBatches = make(chan []byte, inFlight), make(chan *batch, inFlight)
 	r.quit = make(chan struct{})
 	jobs := make(chan job, workers)
 	r.wg.Add(1 + workers)
@@ -197,6 +198,14 @@ func (r *Reader) work(jobs <-chan job) {
 func (p *parser) parseBlock(blk block, b *batch) {
 	b.buf = blk.data
 	data := blk.data
+	// Room for every line at once: growing by appending would copy the
+	// records over and over.
+	if n := bytes.Count(data, []byte{'\n'}) + 1; cap(b.recs) < n {
+		b.recs = make([]Record, 0, n)
+		if k := p.cfg.nOptional; k > 0 {
+			b.opt = make([]float64, 0, n*k)
+		}
+	}
 	lineNo := blk.line - 1
 	have, prevTime, prevLine := false, 0.0, 0
 	var res rowResult
@@ -265,18 +274,33 @@ func (b *batch) grow(nOptional int) *Record {
 	return rec
 }
 
-var (
-	bufPool   = sync.Pool{New: func() any { b := make([]byte, 0, blockSize); return &b }}
-	batchPool = sync.Pool{New: func() any { return new(batch) }}
-)
+// getBuf, putBuf, getBatch and putBatch recycle the blocks' buffers and
+// batches through the Reader's free lists, so a long file allocates them
+// once.
+func (r *Reader) getBuf() []byte {
+	select {
+	case b := <-r.freeBufs:
+		return b[:0]
+	default:
+		return make([]byte, 0, blockSize)
+	}
+}
 
-func (r *Reader) getBuf() []byte  { return (*bufPool.Get().(*[]byte))[:0] }
-func (r *Reader) putBuf(b []byte) { b = b[:0]; bufPool.Put(&b) }
+func (r *Reader) putBuf(b []byte) {
+	select {
+	case r.freeBufs <- b[:0]:
+	default:
+	}
+}
 
 func (r *Reader) getBatch() *batch {
-	b := batchPool.Get().(*batch)
-	b.recs, b.opt, b.errs, b.zoneLess = b.recs[:0], b.opt[:0], b.errs[:0], false
-	return b
+	select {
+	case b := <-r.freeBatches:
+		b.recs, b.opt, b.errs, b.zoneLess = b.recs[:0], b.opt[:0], b.errs[:0], false
+		return b
+	default:
+		return new(batch)
+	}
 }
 
 func (r *Reader) putBatch(b *batch) {
@@ -285,7 +309,10 @@ func (r *Reader) putBatch(b *batch) {
 	}
 	b.buf = nil
 	clear(b.errs)
-	batchPool.Put(b)
+	select {
+	case r.freeBatches <- b:
+	default:
+	}
 }
 
 // Next reads the next sample; false at the end of the file or on an error

@@ -33,8 +33,8 @@
 //
 // Time is an RFC 3339 date and time, "2026-03-14T06:00:00Z", with or without
 // an offset (without, it is read in Options.Location, UTC by default; a space
-// may replace the T), or a number of seconds from any origin; the first row
-// fixes which, for the whole file. Time may stand still between rows (a
+// may replace the T), or a number of seconds from any origin ("time [min]"
+// in the header scales it); the first row fixes which, for the whole file. Time may stand still between rows (a
 // duplicated sample) but never go back. forward is 1/0, true/false or
 // forward/divert, in any case.
 //
@@ -44,7 +44,14 @@
 // "go to column" lands on it; after the UTF-8 byte-order mark on the first
 // line, if any); the field is the column's key. A malformed row stops the
 // reading unless Options.SkipBadRows allows it; time going backwards always
-// stops it.
+// stops it. A quoted field may hold the separator or a doubled quote but not
+// a line break.
+//
+// Speed: after the header, one goroutine reads (and decompresses) blocks of
+// whole lines while Options.Workers goroutines parse them, and Next hands
+// out the records in file order; the field, number and time parsers are
+// hand-written (FuzzRunReader holds them to encoding/csv, strconv and
+// time.Parse). The caller's own work on the records runs meanwhile.
 package runlog
 
 import (
@@ -130,12 +137,14 @@ type Reader struct {
 	cfg    rowConfig
 
 	// The parsing pipeline (pipeline.go).
-	futures chan chan *batch
-	quit    chan struct{}
-	wg      sync.WaitGroup
-	decided bool // the time format is fixed (producer only)
-	cur     *batch
-	ri, ei  int
+	futures     chan chan *batch
+	freeBufs    chan []byte
+	freeBatches chan *batch
+	quit        chan struct{}
+	wg          sync.WaitGroup
+	decided     bool // the time format is fixed (producer only)
+	cur         *batch
+	ri, ei      int
 
 	rec      *Record
 	rows     int

@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strconv"
 	"strings"
 	"testing"
@@ -456,5 +457,28 @@ func TestOptionalManyRows(t *testing.T) {
 		if math.Abs(rec.Optional[0]-float64(i%1000)) > 1e-12 {
 			t.Fatalf("record %d: heating_medium_in %g, want %d", i, rec.Optional[0], i%1000)
 		}
+	}
+}
+
+// TestCloseEarly stops reading part way: Close releases the reading
+// goroutines.
+func TestCloseEarly(t *testing.T) {
+	var b strings.Builder
+	b.WriteString(hdr)
+	for i := range 100000 {
+		fmt.Fprintf(&b, "%d,72.8,10000,1\n", i)
+	}
+	before := runtime.NumGoroutine()
+	for range 5 {
+		r, err := NewReader(strings.NewReader(b.String()), "run.csv", Options{Workers: 3})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := 0; i < 10 && r.Next(); i++ {
+		}
+		r.Close()
+	}
+	if after := runtime.NumGoroutine(); after > before {
+		t.Errorf("%d goroutines after closing, %d before", after, before)
 	}
 }
