@@ -29,6 +29,14 @@ var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
 // References: W. D. Clinger, "How to read floating point numbers accurately",
 // PLDI 1990.
 func parseNumber(b []byte, decimalComma bool) (float64, bool) {
+	v, n, ok := scanNumber(b, decimalComma)
+	return v, ok && n == len(b)
+}
+
+// scanNumber reads the longest number (the grammar of parseNumber) at the
+// start of b and says how many bytes it took; the row fast path reads a
+// field this way and then expects the separator.
+func scanNumber(b []byte, decimalComma bool) (v float64, n int, ok bool) {
 	mark := byte('.')
 	if decimalComma {
 		mark = ','
@@ -64,18 +72,18 @@ func parseNumber(b []byte, decimalComma bool) (float64, bool) {
 		exp = intDigits - nd
 	}
 	if nd == 0 {
-		return 0, false
+		return 0, 0, false
 	}
 	if i < len(b) && (b[i] == 'e' || b[i] == 'E') {
-		i++
+		j := i + 1
 		eneg := false
-		if i < len(b) && (b[i] == '+' || b[i] == '-') {
-			eneg = b[i] == '-'
-			i++
+		if j < len(b) && (b[j] == '+' || b[j] == '-') {
+			eneg = b[j] == '-'
+			j++
 		}
-		start, e := i, 0
-		for ; i < len(b); i++ {
-			c := b[i] - '0'
+		start, e := j, 0
+		for ; j < len(b); j++ {
+			c := b[j] - '0'
 			if c > 9 {
 				break
 			}
@@ -83,16 +91,13 @@ func parseNumber(b []byte, decimalComma bool) (float64, bool) {
 				e = e*10 + int(c)
 			}
 		}
-		if i == start {
-			return 0, false
+		if j > start { // else the number ends before the 'e'
+			if eneg {
+				e = -e
+			}
+			exp += e
+			i = j
 		}
-		if eneg {
-			e = -e
-		}
-		exp += e
-	}
-	if i != len(b) {
-		return 0, false
 	}
 	if nd <= 19 && mant < 1<<53 {
 		f := float64(mant)
@@ -110,10 +115,11 @@ func parseNumber(b []byte, decimalComma bool) (float64, bool) {
 			if neg {
 				f = -f
 			}
-			return f, true
+			return f, i, true
 		}
 	}
-	return parseNumberSlow(b, mark)
+	v, ok = parseNumberSlow(b[:i], mark)
+	return v, i, ok
 }
 
 // parseNumberSlow hands a number already checked against the grammar to

@@ -198,9 +198,9 @@ func (r *Reader) work(jobs <-chan job) {
 func (p *parser) parseBlock(blk block, b *batch) {
 	b.buf = blk.data
 	data := blk.data
-	// Room for every line at once: growing by appending would copy the
-	// records over and over.
-	if n := bytes.Count(data, []byte{'\n'}) + 1; cap(b.recs) < n {
+	// Room for every line at once, from the line length seen so far:
+	// growing by appending would copy the records over and over.
+	if n := len(data)/p.lineLen + 64; cap(b.recs) < n {
 		b.recs = make([]Record, 0, n)
 		if k := p.cfg.nOptional; k > 0 {
 			b.opt = make([]float64, 0, n*k)
@@ -224,7 +224,9 @@ func (p *parser) parseBlock(blk block, b *batch) {
 			continue
 		}
 		rec := b.grow(p.cfg.nOptional)
-		p.parseRow(l, lineNo, rec, blk.quotes, &res)
+		if blk.quotes || !p.fastRow(l, lineNo, rec, &res) {
+			p.parseRow(l, lineNo, rec, blk.quotes, &res)
+		}
 		if res.err == nil && have && rec.Time < prevTime {
 			res.err = inputerr.At(p.cfg.pos(lineNo, res.timeCol), KeyTime, "time goes backwards: %q is before the time on line %d; a recorded run must be in time order (a clock set back, or files joined out of order?)", clip(res.timeText), prevLine)
 			res.fatal = true
@@ -242,6 +244,9 @@ func (p *parser) parseBlock(blk block, b *batch) {
 		}
 		b.zoneLess = b.zoneLess || res.zoneLess
 		have, prevTime, prevLine = true, rec.Time, lineNo
+	}
+	if lineNo >= blk.line {
+		p.lineLen = max(8, len(blk.data)/(lineNo-blk.line+1))
 	}
 }
 

@@ -107,6 +107,9 @@ const MaxListed = 10
 
 const panicPrefix = "runlog: "
 
+// headerBuffer bounds the header line's length.
+const headerBuffer = 64 << 10
+
 // Record is one sample, in SI. The Reader reuses it: copy what you keep.
 type Record struct {
 	Line        int     // the file's line
@@ -199,14 +202,17 @@ func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
 		r.hash = sha256.New()
 		in = io.TeeReader(in, r.hash)
 	}
-	r.raw = bufio.NewReaderSize(in, 256<<10)
+	// Small buffers: the blocks (pipeline.go) are larger, so once the
+	// header is read bufio hands their reads straight to the file or the
+	// decompressor instead of copying.
+	r.raw = bufio.NewReaderSize(in, headerBuffer)
 	r.src = r.raw
 	if magic, _ := r.raw.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
 		gz, err := gzip.NewReader(r.raw)
 		if err != nil {
 			return nil, r.listAt(inputerr.Pos{File: name}, "", "the file starts like gzip-compressed data but cannot be decompressed: %v", err)
 		}
-		r.src = bufio.NewReaderSize(gz, 256<<10)
+		r.src = bufio.NewReaderSize(gz, headerBuffer)
 	}
 	if err := r.readHeader(); err != nil {
 		return nil, err
@@ -288,6 +294,9 @@ func (r *Reader) readHeader() error {
 		sp.sep = sep
 	}
 	r.cfg.sep = sp.sep
+	if sp.sep == ',' && r.opt.DecimalComma {
+		return r.listAt(inputerr.Pos{File: r.name, Line: r.line}, "", "the header is separated by ',', which cannot go with decimal commas: export with ';' or tabs between columns, or without the decimal-comma option")
+	}
 	if serr := sp.split(line, true); serr != nil {
 		return r.listAt(r.cfg.pos(r.line, serr.at), "", "in the header: %s", serr.msg)
 	}
@@ -347,6 +356,7 @@ func (r *Reader) readHeader() error {
 		}
 		r.cfg.numeric = append(r.cfg.numeric, n)
 	}
+	r.cfg.setRoles()
 	return nil
 }
 

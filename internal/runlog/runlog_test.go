@@ -243,6 +243,7 @@ func TestBadFiles(t *testing.T) {
 		{"unit conflict", hdr + row, Options{TemperatureUnit: "°F"}, 1, 6, KeyTemperature, "the header says [°C] but the unit option says"},
 		{"missing column", "time,hold_outlet_temperature [°C],flow_rate [L/h]\n2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 1, 0, KeyForward, `no column "forward"`},
 		{"two columns for one key", "time,hold_outlet_temperature [°C],flow_rate [L/h],forward,Forward\n", Options{}, 1, 60, KeyForward, "a second column"},
+		{"decimal comma with a ',' header", hdr + row, Options{DecimalComma: true}, 1, 0, "", "cannot go with decimal commas"},
 		{"separator unknown", "time hold_outlet_temperature flow_rate forward\n", Options{}, 1, 0, "", "cannot tell the separator"},
 		{"text in a number", hdr + row + "2026-03-14T06:00:01Z,72.8,ten,1\n", Options{}, 3, 27, KeyFlow, `expected a number, found "ten"`},
 		{"decimal comma unannounced", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10000;1\n", Options{}, 2, 22, KeyTemperature, "decimal commas"},
