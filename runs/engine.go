@@ -117,7 +117,7 @@ func (e *Engine) Add(s Sample) error {
 		return nil
 	}
 	e.pending = append(e.pending, s)
-	if len(e.intervals) >= MedianWindow {
+	if len(e.intervals) >= MedianWindow || len(e.pending) >= 4*MedianWindow {
 		e.settle()
 	}
 	return nil

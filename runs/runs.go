@@ -134,9 +134,12 @@ type Options struct {
 const GapFactor = 5
 
 // MedianWindow is how many intervals the median is taken over: the first
-// ones of the run. Samples are held back until the median is known (at most
-// this many, so memory stays bounded), then judged in order; a gap threshold
-// given in Options needs no wait.
+// positive ones of the run (a sort of at most this many values). Samples are
+// held back until the median is known (at most 4 × MedianWindow of them,
+// repeated times included, so memory stays bounded), then judged in order; a
+// gap threshold given in Options needs no wait. The median of the whole run
+// would need the whole run first; recorders sample at a fixed rate, so the
+// first hour of one-second samples fixes it.
 const MedianWindow = 4096
 
 // EventKind says what made an event.

@@ -27,6 +27,11 @@ type block struct {
 	data   []byte
 	line   int  // the number of its first line
 	quotes bool // some line holds a quote character
+	// general says to read every line by the general path: the block came
+	// before the time format was fixed (all its lines are malformed, and
+	// the general path finds that before it reads rowConfig.clock, which a
+	// later block may still set).
+	general bool
 }
 
 // batch is a block's parsed records and errors.
@@ -114,6 +119,7 @@ func (r *Reader) produce(jobs chan<- job) {
 			blk := block{data: data, line: line, quotes: bytes.IndexByte(data, '"') >= 0}
 			if !r.decided {
 				r.decide(blk)
+				blk.general = !r.decided
 			}
 			line += bytes.Count(data, []byte{'\n'})
 			out := make(chan *batch, 1)
@@ -224,7 +230,7 @@ func (p *parser) parseBlock(blk block, b *batch) {
 			continue
 		}
 		rec := b.grow(p.cfg.nOptional)
-		if blk.quotes || !p.fastRow(l, lineNo, rec, &res) {
+		if blk.quotes || blk.general || !p.fastRow(l, lineNo, rec, &res) {
 			p.parseRow(l, lineNo, rec, blk.quotes, &res)
 		}
 		if res.err == nil && have && rec.Time < prevTime {

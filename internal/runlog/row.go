@@ -175,7 +175,6 @@ func (p *parser) parseRow(line []byte, lineNo int, rec *Record, quotes bool, res
 			rec.Optional[n.target] = si
 		}
 	}
-	return
 }
 
 // fastRow parses a line of the common shape — no quotes (the caller knows),
