@@ -380,3 +380,106 @@ func TestEngineRefuses(t *testing.T) {
 		t.Errorf("NaN temperature: %v", err)
 	}
 }
+
+// TestGapThreshold: five times the median interval by default, or as given.
+func TestGapThreshold(t *testing.T) {
+	m := demoModel(t)
+	q := 10000 * lh
+	// Two-second samples with a 9 s and an 11 s interval: the median is 2 s,
+	// the threshold 10 s, so only the 11 s interval is a gap.
+	var s []runs.Sample
+	tm := 0.0
+	for i := range 100 {
+		s = append(s, runs.Sample{Time: tm, Temperature: 73, Flow: q, Forward: true})
+		switch i {
+		case 30:
+			tm += 9
+		case 60:
+			tm += 11
+		default:
+			tm += 2
+		}
+	}
+	res := analyse(t, m, runs.Options{}, s)
+	if len(res.Events) != 1 || res.Events[0].Kind != runs.KindGap || res.Events[0].First != 60 {
+		t.Fatalf("events %+v, want one gap at sample 60", res.Events)
+	}
+	checkNear(t, "median", res.Summary.MedianInterval, 2, 0)
+	checkNear(t, "threshold", res.Summary.GapThreshold, 10, 0)
+	// With a threshold of 8 s both are gaps.
+	res = analyse(t, m, runs.Options{GapThreshold: 8}, s)
+	if len(res.Events) != 2 || res.Summary.Gaps != 2 {
+		t.Errorf("threshold 8 s: %d events, %d gaps; want 2 and 2", len(res.Events), res.Summary.Gaps)
+	}
+	// A gap while diverted is no event.
+	s[60].Forward = false
+	res = analyse(t, m, runs.Options{}, s)
+	if len(res.Events) != 0 {
+		t.Errorf("a gap while diverted gave %d events", len(res.Events))
+	}
+}
+
+// TestRheologyAtTemperature: with a viscosity that depends on temperature,
+// each interval's Reynolds number is taken at its own temperature. A product
+// that is turbulent at 73 °C and laminar when cold (a dip to 60 °C) has its
+// fastest particle at twice the mean velocity while cold.
+func TestRheologyAtTemperature(t *testing.T) {
+	m := demoModel(t)
+	visc := func(temp float64) lethality.Rheology {
+		if temp < 65 {
+			return lethality.Newtonian{Viscosity: 0.05} // Re = 1031·1.568·0.0475/0.05 ≈ 1540 at 10 000 L/h: laminar
+		}
+		return lethality.Newtonian{Viscosity: 0.72e-3}
+	}
+	m.RheologyAt = visc
+	q := 10000 * lh
+	var s []runs.Sample
+	for i := range 200 {
+		temp := 73.0
+		if i >= 100 {
+			temp = 60 // long enough to fill the tube with cold product
+		}
+		s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: q, Forward: true})
+	}
+	res := analyse(t, m, runs.Options{}, s)
+	hot := m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: m.Density}, visc(73), 0)
+	cold := m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: m.Density}, visc(60), 0)
+	if cold.Regime == lethality.Turbulent || hot.Regime != lethality.Turbulent {
+		t.Fatalf("regimes %s and %s, want laminar when cold", cold.Regime, hot.Regime)
+	}
+	// Laminar Newtonian: u_max = 2·v (Hagen–Poiseuille, common practice).
+	checkNear(t, "cold fastest-to-mean", cold.FastestToMean, 2, 1e-12)
+	checkNear(t, "min forward residence", res.Summary.MinForwardResidence, cold.MinResidence, 1e-9)
+	if len(res.Events) != 1 || res.Events[0].Kind != runs.KindTemperature {
+		t.Fatalf("events %+v", res.Events)
+	}
+	checkNear(t, "event min residence", res.Events[0].MinResidence, cold.MinResidence, 1e-9)
+}
+
+// TestStandingProduct: flow stopped since before the run began: the product
+// in the tube has been there for an unknown, unbounded time (+Inf); once
+// the flow starts, residences become finite.
+func TestStandingProduct(t *testing.T) {
+	m := demoModel(t)
+	q := 10000 * lh
+	s := []runs.Sample{{Time: 0, Temperature: 73, Flow: 0, Forward: true}, {Time: 10, Temperature: 73, Flow: q, Forward: true}}
+	for i := 11; i < 100; i++ {
+		s = append(s, runs.Sample{Time: float64(i), Temperature: 73, Flow: q, Forward: true})
+	}
+	e, err := runs.NewEngine(m, runs.Options{GapThreshold: 60})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, x := range s[:2] {
+		e.Add(x)
+	}
+	first := e.Finish()
+	if !math.IsInf(first.Summary.MinForwardResidence, 1) || !math.IsInf(first.Summary.MinForwardLogReduction[1], 1) {
+		t.Errorf("standing product: residence %g, LR %g; want +Inf", first.Summary.MinForwardResidence, first.Summary.MinForwardLogReduction[1])
+	}
+	all := analyse(t, m, runs.Options{GapThreshold: 60}, s)
+	// Once the tube has been flushed at the normal rate, the steady value.
+	checkNear(t, "min residence", all.Summary.MinForwardResidence, m.Tube.Length/uMax(m, 10000), 1e-9)
+	// The held 10 s at no flow delivered nothing.
+	checkNear(t, "forward volume", all.Summary.ForwardVolume, 89*q, 1e-12)
+}
