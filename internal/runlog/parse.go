@@ -158,27 +158,35 @@ type clock struct {
 // dropped. It fills *c (a pointer rather than a returned value: copying the
 // returned struct stalled on the stores just made, doubling the time).
 func parseClock(b []byte, c *clock) bool {
+	n, ok := scanClock(b, c)
+	return ok && n == len(b)
+}
+
+// scanClock reads the date and time of parseClock at the start of b and
+// says how many bytes it took (the row fast path then expects the
+// separator).
+func scanClock(b []byte, c *clock) (int, bool) {
 	*c = clock{}
 	if len(b) < 19 {
-		return false
+		return 0, false
 	}
 	_ = b[18]
 	if b[4] != '-' || b[7] != '-' || (b[10] != 'T' && b[10] != ' ') || b[13] != ':' || b[16] != ':' {
-		return false
+		return 0, false
 	}
 	y0, y1, y2, y3 := b[0]-'0', b[1]-'0', b[2]-'0', b[3]-'0'
 	mo0, mo1, d0, d1 := b[5]-'0', b[6]-'0', b[8]-'0', b[9]-'0'
 	h0, h1, mi0, mi1, s0, s1 := b[11]-'0', b[12]-'0', b[14]-'0', b[15]-'0', b[17]-'0', b[18]-'0'
 	if y0 > 9 || y1 > 9 || y2 > 9 || y3 > 9 || mo0 > 9 || mo1 > 9 || d0 > 9 || d1 > 9 ||
 		h0 > 9 || h1 > 9 || mi0 > 9 || mi1 > 9 || s0 > 9 || s1 > 9 {
-		return false
+		return 0, false
 	}
 	c.year = int(y0)*1000 + int(y1)*100 + int(y2)*10 + int(y3)
 	c.month, c.day = int(mo0)*10+int(mo1), int(d0)*10+int(d1)
 	c.hour, c.min, c.sec = int(h0)*10+int(h1), int(mi0)*10+int(mi1), int(s0)*10+int(s1)
 	if c.month < 1 || c.month > 12 || c.day < 1 || c.day > daysIn(c.month, c.year) ||
 		c.hour > 23 || c.min > 59 || c.sec > 59 {
-		return false
+		return 0, false
 	}
 	i := 19
 	if i+1 < len(b) && (b[i] == '.' || b[i] == ',') && b[i+1]-'0' <= 9 {
@@ -200,24 +208,24 @@ func parseClock(b []byte, c *clock) bool {
 	}
 	switch {
 	case i == len(b):
-		return true
-	case b[i] == 'Z' && i+1 == len(b):
+		return i, true
+	case b[i] == 'Z':
 		c.zoned = true
-		return true
-	case (b[i] == '+' || b[i] == '-') && i+6 == len(b) && b[i+3] == ':':
+		return i + 1, true
+	case (b[i] == '+' || b[i] == '-') && i+6 <= len(b) && b[i+3] == ':':
 		h, okh := digitsAt(b, i+1, 2)
 		m, okm := digitsAt(b, i+4, 2)
 		if !okh || !okm || h > 24 || m > 60 {
-			return false
+			return 0, false
 		}
 		c.offset = (h*60 + m) * 60
 		if b[i] == '-' {
 			c.offset = -c.offset
 		}
 		c.zoned = true
-		return true
+		return i + 6, true
 	}
-	return false
+	return i, true
 }
 
 // digitsAt reads n decimal digits at b[at:].
@@ -283,24 +291,26 @@ func (c clock) seconds(loc *time.Location) float64 {
 // parseFlag reads the flow-diversion position: 1, true or forward for
 // forward flow; 0, false or divert for diverted flow; any case.
 func parseFlag(b []byte) (forward, ok bool) {
-	switch len(b) {
-	case 1:
-		switch b[0] {
-		case '1':
-			return true, true
-		case '0':
-			return false, true
+	forward, n, ok := scanFlag(b)
+	return forward, ok && n == len(b)
+}
+
+// flagWords are the words of parseFlag and the position each means.
+var flagWords = [...]struct {
+	word    string
+	forward bool
+}{{"1", true}, {"0", false}, {"true", true}, {"false", false}, {"forward", true}, {"divert", false}}
+
+// scanFlag reads a word of parseFlag at the start of b and says how many
+// bytes it took. No word is the start of another, so the first that fits is
+// the only one.
+func scanFlag(b []byte) (forward bool, n int, ok bool) {
+	for _, w := range flagWords {
+		if len(b) >= len(w.word) && equalFold(b[:len(w.word)], w.word) {
+			return w.forward, len(w.word), true
 		}
-	case 4:
-		return true, equalFold(b, "true")
-	case 5:
-		return false, equalFold(b, "false")
-	case 6:
-		return false, equalFold(b, "divert")
-	case 7:
-		return true, equalFold(b, "forward")
 	}
-	return false, false
+	return false, 0, false
 }
 
 // equalFold compares ASCII text ignoring case; lower is lower-case.

@@ -209,34 +209,34 @@ func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) b
 			}
 			pos += k
 		case fieldTime:
-			end := fieldEnd(line, pos, c.sep)
-			tb := line[pos:end]
-			if len(tb) == 0 || tb[0] <= ' ' || tb[len(tb)-1] <= ' ' {
-				return false
-			}
+			tb := line[pos:]
 			if c.clock {
 				var cl clock
-				if c.timeUnit != "" || !parseClock(tb, &cl) {
+				k, ok := scanClock(tb, &cl)
+				// A fraction written "06:00:00,5" would take the
+				// separator ',' into the time.
+				if !ok || c.timeUnit != "" || k > 19 && tb[19] == c.sep {
 					return false
 				}
 				rec.Time, res.zoneLess = p.seconds(&cl), !cl.zoned
+				tb = tb[:k]
 			} else {
-				v, ok := parseNumber(tb, c.decimalComma)
+				v, k, ok := scanNumber(tb, c.decimalComma)
 				if !ok {
 					return false
 				}
 				rec.Time = v * c.timeScale
+				tb = tb[:k]
 			}
 			res.timeCol, res.timeText = pos, tb
-			pos = end
+			pos += len(tb)
 		case fieldFlag:
-			end := fieldEnd(line, pos, c.sep)
-			fwd, ok := parseFlag(line[pos:end])
+			fwd, k, ok := scanFlag(line[pos:])
 			if !ok {
 				return false
 			}
 			rec.Forward = fwd
-			pos = end
+			pos += k
 		default:
 			pos = fieldEnd(line, pos, c.sep)
 		}
