@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"testing"
+	"time"
 
 	"pasval/lethality"
 	"pasval/runs"
@@ -482,4 +483,17 @@ func TestStandingProduct(t *testing.T) {
 	checkNear(t, "min residence", all.Summary.MinForwardResidence, m.Tube.Length/uMax(m, 10000), 1e-9)
 	// The held 10 s at no flow delivered nothing.
 	checkNear(t, "forward volume", all.Summary.ForwardVolume, 89*q, 1e-12)
+}
+
+// TestClockSeconds round-trips clock times through float seconds.
+func TestClockSeconds(t *testing.T) {
+	for _, tm := range []time.Time{
+		time.Date(2026, 3, 14, 6, 0, 0, 0, time.UTC),
+		time.Date(2026, 3, 14, 6, 0, 0, 250_000_000, time.UTC),
+		time.Date(1969, 12, 31, 23, 59, 59, 500_000_000, time.UTC),
+	} {
+		if got := runs.ClockTime(runs.UnixSeconds(tm)); !got.Equal(tm) {
+			t.Errorf("%s came back as %s", tm.Format(time.RFC3339Nano), got.Format(time.RFC3339Nano))
+		}
+	}
 }

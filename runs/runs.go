@@ -55,14 +55,22 @@
 //	events[].legal_row_met              Event.LegalRowMet
 //	events[].divert_after_s             Event.DivertAfter (null when nil)
 //
-// An infinite residence or log reduction (product that has not moved since
-// the run began) and NaN (no forward sample) have no JSON number: null.
+// Start and end are Unix seconds for clock times (ClockTime turns them into
+// time.Time for RFC 3339), else seconds as the file wrote them. An infinite
+// residence or log reduction (product that has not moved since the run
+// began) and NaN (no forward sample) have no JSON number: null. Beyond the
+// issue's keys: Event.First and Last (sample indices), Event.MinSampleResidence
+// (the per-sample estimate, for showing beside the per-parcel one),
+// Event.Drop, Result.Drops (every drop below the setpoint, diverted ones
+// too) and the Summary's diverted volume, median interval and gap threshold
+// (the sampling limit to state).
 package runs
 
 import (
 	"errors"
 	"fmt"
 	"math"
+	"time"
 
 	"pasval/lethality"
 )
@@ -259,4 +267,18 @@ func (e *SampleError) Error() string {
 		return fmt.Sprintf("sample %d: time %g s is before the previous sample's %g s", e.Index, e.Value, e.Previous)
 	}
 	return fmt.Sprintf("sample %d: %s is %g, not a finite number", e.Index, e.Field, e.Value)
+}
+
+// UnixSeconds is a clock time as a Sample.Time: seconds since 1970-01-01
+// UTC. float64 keeps such times to about 0.2 µs, far finer than any
+// recorder's sampling.
+func UnixSeconds(t time.Time) float64 {
+	return float64(t.Unix()) + float64(t.Nanosecond())*1e-9
+}
+
+// ClockTime is the inverse of UnixSeconds, rounded to the microsecond (the
+// precision float64 seconds carry today).
+func ClockTime(s float64) time.Time {
+	sec := math.Floor(s)
+	return time.Unix(int64(sec), 0).Add(time.Duration(math.Round((s-sec)*1e6)) * time.Microsecond).UTC()
 }
