@@ -178,4 +178,3 @@ func clip(b []byte) string {
 	}
 	return string(b)
 }
-
