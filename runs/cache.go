@@ -80,7 +80,7 @@ func (e *tempEntry) meetsLegal(res float64, m *Model) bool {
 	case b.hasFail && res <= b.fail:
 		return false
 	}
-	met := lethality.JudgeLegal(m.Legal, math.Float64frombits(e.key), res).Met
+	met := lethality.JudgeLegal(m.Legal, math.Float64frombits(e.key), res, legalTolerance).Met
 	if met {
 		b.met, b.hasMet = res, true
 	} else {

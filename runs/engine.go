@@ -50,11 +50,13 @@ type openEvent struct {
 
 // A reading equal to a limit is not past it; these tolerances keep a value
 // written in other units (161.6 °F for 72 °C, gpm for L/h) on the same
-// side of the limit after conversion. They match lethality.JudgeLegal's and
-// lie far below any sensor's resolution.
+// side of the limit after conversion. legalTolerance is the relative
+// tolerance on a legal row's time, the same one rule the design checks use
+// (docs/METHOD.md §1.5). All lie far below any sensor's resolution.
 const (
 	limitTolerance = 1e-9  // K
 	flowTolerance  = 1e-12 // relative
+	legalTolerance = 1e-9  // relative, of the row time
 )
 
 // NewEngine starts the analysis of one run. It returns ErrNoCriteria for a

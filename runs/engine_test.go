@@ -20,12 +20,11 @@ const lh = 1e-3 / 3600
 // the 72.5 °C setpoint; sealed maximum 11 000 L/h; the plant file's
 // organisms and legal rows (PMO continuous-flow rows).
 func demoModel(t testing.TB) runs.Model {
-	st, ok := lethality.LookupSanitaryTube(2 * 0.0254)
-	if !ok {
-		t.Fatal("no 2 in sanitary tube")
-	}
+	t.Helper()
+	// 2 in sanitary tube: OD 2 in, wall 0.065 in (docs/METHOD.md §7.1, from memory).
+	const outer, wall = 2 * 0.0254, 0.065 * 0.0254
 	return runs.Model{
-		Tube:     lethality.Tube{InnerDiameter: st.Inner(), OuterDiameter: st.Outer, Length: 34, Rise: 0.8},
+		Tube:     lethality.Tube{InnerDiameter: outer - 2*wall, OuterDiameter: outer, Length: 34, Rise: 0.8},
 		Rheology: lethality.Newtonian{Viscosity: 0.72e-3},
 		Density:  1031,
 		Organisms: []lethality.Organism{
