@@ -1,0 +1,331 @@
+package runlog
+
+import (
+	"bytes"
+	"fmt"
+	"math"
+	"time"
+
+	"pasval/internal/inputerr"
+)
+
+// rowConfig is what parsing a data row needs; fixed once the header is read
+// and the first row has settled the time format, then shared read-only by
+// the parsing goroutines.
+type rowConfig struct {
+	name         string
+	nfields      int
+	sep          byte
+	timeField    int
+	flagField    int
+	timeUnit     string  // a unit of time from the header, "" for none
+	timeScale    float64 // seconds per unit of a numeric time
+	clock        bool    // times are RFC 3339 clock times
+	numeric      []numField
+	roles        []fieldRole // per field of a line, for the fast path
+	nOptional    int
+	decimalComma bool
+	loc          *time.Location
+}
+
+// numField is a numeric column to convert.
+type numField struct {
+	field    int    // index in the line
+	key      string // for messages
+	target   int    // targetTemperature, targetFlow or the Optional index
+	scale    float64
+	offset   float64
+	optional bool // empty cells read as NaN
+	temp     bool // a temperature point: refuse below absolute zero
+}
+
+const (
+	targetTemperature = -1
+	targetFlow        = -2
+)
+
+// fieldRole is what a field of a line holds.
+type fieldRole struct {
+	kind fieldKind
+	num  int // fieldNumber: index in rowConfig.numeric
+}
+
+type fieldKind uint8
+
+const (
+	fieldOther fieldKind = iota // a column the reader does not use
+	fieldTime
+	fieldFlag
+	fieldNumber
+)
+
+// setRoles fills c.roles from the field indexes.
+func (c *rowConfig) setRoles() {
+	c.roles = make([]fieldRole, c.nfields)
+	c.roles[c.timeField] = fieldRole{kind: fieldTime}
+	c.roles[c.flagField] = fieldRole{kind: fieldFlag}
+	for i, n := range c.numeric {
+		c.roles[n.field] = fieldRole{kind: fieldNumber, num: i}
+	}
+}
+
+func (c *rowConfig) pos(line, byteOffset int) inputerr.Pos {
+	return inputerr.Pos{File: c.name, Line: line, Column: byteOffset + 1}
+}
+
+// parser parses rows; each parsing goroutine has its own.
+type parser struct {
+	cfg     *rowConfig
+	sp      splitter
+	lineLen int // bytes per line in the blocks so far, for sizing batches
+	// The last date seen and its day number: consecutive rows share a date.
+	dateY, dateM, dateD int
+	dateDays            int64
+	dateOK              bool
+}
+
+func newParser(cfg *rowConfig) *parser {
+	return &parser{cfg: cfg, sp: splitter{sep: cfg.sep}, lineLen: 32}
+}
+
+// rowResult is what parseRow says besides the record.
+type rowResult struct {
+	err      *inputerr.Error
+	fatal    bool   // stops the reading whatever Options.SkipBadRows says
+	timeCol  int    // byte offset of the time field
+	timeText []byte // the time field, valid until the next call
+	zoneLess bool   // a clock time without offset
+}
+
+// parseRow parses one data line (its number is line) into rec and says how
+// in *res (a pointer, for the reason parseClock takes one). quotes says
+// whether the line may hold a quote character.
+func (p *parser) parseRow(line []byte, lineNo int, rec *Record, quotes bool, res *rowResult) {
+	*res = rowResult{}
+	c := p.cfg
+	if serr := p.sp.split(line, quotes); serr != nil {
+		res.err = inputerr.At(c.pos(lineNo, serr.at), "", "%s", serr.msg)
+		return
+	}
+	if p.sp.n != c.nfields {
+		res.err = p.fieldCountError(line, lineNo)
+		return
+	}
+	rec.Line = lineNo
+
+	// Time.
+	tb := trim(p.sp.field(c.timeField), c.sep)
+	res.timeCol, res.timeText = p.sp.start(c.timeField), tb
+	if c.clock {
+		if c.timeUnit != "" {
+			res.err = inputerr.At(c.pos(lineNo, res.timeCol), KeyTime, "a clock time under a header with a unit of time [%s]: remove the unit", c.timeUnit)
+			res.fatal = true
+			return
+		}
+		var cl clock
+		if !parseClock(tb, &cl) {
+			res.err = inputerr.At(c.pos(lineNo, res.timeCol), KeyTime, "expected an RFC 3339 date and time such as 2026-03-14T06:00:00Z (as in the first row), found %q", clip(tb))
+			return
+		}
+		res.zoneLess = !cl.zoned
+		rec.Time = p.seconds(&cl)
+	} else {
+		v, ok := parseNumber(tb, c.decimalComma)
+		if !ok {
+			res.err = inputerr.At(c.pos(lineNo, res.timeCol), KeyTime, "expected seconds from the start as a number (as in the first row), found %q", clip(tb))
+			return
+		}
+		rec.Time = v * c.timeScale
+	}
+
+	// Flag.
+	fb := trim(p.sp.field(c.flagField), c.sep)
+	fwd, ok := parseFlag(fb)
+	if !ok {
+		res.err = inputerr.At(c.pos(lineNo, p.sp.start(c.flagField)), KeyForward, "expected 1/0, true/false or forward/divert, found %q", clip(fb))
+		return
+	}
+	rec.Forward = fwd
+
+	// Numbers.
+	for i := range c.numeric {
+		n := &c.numeric[i]
+		b := trim(p.sp.field(n.field), c.sep)
+		var si float64
+		if len(b) == 0 && n.optional {
+			si = math.NaN()
+		} else {
+			v, ok := parseNumber(b, c.decimalComma)
+			if !ok {
+				res.err = p.numberError(n, b, lineNo)
+				return
+			}
+			si = v*n.scale + n.offset
+			if n.temp && si < -273.15 {
+				res.err = inputerr.At(c.pos(lineNo, p.sp.start(n.field)), n.key, "%q is below absolute zero in this column's unit", clip(b))
+				return
+			}
+		}
+		switch n.target {
+		case targetTemperature:
+			rec.Temperature = si
+		case targetFlow:
+			rec.Flow = si
+		default:
+			rec.Optional[n.target] = si
+		}
+	}
+}
+
+// fastRow parses a line of the common shape — no quotes (the caller knows),
+// no spaces around fields, every field well-formed — straight into rec,
+// reading each field where it starts instead of splitting the line first.
+// It says false whenever it is not sure, and then parseRow reads the line
+// and gives any error; where it says true the values are those parseRow
+// would give (the same field parsers; FuzzRunReader checks both paths).
+func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) bool {
+	c := p.cfg
+	*res = rowResult{}
+	pos, last := 0, len(c.roles)-1
+	for i, role := range c.roles {
+		switch role.kind {
+		case fieldNumber:
+			n := &c.numeric[role.num]
+			v, k, ok := scanNumber(line[pos:], c.decimalComma)
+			if !ok {
+				return false
+			}
+			si := v*n.scale + n.offset
+			if n.temp && si < -273.15 {
+				return false
+			}
+			switch n.target {
+			case targetTemperature:
+				rec.Temperature = si
+			case targetFlow:
+				rec.Flow = si
+			default:
+				rec.Optional[n.target] = si
+			}
+			pos += k
+		case fieldTime:
+			tb := line[pos:]
+			if c.clock {
+				var cl clock
+				k, ok := scanClock(tb, &cl)
+				// A fraction written "06:00:00,5" would take the
+				// separator ',' into the time.
+				if !ok || c.timeUnit != "" || k > 19 && tb[19] == c.sep {
+					return false
+				}
+				rec.Time, res.zoneLess = p.seconds(&cl), !cl.zoned
+				tb = tb[:k]
+			} else {
+				v, k, ok := scanNumber(tb, c.decimalComma)
+				if !ok {
+					return false
+				}
+				rec.Time = v * c.timeScale
+				tb = tb[:k]
+			}
+			res.timeCol, res.timeText = pos, tb
+			pos += len(tb)
+		case fieldFlag:
+			fwd, k, ok := scanFlag(line[pos:])
+			if !ok {
+				return false
+			}
+			rec.Forward = fwd
+			pos += k
+		default:
+			pos = fieldEnd(line, pos, c.sep)
+		}
+		if i == last {
+			if pos != len(line) {
+				return false
+			}
+		} else {
+			if pos >= len(line) || line[pos] != c.sep {
+				return false
+			}
+			pos++
+		}
+	}
+	rec.Line = lineNo
+	return true
+}
+
+// fieldEnd is the offset of the separator ending the field that starts at
+// pos, or the line's length.
+func fieldEnd(line []byte, pos int, sep byte) int {
+	if i := bytes.IndexByte(line[pos:], sep); i >= 0 {
+		return pos + i
+	}
+	return len(line)
+}
+
+// seconds is a clock's instant in seconds since 1970-01-01 UTC (see
+// clock.seconds), remembering the last date's day number.
+func (p *parser) seconds(cl *clock) float64 {
+	if !cl.zoned && p.cfg.loc != time.UTC {
+		return cl.seconds(p.cfg.loc)
+	}
+	if !p.dateOK || cl.year != p.dateY || cl.month != p.dateM || cl.day != p.dateD {
+		p.dateY, p.dateM, p.dateD, p.dateOK = cl.year, cl.month, cl.day, true
+		p.dateDays = daysFromCivil(cl.year, cl.month, cl.day)
+	}
+	unix := p.dateDays*86400 + int64(cl.hour*3600+cl.min*60+cl.sec) - int64(cl.offset)
+	return float64(unix) + float64(cl.nsec)*1e-9
+}
+
+func (p *parser) numberError(n *numField, b []byte, lineNo int) *inputerr.Error {
+	c := p.cfg
+	pos := c.pos(lineNo, p.sp.start(n.field))
+	switch {
+	case len(b) == 0:
+		return inputerr.At(pos, n.key, "empty: expected a number")
+	case !c.decimalComma && bytes.IndexByte(b, ',') >= 0:
+		if _, ok := parseNumber(b, true); ok {
+			return inputerr.At(pos, n.key, "expected a number with '.' as the decimal mark, found %q: is the file written with decimal commas?", clip(b))
+		}
+	case c.decimalComma && bytes.IndexByte(b, '.') >= 0:
+		return inputerr.At(pos, n.key, "expected a number with ',' as the decimal mark, found %q ('.' could be a thousands separator)", clip(b))
+	}
+	return inputerr.At(pos, n.key, "expected a number, found %q", clip(b))
+}
+
+// fieldCountError explains a row with the wrong number of fields, naming
+// another separator when the row seems to use it.
+func (p *parser) fieldCountError(line []byte, lineNo int) *inputerr.Error {
+	c := p.cfg
+	pos := inputerr.Pos{File: c.name, Line: lineNo}
+	got := p.sp.n
+	for _, other := range []byte{',', ';', '\t'} {
+		if other == c.sep {
+			continue
+		}
+		if bytes.Count(line, []byte{other})+1 == c.nfields {
+			return inputerr.At(pos, "", "%s where the header has %d: this row seems separated by %s, the header by %s (mixed separators)",
+				fieldCount(got), c.nfields, sepName(other), sepName(c.sep))
+		}
+	}
+	return inputerr.At(pos, "", "%s where the header has %d (separated by %s)", fieldCount(got), c.nfields, sepName(c.sep))
+}
+
+func fieldCount(n int) string {
+	if n == 1 {
+		return "1 field"
+	}
+	return fmt.Sprintf("%d fields", n)
+}
+
+func sepName(sep byte) string {
+	if sep == '\t' {
+		return "tabs"
+	}
+	return fmt.Sprintf("'%c'", sep)
+}
+
+// looksLikeClock is the rule by which the first row fixes the time format:
+// a date has '-' after its four-digit year.
+func looksLikeClock(tb []byte) bool { return len(tb) >= 5 && tb[4] == '-' }

@@ -1,0 +1,385 @@
+package runs
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"pasval/lethality"
+)
+
+// Engine analyses one recorded run, sample by sample. Add the samples in
+// time order, then call Finish once.
+type Engine struct {
+	m         Model
+	threshold float64 // gap threshold, s; 0 until known
+	median    float64
+
+	// Waiting for the median interval.
+	pending   []Sample
+	intervals []float64
+
+	// The sample awaiting its held interval, and its parcel.
+	n        int // samples taken so far
+	last     Sample
+	lastU    float64   // its fastest-particle speed, m/s
+	lastRes  float64   // its parcel's residence, s
+	lastLR   []float64 // its parcel's log reduction per organism
+	required []float64 // each organism's required log reduction (0: none)
+	prevTime float64   // the latest time added (for order)
+	tr       tracker
+
+	temps    *tempCache
+	speeds   speedCache
+	lastTemp *tempEntry // the cache entry of the last sample's temperature
+
+	sum    Summary
+	events []Event
+	open   *openEvent
+	drops  []Drop
+	drop   int // index of the drop in progress, −1 for none
+	err    error
+	done   bool
+}
+
+// openEvent is an event still growing.
+type openEvent struct {
+	Event
+	gap, temp, flow, allMet bool
+}
+
+// A reading equal to a limit is not past it; these tolerances keep a value
+// written in other units (161.6 °F for 72 °C, gpm for L/h) on the same
+// side of the limit after conversion. legalTolerance is the relative
+// tolerance on a legal row's time, the same one rule the design checks use
+// (docs/METHOD.md §1.5). All lie far below any sensor's resolution.
+const (
+	limitTolerance = 1e-9  // K
+	flowTolerance  = 1e-12 // relative
+	legalTolerance = 1e-9  // relative, of the row time
+)
+
+// NewEngine starts the analysis of one run. It returns ErrNoCriteria for a
+// model with nothing to judge events against, and panics on a model no
+// plant file can give (a non-positive tube, density or maximum flow).
+func NewEngine(m Model, opt Options) (*Engine, error) {
+	if err := m.check(); err != nil {
+		return nil, err
+	}
+	if opt.GapThreshold < 0 || math.IsNaN(opt.GapThreshold) {
+		panic(fmt.Sprintf("%sNewEngine: gap threshold %g s", panicPrefix, opt.GapThreshold))
+	}
+	no := len(m.Organisms)
+	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no)}
+	e.tr.length = m.Tube.Length
+	e.required = make([]float64, no)
+	for i, o := range m.Organisms {
+		e.required[i] = o.RequiredLogReduction
+	}
+	e.median = math.NaN()
+	e.sum = Summary{MinForwardTemperature: math.Inf(1), MaxForwardFlow: math.Inf(-1), MinForwardResidence: math.Inf(1),
+		MinForwardLogReduction: make([]float64, no), MedianInterval: math.NaN()}
+	for i := range e.sum.MinForwardLogReduction {
+		e.sum.MinForwardLogReduction[i] = math.Inf(1)
+	}
+	return e, nil
+}
+
+// Add takes the next sample. Time may stand still but not go back; values
+// must be finite. After an error every later Add returns it.
+func (e *Engine) Add(s Sample) error {
+	if e.done {
+		panic(panicPrefix + "Add after Finish")
+	}
+	if e.err != nil {
+		return e.err
+	}
+	idx := e.n + len(e.pending)
+	if !finite(s.Time) || !finite(s.Temperature) || !finite(s.Flow) {
+		field, v := "time", s.Time
+		switch {
+		case !finite(s.Temperature):
+			field, v = "temperature", s.Temperature
+		case !finite(s.Flow):
+			field, v = "flow", s.Flow
+		}
+		e.err = &SampleError{Index: idx, Field: field, Value: v, Previous: math.NaN()}
+		return e.err
+	}
+	if idx > 0 && s.Time < e.prevTime {
+		e.err = &SampleError{Index: idx, Field: "time", Value: s.Time, Previous: e.prevTime}
+		return e.err
+	}
+	if idx > 0 && s.Time > e.prevTime && e.threshold == 0 {
+		e.intervals = append(e.intervals, s.Time-e.prevTime)
+	}
+	e.prevTime = s.Time
+	if e.threshold > 0 {
+		e.take(s)
+		return nil
+	}
+	e.pending = append(e.pending, s)
+	if len(e.intervals) >= MedianWindow || len(e.pending) >= 4*MedianWindow {
+		e.settle()
+	}
+	return nil
+}
+
+// settle fixes the gap threshold from the intervals seen so far and judges
+// the samples held back.
+func (e *Engine) settle() {
+	if len(e.intervals) > 0 {
+		sort.Float64s(e.intervals)
+		n := len(e.intervals)
+		e.median = e.intervals[n/2]
+		if n%2 == 0 {
+			e.median = (e.intervals[n/2-1] + e.intervals[n/2]) / 2
+		}
+		e.threshold = GapFactor * e.median
+	} else {
+		e.threshold = math.Inf(1)
+	}
+	e.intervals = nil
+	for _, s := range e.pending {
+		e.take(s)
+	}
+	e.pending = nil
+}
+
+// take runs one sample through the analysis: it closes the previous sample's
+// held interval, then finds the parcel leaving now.
+func (e *Engine) take(s Sample) {
+	if e.n == 0 {
+		e.sum.Start = s.Time
+		e.tr.start(s.Time, e.speed(s.Flow, s.Temperature))
+	} else {
+		e.close(e.last, e.n-1, s.Time-e.last.Time)
+		e.tr.advance(e.lastU, s.Time)
+	}
+	e.lastRes = e.tr.residence()
+	e.lastTemp = e.temps.at(s.Temperature, &e.m)
+	for i, d := range e.lastTemp.d {
+		e.lastLR[i] = e.lastRes / d
+	}
+	e.lastU = e.speed(s.Flow, s.Temperature)
+	e.last = s
+	e.n++
+}
+
+// speed is the fastest particle's speed r·v for flow q (m³/s) at temperature
+// temp (°C), by the same tube model as the design check
+// (docs/METHOD.md §7 (holding tube)): v = Q/A, r from the interval's
+// Reynolds number (or the model's override). Zero for no flow.
+func (e *Engine) speed(q, temp float64) float64 {
+	if !(q > 0) {
+		return 0
+	}
+	if e.m.RheologyAt == nil {
+		temp = 0 // the rheology does not depend on it
+	}
+	if u, ok := e.speeds.get(q, temp); ok {
+		return u
+	}
+	rh := e.m.Rheology
+	if e.m.RheologyAt != nil {
+		rh = e.m.RheologyAt(temp)
+	}
+	h := e.m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: e.m.Density}, rh, e.m.FastestToMean)
+	u := h.FastestToMean * h.MeanVelocity
+	e.speeds.put(q, temp, u)
+	return u
+}
+
+// close books sample s (index i) with its held interval d, s.
+func (e *Engine) close(s Sample, i int, d float64) {
+	vol := 0.0
+	if s.Flow > 0 {
+		vol = s.Flow * d
+	}
+	sum := &e.sum
+	sum.Rows++
+	sum.End = s.Time
+	if s.Forward {
+		sum.Forward += d
+		sum.ForwardVolume += vol
+		sum.ForwardSamples++
+		// Plain comparisons: every value here is a number (Add refuses NaN;
+		// a residence may be +Inf), and math.Min's NaN and −0 rules cost time
+		// in the per-sample path.
+		if s.Temperature < sum.MinForwardTemperature {
+			sum.MinForwardTemperature = s.Temperature
+		}
+		if s.Flow > sum.MaxForwardFlow {
+			sum.MaxForwardFlow = s.Flow
+		}
+		if e.lastRes < sum.MinForwardResidence {
+			sum.MinForwardResidence = e.lastRes
+		}
+		for k, lr := range e.lastLR {
+			if lr < sum.MinForwardLogReduction[k] {
+				sum.MinForwardLogReduction[k] = lr
+			}
+		}
+	} else {
+		sum.Diverted += d
+		sum.DivertedVolume += vol
+	}
+
+	below := s.Temperature < e.m.Setpoint-limitTolerance
+	e.trackDrop(s, i, below)
+
+	if !s.Forward {
+		e.closeEvent()
+		return
+	}
+	gap := d > e.threshold
+	temp := below
+	flow := s.Flow > e.m.MaxFlow*(1+flowTolerance)
+	legal := e.lastTemp.meetsLegal(e.lastRes, &e.m)
+	reqMet := true
+	for k, lr := range e.lastLR {
+		if r := e.required[k]; r > 0 && !(lr >= r) {
+			reqMet = false
+		}
+	}
+	if !gap && !temp && !flow && legal && reqMet {
+		e.closeEvent()
+		return
+	}
+	if e.open != nil && e.open.gap != gap {
+		e.closeEvent()
+	}
+	if e.open == nil {
+		e.open = &openEvent{Event: Event{First: i, Start: s.Time, MinTemperature: math.Inf(1), MaxFlow: math.Inf(-1),
+			MinLogReduction: make([]float64, len(e.lastLR)), MinResidence: math.Inf(1), MinSampleResidence: math.Inf(1),
+			LegalRowMet: !gap, Drop: -1}, gap: gap, allMet: true}
+		for k := range e.open.MinLogReduction {
+			e.open.MinLogReduction[k] = math.Inf(1)
+		}
+	}
+	ev := e.open
+	ev.Last, ev.End = i, s.Time+d
+	ev.Duration += d
+	ev.Volume += vol
+	ev.MinTemperature = math.Min(ev.MinTemperature, s.Temperature)
+	ev.MaxFlow = math.Max(ev.MaxFlow, s.Flow)
+	ev.MinResidence = math.Min(ev.MinResidence, e.lastRes)
+	if e.lastU > 0 {
+		ev.MinSampleResidence = math.Min(ev.MinSampleResidence, e.m.Tube.Length/e.lastU)
+	}
+	for k, lr := range e.lastLR {
+		ev.MinLogReduction[k] = math.Min(ev.MinLogReduction[k], lr)
+	}
+	if gap {
+		ev.AtRiskVolume += vol
+		return
+	}
+	if temp {
+		ev.temp = true
+		if ev.Drop < 0 {
+			ev.Drop = e.drop
+		}
+	}
+	ev.flow = ev.flow || flow
+	if !legal {
+		ev.LegalRowMet = false
+	}
+	if !legal || !reqMet {
+		ev.allMet = false
+		ev.AtRiskVolume += vol
+	}
+}
+
+// trackDrop follows the temperature drops below the setpoint.
+func (e *Engine) trackDrop(s Sample, i int, below bool) {
+	if e.drop >= 0 && !below {
+		e.drops[e.drop].End, e.drops[e.drop].Recovered = s.Time, true
+		e.drop = -1
+	}
+	if !below {
+		return
+	}
+	if e.drop < 0 {
+		e.drops = append(e.drops, Drop{First: i, Start: s.Time, MinTemperature: s.Temperature})
+		e.drop = len(e.drops) - 1
+	}
+	dr := &e.drops[e.drop]
+	dr.End = s.Time
+	dr.MinTemperature = math.Min(dr.MinTemperature, s.Temperature)
+	if s.Forward {
+		dr.ForwardBelow = true
+	} else if dr.DivertAfter == nil {
+		v := s.Time - dr.Start
+		dr.DivertAfter = &v
+	}
+}
+
+// closeEvent ends the open event, if any.
+func (e *Engine) closeEvent() {
+	ev := e.open
+	if ev == nil {
+		return
+	}
+	e.open = nil
+	switch {
+	case ev.gap:
+		ev.Kind, ev.Verdict = KindGap, NoRecord
+		e.sum.Gaps++
+	case ev.temp && ev.flow:
+		ev.Kind = KindTemperatureFlow
+	case ev.temp:
+		ev.Kind = KindTemperature
+	case ev.flow:
+		ev.Kind = KindFlow
+	default:
+		ev.Kind = KindLethality
+	}
+	if !ev.gap {
+		ev.Verdict = ProductAtRisk
+		if ev.allMet {
+			ev.Verdict = LimitsMet
+		}
+	}
+	e.events = append(e.events, ev.Event)
+}
+
+// Finish ends the run (the last sample has no duration) and returns the
+// result. The Engine cannot be used after it.
+func (e *Engine) Finish() Result {
+	if e.done {
+		panic(panicPrefix + "Finish called twice")
+	}
+	if e.threshold == 0 {
+		e.settle()
+	}
+	if e.n > 0 {
+		e.close(e.last, e.n-1, 0)
+	}
+	e.closeEvent()
+	e.done = true
+	for i := range e.events {
+		ev := &e.events[i]
+		if ev.Drop >= 0 && e.drops[ev.Drop].DivertAfter != nil {
+			v := *e.drops[ev.Drop].DivertAfter
+			ev.DivertAfter = &v
+		}
+	}
+	s := &e.sum
+	s.MedianInterval, s.GapThreshold = e.median, e.threshold
+	if s.ForwardSamples == 0 {
+		s.MinForwardTemperature, s.MaxForwardFlow, s.MinForwardResidence = math.NaN(), math.NaN(), math.NaN()
+		for k := range s.MinForwardLogReduction {
+			s.MinForwardLogReduction[k] = math.NaN()
+		}
+	}
+	if e.events == nil {
+		e.events = []Event{}
+	}
+	if e.drops == nil {
+		e.drops = []Drop{}
+	}
+	return Result{Summary: e.sum, Events: e.events, Drops: e.drops}
+}
+
+// finite says whether v is a number other than ±Inf.
+func finite(v float64) bool { return v-v == 0 }

@@ -1,0 +1,498 @@
+package runs_test
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"testing"
+	"time"
+
+	"pasval/lethality"
+	"pasval/runs"
+	"pasval/runs/internal/gen"
+)
+
+// lh is one litre per hour in m³/s.
+const lh = 1e-3 / 3600
+
+// demoModel is the SI demo plant, testdata/demo/htst-milk-si.yaml: a 2 in
+// sanitary tube (0.065 in wall), 34 m; milk of 1031 kg/m³ and 0.72 mPa·s at
+// the 72.5 °C setpoint; sealed maximum 11 000 L/h; the plant file's
+// organisms and legal rows (PMO continuous-flow rows).
+func demoModel(t testing.TB) runs.Model {
+	t.Helper()
+	// 2 in sanitary tube: OD 2 in, wall 0.065 in (docs/METHOD.md §7.1, from memory).
+	const outer, wall = 2 * 0.0254, 0.065 * 0.0254
+	return runs.Model{
+		Tube:     lethality.Tube{InnerDiameter: outer - 2*wall, OuterDiameter: outer, Length: 34, Rise: 0.8},
+		Rheology: lethality.Newtonian{Viscosity: 0.72e-3},
+		Density:  1031,
+		Organisms: []lethality.Organism{
+			{Name: "M. paratuberculosis", D: 11.67, DTemperature: 71, Z: 7.11},
+			{Name: "Listeria monocytogenes", D: 0.9, DTemperature: 71.7, Z: 6.3, RequiredLogReduction: 5},
+		},
+		Legal:    []lethality.LegalRow{{Temperature: 72, Time: 15}, {Temperature: 89, Time: 1}, {Temperature: 90, Time: 0.5}},
+		Setpoint: 72.5,
+		MaxFlow:  11000 * lh,
+	}
+}
+
+// uMax is the fastest particle's speed at flow q (L/h), from package
+// lethality's tube model (the model the engine must use).
+func uMax(m runs.Model, q float64) float64 {
+	h := m.Tube.Hydraulics(lethality.Flow{Volumetric: q * lh, Density: m.Density}, m.Rheology, m.FastestToMean)
+	return h.FastestToMean * h.MeanVelocity
+}
+
+// scriptedShift is the demo shift's script without noise: one-second
+// samples, the recording gap left out.
+func scriptedShift() []runs.Sample {
+	var s []runs.Sample
+	for sec := range gen.ShiftLength {
+		temp, flow, fwd, skip := gen.Script(sec)
+		if skip {
+			continue
+		}
+		s = append(s, runs.Sample{Time: float64(sec), Temperature: temp, Flow: flow * lh, Forward: fwd})
+	}
+	return s
+}
+
+func analyse(t testing.TB, m runs.Model, opt runs.Options, samples []runs.Sample) runs.Result {
+	t.Helper()
+	e, err := runs.NewEngine(m, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range samples {
+		if err := e.Add(s); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return e.Finish()
+}
+
+func near(got, want, tol float64) bool {
+	if math.IsInf(want, 0) || math.IsNaN(want) {
+		return got == want || (math.IsNaN(got) && math.IsNaN(want))
+	}
+	return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want))
+}
+
+func checkNear(t *testing.T, name string, got, want, tol float64) {
+	t.Helper()
+	if !near(got, want, tol) {
+		t.Errorf("%s = %.12g, want %.12g (tolerance %g)", name, got, want, tol)
+	}
+}
+
+// TestTubeSpeeds checks the demo tube's steady residences against a hand
+// calculation, so the scenario below rests on known numbers.
+func TestTubeSpeeds(t *testing.T) {
+	m := demoModel(t)
+	cases := []struct {
+		name       string
+		flowLh     float64
+		residence  float64 // s
+		tol        float64
+		sourceNote string
+	}{
+		// Hand calculation: D = 2 in − 2 × 0.065 in = 0.047498 m, A = 1.77190e-3 m²;
+		// 10 000 L/h → v = 1.56766 m/s, Re = 1031·1.56766·0.047498/0.72e-3 = 106 623;
+		// n_p = 0.790 ln Re − 1.64 = 7.5061, ratio = (n_p+1)(2n_p+1)/(2n_p²) = 1.20870;
+		// t = 34/(1.20870·1.56766) = 17.944 s.
+		{"normal rate", 10000, 17.944, 2e-4, "hand calculation"},
+		// 12 800 L/h: v = 2.00661, Re = 136 478, n_p = 7.7011, ratio = 1.20337, t = 14.080 s.
+		{"long surge", 12800, 14.080, 2e-4, "hand calculation"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			checkNear(t, "residence", m.Tube.Length/uMax(m, c.flowLh), c.residence, c.tol)
+		})
+	}
+}
+
+// TestScriptedShift runs the demo shift's script without noise and checks
+// every event, drop and summary figure against values computed here from
+// the definitions (docs/METHOD.md §13 (recorded runs)).
+func TestScriptedShift(t *testing.T) {
+	m := demoModel(t)
+	res := analyse(t, m, runs.Options{}, scriptedShift())
+	L := m.Tube.Length
+	un, us, ul, uc := uMax(m, gen.NormalFlow), uMax(m, gen.ShortSurgeFlow), uMax(m, gen.LongSurgeFlow), uMax(m, gen.CombinedFlow)
+	qn, qs, ql, qc := gen.NormalFlow*lh, gen.ShortSurgeFlow*lh, gen.LongSurgeFlow*lh, gen.CombinedFlow*lh
+	listeria, map_ := m.Organisms[1], m.Organisms[0]
+	lr := func(o lethality.Organism, res, temp float64) float64 { return res / o.DAt(temp) }
+	steady := L / un
+
+	// Short surge (8 s): the parcel leaving at 4500+k went k s at the surge
+	// speed and the rest of the tube at the normal speed: residence
+	// k + (L − k·u_s)/u_n, least at k = 7.
+	shortMin := 7 + (L-7*us)/un
+	// Long surge (45 s): parcel at 5700+k: k + (L − k·u_l)/u_n while k·u_l < L,
+	// else L/u_l. After it, parcel at 5745+j: j + (L − j·u_n)/u_l while
+	// j·u_n < L. A parcel fails when its residence is under the 15 s row
+	// (at 73 °C no hotter row applies and Listeria's 5 logs are met:
+	// 14.08 s / D(73 °C) = 14.08/0.558 = 25).
+	longRes := func(k int) float64 {
+		if float64(k)*ul >= L {
+			return L / ul
+		}
+		return float64(k) + (L-float64(k)*ul)/un
+	}
+	afterRes := func(j int) float64 { return float64(j) + (L-float64(j)*un)/ul }
+	longAtRisk, trailing := 0.0, 0
+	for k := range gen.LongSurgeLength {
+		if longRes(k) < 15 {
+			longAtRisk += ql
+		}
+	}
+	for j := 0; afterRes(j) < 15; j++ {
+		trailing++
+		longAtRisk += qn
+	}
+	if trailing == 0 {
+		t.Fatal("the long surge should leave under-held product behind it")
+	}
+	combinedMin := 7 + (L-7*uc)/un
+
+	two := 2.0
+	type want struct {
+		kind                 runs.EventKind
+		first, last          float64 // sample times, s
+		duration, volume     float64
+		minT, maxQ           float64
+		minRes               float64
+		minLRListeria, minLR float64 // Listeria, M. paratuberculosis
+		legal                bool
+		verdict              runs.Verdict
+		atRisk               float64
+		divertAfter          *float64
+	}
+	wants := []want{
+		{runs.KindTemperature, gen.SmallDip, gen.SmallDip + gen.SmallDipLength - 1, gen.SmallDipLength, gen.SmallDipLength * qn,
+			72.30, qn, steady, lr(listeria, steady, 72.30), lr(map_, steady, 72.30), true, runs.LimitsMet, 0, nil},
+		// Upset: 72.4 °C (meets the 72 °C row) then 71.9 °C (below every
+		// row: at risk), diverted at the third sample: 2 s after the first
+		// sample below the setpoint.
+		{runs.KindTemperature, gen.Upset + 1, gen.Upset + 2, 2, 2 * qn,
+			71.9, qn, steady, lr(listeria, steady, 71.9), lr(map_, steady, 71.9), false, runs.ProductAtRisk, qn, &two},
+		{runs.KindFlow, gen.ShortSurge, gen.ShortSurge + gen.ShortSurgeLength - 1, gen.ShortSurgeLength, gen.ShortSurgeLength * qs,
+			73, qs, shortMin, lr(listeria, shortMin, 73), lr(map_, shortMin, 73), true, runs.LimitsMet, 0, nil},
+		{runs.KindFlow, gen.LongSurge, gen.LongSurge + gen.LongSurgeLength - 1 + float64(trailing), gen.LongSurgeLength + float64(trailing),
+			gen.LongSurgeLength*ql + float64(trailing)*qn,
+			73, ql, L / ul, lr(listeria, L/ul, 73), lr(map_, L/ul, 73), false, runs.ProductAtRisk, longAtRisk, nil},
+		{runs.KindGap, gen.Gap, gen.Gap, gen.GapLength, gen.GapLength * qn,
+			73, qn, steady, lr(listeria, steady, 73), lr(map_, steady, 73), false, runs.NoRecord, gen.GapLength * qn, nil},
+		{runs.KindTemperatureFlow, gen.Combined, gen.Combined + gen.CombinedLength - 1, gen.CombinedLength, gen.CombinedLength * qc,
+			72.42, qc, combinedMin, lr(listeria, combinedMin, 72.42), lr(map_, combinedMin, 72.42), true, runs.LimitsMet, 0, nil},
+	}
+	if len(res.Events) != len(wants) {
+		for _, e := range res.Events {
+			t.Logf("event %s %g–%g", e.Kind, e.Start, e.End)
+		}
+		t.Fatalf("%d events, want %d (the diverted start-up and shutdown drops are no events)", len(res.Events), len(wants))
+	}
+	const tol = 1e-9
+	for i, w := range wants {
+		e := res.Events[i]
+		t.Run(string(w.kind)+"@"+formatSec(w.first), func(t *testing.T) {
+			if e.Kind != w.kind || e.Verdict != w.verdict || e.LegalRowMet != w.legal {
+				t.Errorf("kind %q verdict %q legal %v, want %q %q %v", e.Kind, e.Verdict, e.LegalRowMet, w.kind, w.verdict, w.legal)
+			}
+			checkNear(t, "start", e.Start, w.first, tol)
+			checkNear(t, "end", e.End, w.first+w.duration, tol)
+			checkNear(t, "duration", e.Duration, w.duration, tol)
+			checkNear(t, "volume", e.Volume, w.volume, tol)
+			checkNear(t, "min temperature", e.MinTemperature, w.minT, tol)
+			checkNear(t, "max flow", e.MaxFlow, w.maxQ, tol)
+			checkNear(t, "min residence", e.MinResidence, w.minRes, tol)
+			checkNear(t, "min log reduction (Listeria)", e.MinLogReduction[1], w.minLRListeria, tol)
+			checkNear(t, "min log reduction (MAP)", e.MinLogReduction[0], w.minLR, tol)
+			checkNear(t, "at-risk volume", e.AtRiskVolume, w.atRisk, tol)
+			switch {
+			case (e.DivertAfter == nil) != (w.divertAfter == nil):
+				t.Errorf("divert after %v, want %v", e.DivertAfter, w.divertAfter)
+			case e.DivertAfter != nil:
+				checkNear(t, "divert after", *e.DivertAfter, *w.divertAfter, tol)
+			}
+		})
+	}
+
+	// A surge shorter than the residence: judged per parcel it meets the
+	// 15 s row; the per-sample estimate, L/(r·v) at the surge flow, does not.
+	short := res.Events[2]
+	checkNear(t, "short surge per-sample residence", short.MinSampleResidence, L/us, tol)
+	if !(short.MinSampleResidence < 15 && short.MinResidence >= 15) {
+		t.Errorf("short surge: per-sample %.3f s, per-parcel %.3f s; want the first under 15 s and the second not", short.MinSampleResidence, short.MinResidence)
+	}
+	// A surge longer than the residence: both agree on its worst parcel.
+	checkNear(t, "long surge per-sample residence", res.Events[3].MinSampleResidence, res.Events[3].MinResidence, tol)
+
+	// Drops: start-up (diverted throughout: divert after 0), the small dip
+	// (recovered forward: nil), the upset (2 s), the combined event (nil),
+	// shutdown (diverted, never recovered).
+	// Start-up: 66 + 7·s/200 < 72.5 until s = 185; shutdown: 73 − 13·(s − 7080)/120
+	// < 72.5 from s = 7085; upset back to 72.56 °C at +76.
+	zero := 0.0
+	drops := []struct {
+		start, end          float64
+		recovered, fwdBelow bool
+		divertAfter         *float64
+		minT                float64
+	}{
+		{0, 186, true, false, &zero, 66},
+		{gen.SmallDip, gen.SmallDip + gen.SmallDipLength, true, true, nil, 72.3},
+		{gen.Upset + 1, gen.Upset + 76, true, true, &two, 70.8},
+		{gen.Combined, gen.Combined + gen.CombinedLength, true, true, nil, 72.42},
+		{7085, 7199, false, false, &zero, 73.0 - 13.0*119/120},
+	}
+	if len(res.Drops) != len(drops) {
+		t.Fatalf("%d drops, want %d", len(res.Drops), len(drops))
+	}
+	for i, w := range drops {
+		d := res.Drops[i]
+		checkNear(t, "drop start", d.Start, w.start, tol)
+		checkNear(t, "drop end", d.End, w.end, tol)
+		checkNear(t, "drop min temperature", d.MinTemperature, w.minT, tol)
+		if d.Recovered != w.recovered || d.ForwardBelow != w.fwdBelow || (d.DivertAfter == nil) != (w.divertAfter == nil) ||
+			(d.DivertAfter != nil && !near(*d.DivertAfter, *w.divertAfter, tol)) {
+			t.Errorf("drop %d: recovered %v forward below %v divert after %v; want %v %v %v", i, d.Recovered, d.ForwardBelow, d.DivertAfter, w.recovered, w.fwdBelow, w.divertAfter)
+		}
+	}
+
+	// Summary. Forward from 240 s to 7080 s except the upset's diverted
+	// 92 s (3003–3095); the gap's 40 s count forward. The last sample
+	// (7199 s) has no duration.
+	s := res.Summary
+	forward := float64(gen.Shutdown-gen.StartupEnd) - 92
+	fwdVol := (forward-gen.ShortSurgeLength-gen.LongSurgeLength-gen.CombinedLength)*qn +
+		gen.ShortSurgeLength*qs + gen.LongSurgeLength*ql + gen.CombinedLength*qc
+	if s.Rows != gen.ShiftRows || s.Gaps != 1 {
+		t.Errorf("rows %d gaps %d, want %d and 1", s.Rows, s.Gaps, gen.ShiftRows)
+	}
+	checkNear(t, "start", s.Start, 0, tol)
+	checkNear(t, "end", s.End, gen.ShiftLength-1, tol)
+	checkNear(t, "forward time", s.Forward, forward, tol)
+	checkNear(t, "diverted time", s.Diverted, gen.ShiftLength-1-forward, tol)
+	checkNear(t, "forward volume", s.ForwardVolume, fwdVol, tol)
+	checkNear(t, "min forward temperature", s.MinForwardTemperature, 71.9, tol)
+	checkNear(t, "max forward flow", s.MaxForwardFlow, ql, tol)
+	checkNear(t, "min forward residence", s.MinForwardResidence, L/ul, tol)
+	checkNear(t, "min forward LR (Listeria)", s.MinForwardLogReduction[1],
+		math.Min(lr(listeria, steady, 71.9), lr(listeria, L/ul, 73)), tol)
+	checkNear(t, "median interval", s.MedianInterval, 1, tol)
+	checkNear(t, "gap threshold", s.GapThreshold, runs.GapFactor, tol)
+}
+
+func formatSec(s float64) string { return fmt.Sprintf("%.0fs", s) }
+
+// TestParcelHistory checks per-parcel residences in small hand-worked runs.
+func TestParcelHistory(t *testing.T) {
+	// A model with a fixed fastest-to-mean ratio of 2 and a tube of 1 m²
+	// cross-section and 10 m length makes the speeds round: u = 2·Q.
+	m := runs.Model{
+		Tube:          lethality.Tube{InnerDiameter: math.Sqrt(4 / math.Pi), Length: 10},
+		Rheology:      lethality.Newtonian{Viscosity: 1e-3},
+		Density:       1000,
+		FastestToMean: 2,
+		Legal:         []lethality.LegalRow{{Temperature: 70, Time: 4}},
+		Setpoint:      70,
+		MaxFlow:       1.5,
+	}
+	// Speeds: Q = 0.5 m³/s → u = 1 m/s; Q = 2 m³/s (over the 1.5 maximum)
+	// → u = 4 m/s; held before the first sample at 1 m/s.
+	cases := []struct {
+		name     string
+		samples  []runs.Sample
+		minRes   float64 // least per-parcel residence over the event, s
+		sample   float64 // least per-sample estimate L/u, s
+		duration float64 // s
+		atRisk   float64 // m³
+		kind     runs.EventKind
+		verdict  runs.Verdict
+	}{
+		{
+			// Hand calculation: the only deviating sample is the surge at
+			// t = 10; the parcel leaving then filled the tube before it:
+			// 10 m at 1 m/s = 10 s. The parcel at t = 11 went 4 m in the
+			// surge and 6 m before it: 1 + 6 = 7 s ≥ 4 s, no deviation. The
+			// per-sample estimate at the surge says 10/4 = 2.5 s.
+			name:    "surge shorter than the residence",
+			samples: []runs.Sample{{0, 80, 0.5, true}, {10, 80, 2, true}, {11, 80, 0.5, true}, {30, 80, 0.5, true}},
+			minRes:  10, sample: 2.5, duration: 1, atRisk: 0, kind: runs.KindFlow, verdict: runs.LimitsMet,
+		},
+		{
+			// Hand calculation, surge from t = 10 to 14 at 4 m/s
+			// (X = distance since t = 0; τ₀ where X = X(t) − 10 m):
+			// t = 12: X = 18, τ₀ = 8 → 4 s (meets the 4 s row);
+			// t = 13: X = 22, τ₀ = 10 + 2/4 → 2.5 s (fails);
+			// t = 14: back to 0.5 m³/s but X = 26, τ₀ = 10 + 6/4 → 2.5 s:
+			// under-held product leaving after the surge, so the event runs
+			// on through it (held 86 s until the next sample at t = 100,
+			// whose parcel has 10 s again).
+			// At risk: samples 13 (2 m³/s × 1 s) and 14 (0.5 × 86) = 45 m³.
+			name:    "surge longer than the residence",
+			samples: []runs.Sample{{0, 80, 0.5, true}, {10, 80, 2, true}, {11, 80, 2, true}, {12, 80, 2, true}, {13, 80, 2, true}, {14, 80, 0.5, true}, {100, 80, 0.5, true}},
+			minRes:  2.5, sample: 2.5, duration: 90, atRisk: 45, kind: runs.KindFlow, verdict: runs.ProductAtRisk,
+		},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			res := analyse(t, m, runs.Options{GapThreshold: 1000}, c.samples)
+			if len(res.Events) != 1 {
+				t.Fatalf("%d events, want 1", len(res.Events))
+			}
+			e := res.Events[0]
+			checkNear(t, "min residence", e.MinResidence, c.minRes, 1e-12)
+			checkNear(t, "per-sample residence", e.MinSampleResidence, c.sample, 1e-12)
+			checkNear(t, "duration", e.Duration, c.duration, 1e-12)
+			checkNear(t, "at-risk volume", e.AtRiskVolume, c.atRisk, 1e-12)
+			if e.Kind != c.kind || e.Verdict != c.verdict {
+				t.Errorf("%s %s, want %s %s", e.Kind, e.Verdict, c.kind, c.verdict)
+			}
+		})
+	}
+}
+
+// TestEngineRefuses checks the errors the engine returns.
+func TestEngineRefuses(t *testing.T) {
+	m := demoModel(t)
+	none := m
+	none.Legal, none.Organisms = nil, []lethality.Organism{{Name: "x", D: 1, DTemperature: 70, Z: 5}}
+	if _, err := runs.NewEngine(none, runs.Options{}); !errors.Is(err, runs.ErrNoCriteria) {
+		t.Errorf("model without criteria: %v, want ErrNoCriteria", err)
+	}
+	e, err := runs.NewEngine(m, runs.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := e.Add(runs.Sample{Time: 10, Temperature: 73, Flow: 0.003, Forward: true}); err != nil {
+		t.Fatal(err)
+	}
+	err = e.Add(runs.Sample{Time: 9, Temperature: 73, Flow: 0.003, Forward: true})
+	var se *runs.SampleError
+	if !errors.As(err, &se) || se.Index != 1 || se.Field != "time" || !near(se.Previous, 10, 0) {
+		t.Errorf("time backwards: %v", err)
+	}
+	e2, _ := runs.NewEngine(m, runs.Options{})
+	if err := e2.Add(runs.Sample{Time: 0, Temperature: math.NaN(), Flow: 0.003}); !errors.As(err, &se) || se.Field != "temperature" {
+		t.Errorf("NaN temperature: %v", err)
+	}
+}
+
+// TestGapThreshold: five times the median interval by default, or as given.
+func TestGapThreshold(t *testing.T) {
+	m := demoModel(t)
+	q := 10000 * lh
+	// Two-second samples with a 9 s and an 11 s interval: the median is 2 s,
+	// the threshold 10 s, so only the 11 s interval is a gap.
+	var s []runs.Sample
+	tm := 0.0
+	for i := range 100 {
+		s = append(s, runs.Sample{Time: tm, Temperature: 73, Flow: q, Forward: true})
+		switch i {
+		case 30:
+			tm += 9
+		case 60:
+			tm += 11
+		default:
+			tm += 2
+		}
+	}
+	res := analyse(t, m, runs.Options{}, s)
+	if len(res.Events) != 1 || res.Events[0].Kind != runs.KindGap || res.Events[0].First != 60 {
+		t.Fatalf("events %+v, want one gap at sample 60", res.Events)
+	}
+	checkNear(t, "median", res.Summary.MedianInterval, 2, 0)
+	checkNear(t, "threshold", res.Summary.GapThreshold, 10, 0)
+	// With a threshold of 8 s both are gaps.
+	res = analyse(t, m, runs.Options{GapThreshold: 8}, s)
+	if len(res.Events) != 2 || res.Summary.Gaps != 2 {
+		t.Errorf("threshold 8 s: %d events, %d gaps; want 2 and 2", len(res.Events), res.Summary.Gaps)
+	}
+	// A gap while diverted is no event.
+	s[60].Forward = false
+	res = analyse(t, m, runs.Options{}, s)
+	if len(res.Events) != 0 {
+		t.Errorf("a gap while diverted gave %d events", len(res.Events))
+	}
+}
+
+// TestRheologyAtTemperature: with a viscosity that depends on temperature,
+// each interval's Reynolds number is taken at its own temperature. A product
+// that is turbulent at 73 °C and laminar when cold (a dip to 60 °C) has its
+// fastest particle at twice the mean velocity while cold.
+func TestRheologyAtTemperature(t *testing.T) {
+	m := demoModel(t)
+	visc := func(temp float64) lethality.Rheology {
+		if temp < 65 {
+			return lethality.Newtonian{Viscosity: 0.05} // Re = 1031·1.568·0.0475/0.05 ≈ 1540 at 10 000 L/h: laminar
+		}
+		return lethality.Newtonian{Viscosity: 0.72e-3}
+	}
+	m.RheologyAt = visc
+	q := 10000 * lh
+	var s []runs.Sample
+	for i := range 200 {
+		temp := 73.0
+		if i >= 100 {
+			temp = 60 // long enough to fill the tube with cold product
+		}
+		s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: q, Forward: true})
+	}
+	res := analyse(t, m, runs.Options{}, s)
+	hot := m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: m.Density}, visc(73), 0)
+	cold := m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: m.Density}, visc(60), 0)
+	if cold.Regime == lethality.Turbulent || hot.Regime != lethality.Turbulent {
+		t.Fatalf("regimes %s and %s, want laminar when cold", cold.Regime, hot.Regime)
+	}
+	// Laminar Newtonian: u_max = 2·v (Hagen–Poiseuille, common practice).
+	checkNear(t, "cold fastest-to-mean", cold.FastestToMean, 2, 1e-12)
+	checkNear(t, "min forward residence", res.Summary.MinForwardResidence, cold.MinResidence, 1e-9)
+	if len(res.Events) != 1 || res.Events[0].Kind != runs.KindTemperature {
+		t.Fatalf("events %+v", res.Events)
+	}
+	checkNear(t, "event min residence", res.Events[0].MinResidence, cold.MinResidence, 1e-9)
+}
+
+// TestStandingProduct: flow stopped since before the run began: the product
+// in the tube has been there for an unknown, unbounded time (+Inf); once
+// the flow starts, residences become finite.
+func TestStandingProduct(t *testing.T) {
+	m := demoModel(t)
+	q := 10000 * lh
+	s := []runs.Sample{{Time: 0, Temperature: 73, Flow: 0, Forward: true}, {Time: 10, Temperature: 73, Flow: q, Forward: true}}
+	for i := 11; i < 100; i++ {
+		s = append(s, runs.Sample{Time: float64(i), Temperature: 73, Flow: q, Forward: true})
+	}
+	e, err := runs.NewEngine(m, runs.Options{GapThreshold: 60})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, x := range s[:2] {
+		e.Add(x)
+	}
+	first := e.Finish()
+	if !math.IsInf(first.Summary.MinForwardResidence, 1) || !math.IsInf(first.Summary.MinForwardLogReduction[1], 1) {
+		t.Errorf("standing product: residence %g, LR %g; want +Inf", first.Summary.MinForwardResidence, first.Summary.MinForwardLogReduction[1])
+	}
+	all := analyse(t, m, runs.Options{GapThreshold: 60}, s)
+	// Once the tube has been flushed at the normal rate, the steady value.
+	checkNear(t, "min residence", all.Summary.MinForwardResidence, m.Tube.Length/uMax(m, 10000), 1e-9)
+	// The held 10 s at no flow delivered nothing.
+	checkNear(t, "forward volume", all.Summary.ForwardVolume, 89*q, 1e-12)
+}
+
+// TestClockSeconds round-trips clock times through float seconds.
+func TestClockSeconds(t *testing.T) {
+	for _, tm := range []time.Time{
+		time.Date(2026, 3, 14, 6, 0, 0, 0, time.UTC),
+		time.Date(2026, 3, 14, 6, 0, 0, 250_000_000, time.UTC),
+		time.Date(1969, 12, 31, 23, 59, 59, 500_000_000, time.UTC),
+	} {
+		if got := runs.ClockTime(runs.UnixSeconds(tm)); !got.Equal(tm) {
+			t.Errorf("%s came back as %s", tm.Format(time.RFC3339Nano), got.Format(time.RFC3339Nano))
+		}
+	}
+}
