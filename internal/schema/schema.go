@@ -73,6 +73,10 @@ func node(f plantfile.Field, path string) obj {
 		return object(desc, path, f.OneOf)
 	case plantfile.KindList:
 		return obj{"type": "array", "minItems": 1, "description": desc, "items": object(f.Description, path, nil)}
+	case plantfile.KindNamed:
+		item := plantfile.Children(path)[0]
+		return obj{"type": "object", "minProperties": 1, "description": desc, "properties": obj{},
+			"propertyNames": obj{"pattern": plantfile.NamePattern}, "additionalProperties": node(item, item.Path)}
 	case plantfile.KindWaterOrMapping:
 		return obj{"description": desc, "oneOf": []any{obj{"enum": words(f.Values)}, object(f.Description, path, nil)}}
 	}
