@@ -52,8 +52,8 @@ type Plant struct {
 	LineFile string
 	Line     *SourceFile
 	System   units.System
-	Record []RecordField
-	Inputs []Input // every quantity in file order
+	Record   []RecordField
+	Inputs   []Input // every quantity in file order
 
 	Product      Product
 	Flow         Flow
@@ -71,8 +71,8 @@ type Plant struct {
 	LegalTables   []LegalTable // as given, every class
 	// LegalPos are where legal_minimums and legal_tables (their keys) and
 	// legal_table (its value) were written; Line 0 when absent.
-	LegalPos struct{ Minimums, Tables, Table inputerr.Pos }
-	Economics     *Economics
+	LegalPos  struct{ Minimums, Tables, Table inputerr.Pos }
+	Economics *Economics
 }
 
 // SourceFile is one file a plant was read from.
