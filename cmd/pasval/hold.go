@@ -73,7 +73,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 	}
 	worded := present.ForJSON(res)
 	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
-		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: worded.Warnings,
+		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res, setpointOffsets(d)), Checks: []assess.Check{}, Warnings: worded.Warnings,
 		Pass: true, Caution: res.Caution}
 	only := *res
 	only.Checks = []assess.Check{}
@@ -94,6 +94,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 		writeSetpointTable(out, res, rep.SetpointTable, d)
 		writeChecks(out, &only, d, useColour(out))
 		writeWarnings(out, present.Warnings(res, d))
+		writeNotes(out, present.Notes(res, d))
 		fmt.Fprint(out, "\n"+wrap(res.Caution, "Caution:", 88))
 	}
 	if !rep.Pass {
@@ -102,11 +103,30 @@ func runHold(opts holdOptions, out io.Writer) error {
 	return nil
 }
 
+// setpointOffsets are the setpoint steps of the table: half kelvins in SI,
+// whole degrees Fahrenheit in US units.
+func setpointOffsets(d present.Display) []float64 {
+	if d.Sys == units.US {
+		return assess.SetpointOffsetsUS
+	}
+	return assess.SetpointOffsets
+}
+
 func writeSetpointTable(w io.Writer, res *assess.Result, rows []assess.SetpointRow, d present.Display) {
 	if len(rows) == 0 || (len(res.Lethality) == 0 && rows[0].LegalMet == nil) {
 		return
 	}
-	fmt.Fprintln(w, "\n  Log reduction of the fastest particle versus diversion setpoint (tube and flow unchanged)")
+	title := "Log reduction of the fastest particle"
+	if len(res.Lethality) == 0 {
+		title = "Legal table"
+	} else if rows[0].LegalMet != nil {
+		title += " and the legal table"
+	}
+	title += " versus diversion setpoint (tube and flow unchanged"
+	if res.HoldingTube.SensorAccuracyK > 0 {
+		title += fmt.Sprintf("; each judged %s below its setpoint", d.With(res.HoldingTube.SensorAccuracyK, units.TemperatureDifference, 2))
+	}
+	fmt.Fprintln(w, "\n  "+title+")")
 	headers := []string{"setpoint"}
 	for _, l := range res.Lethality {
 		headers = append(headers, ">"+l.Organism)
@@ -120,11 +140,15 @@ func writeSetpointTable(w io.Writer, res *assess.Result, rows []assess.SetpointR
 		if r.OffsetK == 0 {
 			label += " (entered)"
 		} else {
-			label += fmt.Sprintf(" (%s)", present.Signed(d.Num(r.OffsetK, units.TemperatureDifference, 1))+" "+d.Unit(units.TemperatureDifference))
+			prec := 1
+			if d.Sys == units.US {
+				prec = 0
+			}
+			label += fmt.Sprintf(" (%s)", present.Signed(d.Num(r.OffsetK, units.TemperatureDifference, prec))+" "+d.Unit(units.TemperatureDifference))
 		}
 		cells := []string{label}
 		for _, lr := range r.LogReductions {
-			cells = append(cells, fmt.Sprintf("%.2f", lr))
+			cells = append(cells, present.LogText(lr))
 		}
 		if r.LegalMet != nil {
 			cells = append(cells, map[bool]string{true: "met", false: "not met"}[*r.LegalMet])

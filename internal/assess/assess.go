@@ -60,8 +60,26 @@ type CheckDetail struct {
 	// the coolest row.
 	RowTemperatureC float64
 	BelowEveryRow   bool
-	SetpointC       float64
 	MarginPercent   float64 // of the row time
+	// holding-time and log-reduction: where they were judged
+	// (docs/METHOD.md §7.7, §9.4): the setpoint, the judged temperature
+	// (setpoint − sensor accuracy), the flow and its regime, and whether the
+	// heat-loss credit was taken.
+	SetpointC, JudgedC, AccuracyK float64
+	FlowM3s                       float64
+	AtSeal                        bool
+	Regime                        string
+	CreditHeatLoss                bool
+	// SealValue is the holding time at the sealed maximum; NominalValue the
+	// judged quantity at the nominal setpoint (holding-time: the worst time).
+	SealValue, NominalValue float64
+	// holding-time at the nominal setpoint: the row judged there (NaN when
+	// none applies) and whether it is met.
+	NominalRowC float64
+	NominalMet  bool
+	// holding-time, failing: the coolest row above the judged temperature
+	// whose time the tube holds, and the setpoint rise that reaches it (NaN: none).
+	RowToMeetC, RiseToMeetK float64
 	// heating-medium: the installed plates.
 	Plates int
 	// log-reduction: the organism's kinetics as entered.
@@ -277,6 +295,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 	if n := len(p.Cooling); n > 0 && anyRated(p.Cooling) {
 		res.Checks = append(res.Checks, NewCheck(CoolingOutlet, p.Process.OutletTarget.SI, line.FinalProductOut))
 	}
+	lineWarnings(p, res, line)
 	return nil
 }
 

@@ -251,7 +251,7 @@ func temperatureDiagram(res *assess.Result, d present.Display) report.Diagram {
 
 func holdingSection(res *assess.Result, d present.Display) report.Section {
 	h := res.HoldingTube
-	blocks := []report.Block{report.KeyValues{Pairs: append([][2]string{{"judged flow", d.With(h.MaxFlowM3s, units.VolumeFlow, 0) + " (sealed maximum)"}},
+	blocks := []report.Block{report.KeyValues{Pairs: append([][2]string{{"judged flow", present.HoldingHeading(res, d)}},
 		present.HoldingFacts(res, d)...)}}
 	if len(h.Rows) > 0 {
 		blocks = append(blocks, tableFrom("Legal minimums as entered; the judged row is marked. Rows are never interpolated.", present.LegalRows(res, d)))
@@ -267,10 +267,13 @@ func holdingSection(res *assess.Result, d present.Display) report.Section {
 			}
 			plot.Series = append(plot.Series, s)
 		}
-		blocks = append(blocks, tableFrom("Log reduction of the fastest particle at the sealed maximum flow.", present.Lethality(res)), plot)
+		blocks = append(blocks, tableFrom("Log reduction of the fastest particle, judged at the judged temperature and the worst flow; beside it the values where they differ.", present.Lethality(res, d)), plot)
 	}
-	if len(res.Warnings) > 0 {
-		blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: present.Warnings(res, d)})
+	if w := present.Warnings(res, d); len(w) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: w})
+	}
+	if n := present.Notes(res, d); len(n) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Notes:", Emphasis: true}, report.Bullets{Items: n})
 	}
 	return report.Section{Heading: "Holding tube and lethality", Blocks: blocks}
 }
