@@ -142,7 +142,7 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 		WorstFlowM3s: worst.Volumetric, WorstFlowRegime: worst.Regime.String(), WorstFlowAtSeal: worst.AtSeal,
 		WorstReynolds: worst.Reynolds, WorstFastestToMean: worst.FastestToMean, WorstMinResidenceS: worst.MinResidence,
 		SetpointC: in.Setpoint, SensorAccuracyK: in.SensorAccuracy, JudgedTemperatureC: ev.JudgedC,
-		CreditHeatLoss: in.CreditHeatLoss && in.HeatLoss,
+		CreditHeatLoss:    in.CreditHeatLoss && in.HeatLoss,
 		InletTemperatureC: ev.Seal.Inlet(), HeatingOutletC: ev.AtRate.Inlet()}
 	if in.RiseGiven {
 		s := tube.Slope()
@@ -152,7 +152,7 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 		limit := 20 * ev.Flow.Volumetric
 		q := tube.MaxFlowFor(r.Time, in.Density, ev.Rheology, in.FastestToMean, limit)
 		out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= ev.JudgedC+1e-9,
-			AppliesAtSet: r.Temperature <= in.Setpoint+1e-9,
+			AppliesAtSet:    r.Temperature <= in.Setpoint+1e-9,
 			RequiredLengthM: worst.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= limit})
 	}
 	if v := ev.Legal; v != nil {
