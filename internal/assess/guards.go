@@ -47,7 +47,7 @@ func lineWarnings(p *plantfile.Plant, res *Result, line regen.LineResult) {
 		case regen.CoolingSection:
 			if s.ProductOut < freeze-1e-9 {
 				res.warn(WarnProductFrozen, fmt.Sprintf("cooling[%d]", stage),
-					map[string]float64{"product_out_C": s.ProductOut, "limit_C": freeze, "freezing_point_entered": entered})
+					map[string]float64{"product_out_C": s.ProductOut, "limit_C": freeze, "freezing_point_entered": entered, "stage_index": float64(stage)})
 			}
 			stage++
 		}

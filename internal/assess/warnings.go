@@ -26,7 +26,7 @@ const (
 	// WarnKineticsExtrapolated values: organism_index, distance_K, used_at_C,
 	// D_temperature_C, log_reduction.
 	WarnKineticsExtrapolated WarningCode = "kinetics-extrapolated"
-	WarnProductFrozen        WarningCode = "product-below-freezing"       // product_out_C, limit_C, freezing_point_entered (1/0)
+	WarnProductFrozen        WarningCode = "product-below-freezing"       // product_out_C, limit_C, freezing_point_entered (1/0), stage_index
 	WarnMediumPressurised    WarningCode = "heating-medium-above-boiling" // medium_in_C, boiling_C
 	WarnOutletWarm           WarningCode = "outlet-above-cold-limit"      // outlet_C, limit_C
 	// NoteOutletWarm is a note, not a warning: the outlet target is set

@@ -144,8 +144,12 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 		} else if d.Sys == units.US {
 			limit = "32 °F, where water freezes"
 		}
+		stage := w.Field
+		if i := int(v["stage_index"]); i >= 0 && i < len(p.Cooling) {
+			stage = fmt.Sprintf("the cooling stage %q", p.Cooling[i].Name)
+		}
 		return fmt.Sprintf("%s cools the product to %s, below %s: the product would freeze in the plates; check the medium inlet and the plates",
-			w.Field, d.temp(v["product_out_C"]), limit)
+			stage, d.With(v["product_out_C"], units.Temperature, 2), limit)
 	case assess.WarnMediumPressurised:
 		return fmt.Sprintf("the heating medium must enter at %s, above %s: a water medium that hot must be pressurised (or the plates need more area)",
 			d.temp(v["medium_in_C"]), d.temp(v["boiling_C"]))
