@@ -68,15 +68,18 @@ func Render(doc *Document) (pdf []byte, pages int, err error) {
 	f.AddUTF8FontFromBytes(monoFamily, "", bytes.Clone(gomono.TTF))
 	f.SetTitle(doc.Title+" — "+doc.Header, true)
 	f.SetSubject("pasval validation record; plant file SHA-256 "+doc.SHA256, true)
-	f.SetKeywords(KeywordPrefix+doc.SHA256, false)
+	f.SetKeywords(keywords(doc), false)
 	f.SetCreator("pasval "+doc.Version, true)
 	f.SetAuthor("pasval "+doc.Version, true)
 	f.SetMargins(margin, margin+6, margin)
 	f.SetCellMargin(0) // tables pad their cells themselves (cellPad)
 	f.SetAutoPageBreak(true, margin+4)
 	f.AliasNbPages("{nb}")
-	f.SetAttachments([]fpdf.Attachment{{Content: doc.PlantBytes, Filename: doc.PlantName,
-		Description: "plant file, SHA-256 " + doc.SHA256}})
+	var atts []fpdf.Attachment
+	for _, a := range doc.Attachments {
+		atts = append(atts, fpdf.Attachment{Content: a.Content, Filename: a.Name, Description: a.Description})
+	}
+	f.SetAttachments(atts)
 	pw, _ := f.GetPageSize()
 	r := &renderer{f: f, doc: doc, w: pw - 2*margin}
 	f.SetHeaderFunc(r.header)

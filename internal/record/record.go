@@ -76,14 +76,14 @@ func build(res *assess.Result, opts Options, whatIf *assess.WhatIf) *report.Docu
 	p := res.Plant
 	d := present.Display{Sys: p.System}
 	doc := &report.Document{
-		Title:      "Pasteurizer validation record",
-		SHA256:     res.InputSHA256,
-		ShortHash:  res.InputSHA256[:12],
-		Date:       opts.Date,
-		Version:    res.Version,
-		PlantName:  opts.PlantName,
-		PlantBytes: p.Source,
-		PageSize:   "A4",
+		Title:     "Pasteurizer validation record",
+		SHA256:    res.InputSHA256,
+		ShortHash: res.InputSHA256[:12],
+		Date:      opts.Date,
+		Version:   res.Version,
+		PageSize:  "A4",
+		Attachments: []report.Attachment{{Name: opts.PlantName, Content: p.Source,
+			Description: "plant file, SHA-256 " + res.InputSHA256}},
 	}
 	if p.System == units.US {
 		doc.PageSize = "Letter"
@@ -131,7 +131,7 @@ func buildCover(res *assess.Result, doc *report.Document) report.Cover {
 	}
 	c.Fields = append(c.Fields,
 		[2]string{"Record date", doc.Date.Format("2006-01-02")},
-		[2]string{"Plant file", doc.PlantName},
+		[2]string{"Plant file", doc.Attachments[0].Name},
 		[2]string{"Plant file SHA-256", res.InputSHA256},
 		[2]string{"Tool", "pasval " + res.Version},
 	)
