@@ -21,10 +21,14 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
+	"strconv"
+	"strings"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
+	"pasval/internal/units"
 	"pasval/internal/version"
 	"pasval/regen"
 )
@@ -335,5 +339,51 @@ func sectionError(p *plantfile.Plant, err error) error {
 	if field == "process" {
 		msg = err.Error()
 	}
+	if p.System == units.US {
+		msg = inUSUnits(msg)
+	}
 	return inputerr.List{{Pos: pos, Field: field, Msg: msg}}
+}
+
+var (
+	celsiusRe = regexp.MustCompile(`(-?\d+(?:\.\d+)?) °C`)
+	arrowRe   = regexp.MustCompile(`(-?\d+(?:\.\d+)?) → (-?\d+(?:\.\d+)?) °C`)
+	kelvinRe  = regexp.MustCompile(`(-?\d+(?:\.\d+)?) K\b`)
+)
+
+// inUSUnits rewrites the temperatures of an engine's message for a plant
+// written in °F: the engines word their errors in SI ("72.00 °C", "3.50 K"),
+// and a user of a °F file reads them in °F (points and differences).
+func inUSUnits(msg string) string {
+	conv := func(re *regexp.Regexp, s string, f func(float64) float64) string {
+		return re.ReplaceAllStringFunc(s, func(m string) string {
+			num := re.FindStringSubmatch(m)[1]
+			v, err := strconv.ParseFloat(num, 64)
+			if err != nil {
+				return m
+			}
+			return fmt.Sprintf("%.*f °F", decimals(num), f(v))
+		})
+	}
+	toF := func(c float64) float64 { return c*9/5 + 32 }
+	// "A → B °C": the unit follows the second of a pair.
+	msg = arrowRe.ReplaceAllStringFunc(msg, func(m string) string {
+		g := arrowRe.FindStringSubmatch(m)
+		a, err1 := strconv.ParseFloat(g[1], 64)
+		b, err2 := strconv.ParseFloat(g[2], 64)
+		if err1 != nil || err2 != nil {
+			return m
+		}
+		return fmt.Sprintf("%.*f → %.*f °F", decimals(g[1]), toF(a), decimals(g[2]), toF(b))
+	})
+	msg = conv(celsiusRe, msg, toF)
+	return conv(kelvinRe, msg, func(k float64) float64 { return k * 9 / 5 })
+}
+
+// decimals is the number of digits after the point in a formatted number.
+func decimals(num string) int {
+	if i := strings.IndexByte(num, '.'); i >= 0 {
+		return len(num) - i - 1
+	}
+	return 0
 }

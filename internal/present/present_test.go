@@ -137,3 +137,33 @@ func mustPanic(t *testing.T, f func()) {
 	}()
 	f()
 }
+
+func TestSmallMarginsShowTheirSign(t *testing.T) {
+	// Values that round alike get more decimals (15.0001 s against 14.9987 s
+	// is not "15.00 s" twice); a margin within the tolerance rule is an
+	// unsigned zero; any other small margin shows its sign (rule of
+	// docs/METHOD.md §1.5; the numbers are chosen to round alike).
+	c := assess.NewCheck(assess.HoldingTime, 15.0001, 14.9987)
+	req, act := CheckValues(c, si)
+	if req == act || req != "15.000 s" || act != "14.999 s" {
+		t.Errorf("values %q %q", req, act)
+	}
+	if m := CheckMargin(c, si); m != "−0.001 s" {
+		t.Errorf("margin %q", m)
+	}
+	// A pressure margin exactly at the limit (rounding below it by 1e-12 Pa).
+	p := assess.NewCheck(assess.RegeneratorPressure, 6894.757293168, 6894.757293168-1e-12)
+	if m := CheckMargin(p, us); !p.Pass || m != "0.0 psi" {
+		t.Errorf("at the limit: pass %v margin %q", p.Pass, m)
+	}
+	// A small positive margin: +0.003 K, not "+0.00 K".
+	o := assess.NewCheck(assess.CoolingOutlet, 4, 3.997)
+	if m := CheckMargin(o, si); m != "+0.003 K" {
+		t.Errorf("small margin %q", m)
+	}
+	// Log reductions above 50 in text: "> 50 log", margin a lower bound.
+	l := assess.NewCheck(assess.LogReduction, 5, 3242657)
+	if req, act := CheckValues(l, si); act != "> 50 log" || req != "5.00 log" || CheckMargin(l, si) != "> +45.00 log" {
+		t.Errorf("huge log reduction: %q %q %q", req, act, CheckMargin(l, si))
+	}
+}
