@@ -298,3 +298,31 @@ func TestProductFrozenInTheCooler(t *testing.T) {
 		t.Errorf("check text:\n%s", out)
 	}
 }
+
+func TestFailingCheckNamesTheRowWithinReach(t *testing.T) {
+	// Rows written in °C, the setpoint in °F: 161 °F = 71.667 °C is below the
+	// 72 °C row, so only 63 °C/30 min applies and fails. The tube holds 17.12 s
+	// (see TestSensorAccuracyIsJudged), enough for 72 °C/15 s: the note names
+	// that row (72 °C = 161.6 °F) and the rise that reaches it,
+	// 72 − 71.667 = 0.333 K = 0.6 °F.
+	src, err := os.ReadFile(filepath.Join(judgingDir, "dessert-accuracy-si.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := strings.NewReplacer("hold_setpoint: 86 °C", "hold_setpoint: 161 °F", "  sensor_accuracy: 0.5 °C\n", "",
+		"  - {temperature: 80 °C, time: 25 s}\n  - {temperature: 83 °C, time: 25 s}\n  - {temperature: 86 °C, time: 15 s}\n",
+		"  - {temperature: 63 °C, time: 30 min}\n  - {temperature: 72 °C, time: 15 s}\n").Replace(string(src))
+	path := filepath.Join(t.TempDir(), "rows-in-celsius.yaml")
+	if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	r, code := judged(t, path)
+	pass, req, _ := r.check(t, "holding-time")
+	if pass || code != 1 || math.Abs(req-1800) > 1e-9 {
+		t.Fatalf("holding-time pass %v required %g exit %d", pass, req, code)
+	}
+	out, _, _ := runBinary(t, "check", path)
+	if !strings.Contains(strings.Join(strings.Fields(out), " "), "the 161.6 °F row would be met with the setpoint 0.6 °F higher") {
+		t.Errorf("the failing check does not name the row within reach:\n%s", out)
+	}
+}
