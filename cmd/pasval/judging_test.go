@@ -326,3 +326,50 @@ func TestFailingCheckNamesTheRowWithinReach(t *testing.T) {
 		t.Errorf("the failing check does not name the row within reach:\n%s", out)
 	}
 }
+
+func TestHoldMaxFlowIsExactBelowTheTurbulentJump(t *testing.T) {
+	// 20 m of 2 in tube (ID 1.870 in), μ 5 mPa·s, ρ 1030 kg/m³, a 24.71 s row:
+	// laminar flows meet it up to Q_a = V/(2·24.71) = 2581.5 L/h, and flows from
+	// there up to Q₄₀₀₀ = 4000·μ/(ρD)·A = 2608 L/h fail it, so the largest flow
+	// up to which every flow meets the row is Q_a (docs/METHOD.md §7.5).
+	d := 1.870 * inch
+	area := math.Pi * d * d / 4
+	qa := area * 20 / (2 * 24.71)
+	plant := `product:
+  name: test syrup
+  density: 1030 kg/m3
+  specific_heat: 3.6 kJ/(kg*K)
+  viscosity:
+    - {at: 80 °C, value: 5 mPa*s}
+flow:
+  max_rate: 3000 L/h
+process:
+  raw_inlet: 5 °C
+  hold_setpoint: 80 °C
+holding_tube:
+  sanitary_tube: 2 in
+  length: 20 m
+  rise: 0.5 m
+legal_minimums:
+  - {temperature: 80 °C, time: 24.71 s}
+`
+	path := filepath.Join(t.TempDir(), "syrup.yaml")
+	if err := os.WriteFile(path, []byte(plant), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, _, _ := runBinary(t, "hold", "--json", path)
+	var r struct {
+		HoldingTube struct {
+			Rows []struct {
+				MaxFlow float64 `json:"max_flow_m3_s"`
+			} `json:"rows"`
+		} `json:"holding_tube"`
+	}
+	if err := json.Unmarshal([]byte(out), &r); err != nil || len(r.HoldingTube.Rows) != 1 {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	closeTo(t, "max flow", r.HoldingTube.Rows[0].MaxFlow, qa, 1e-9)
+	if text, _, _ := runBinary(t, "hold", path); !strings.Contains(text, "2581 L/h") {
+		t.Errorf("hold text lacks 2581 L/h:\n%s", text)
+	}
+}
