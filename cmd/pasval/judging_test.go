@@ -373,3 +373,33 @@ legal_minimums:
 		t.Errorf("hold text lacks 2581 L/h:\n%s", text)
 	}
 }
+
+func TestHeadingSaysTheFlowIsAtTheSetpointDensity(t *testing.T) {
+	// With the density from the composition, the rate converts to mass at the
+	// raw inlet (4 °C) and back to volume at the setpoint, where the product
+	// is lighter: the heading's flow is larger than the file's, and says why
+	// (docs/METHOD.md §2.3, §7.2).
+	plant := `product:
+  name: whole milk
+  composition: {water: 0.878, protein: 0.032, fat: 0.035, carbohydrate: 0.048, ash: 0.007}
+  viscosity:
+    - {at: 72 °C, value: 0.75 mPa*s}
+flow:
+  max_rate: 10000 L/h
+process:
+  raw_inlet: 4 °C
+  hold_setpoint: 72 °C
+holding_tube:
+  sanitary_tube: 2 in
+  length: 30 m
+  rise: 0.7 m
+`
+	path := filepath.Join(t.TempDir(), "milk.yaml")
+	if err := os.WriteFile(path, []byte(plant), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, _, _ := runBinary(t, "check", path)
+	if !regexp.MustCompile(`Holding tube \(judged at the sealed maximum, 10[0-9]{3} L/h at the setpoint density \(10000 L/h at 10[0-9]{2}\.[0-9] kg/m³\)\)`).MatchString(out) {
+		t.Errorf("heading:\n%s", out)
+	}
+}

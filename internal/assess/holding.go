@@ -130,7 +130,11 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	in := GatherHolding(p, res.Product)
 	ev, err := EvaluateHolding(in)
 	if err != nil {
-		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%v", err)}
+		msg := err.Error()
+		if p.System == units.US {
+			msg = inUSUnits(msg)
+		}
+		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%s", msg)}
 	}
 	tube, hyd, worst := ev.Tube, ev.Hyd, ev.Worst
 	out := &HoldingTube{InnerDiameterM: tube.InnerDiameter, OuterDiameterM: tube.OuterDiameter, LengthM: tube.Length,

@@ -215,7 +215,7 @@ func heatSection(res *assess.Result, d present.Display) report.Section {
 func temperatureDiagram(res *assess.Result, d present.Display) report.Diagram {
 	T := func(c float64) float64 { return units.FromSI(c, units.Temperature, d.Unit(units.Temperature)) }
 	dg := report.Diagram{Unit: d.Unit(units.Temperature), Setpoint: T(res.Plant.Process.HoldSetpoint.SI),
-		Caption: "Temperatures at the normal rate along the product path (solid) and of the stream on the other side of each plate pack (dashed; arrows show its direction)."}
+		Caption: "Temperatures at the normal rate along the product path (solid) and of the stream on the other side of each plate pack (broken lines, a colour and pattern for each kind of stream; arrows show its direction)."}
 	var regenerator *assess.Section
 	for i := range res.Sections {
 		if res.Sections[i].Kind == regen.RegenerationSection {
