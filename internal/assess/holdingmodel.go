@@ -137,12 +137,13 @@ type OrganismEval struct {
 // passage is the fastest particle's way through the tube at one candidate flow.
 type passage struct {
 	flow, massFlow, uMax float64
+	atSeal               bool
 }
 
 // passages are the candidate flows of docs/METHOD.md §7.7: the seal, then the
 // worst flow when it lies below the seal.
 func (ev *HoldingEval) passages(in HoldingInputs) []passage {
-	ps := []passage{{flow: ev.Flow.Volumetric, massFlow: in.MaxMassFlow, uMax: ev.Hyd.FastestToMean * ev.Hyd.MeanVelocity}}
+	ps := []passage{{flow: ev.Flow.Volumetric, massFlow: in.MaxMassFlow, uMax: ev.Hyd.FastestToMean * ev.Hyd.MeanVelocity, atSeal: true}}
 	if w := ev.Worst; !w.AtSeal {
 		ps = append(ps, passage{flow: w.Volumetric, massFlow: w.Volumetric * in.Density, uMax: w.FastestToMean * w.MeanVelocity})
 	}
@@ -257,7 +258,7 @@ func (ev *HoldingEval) lethality(in HoldingInputs) {
 			c := NewCheck(LogReduction, org.RequiredLogReduction, o.LogReduction)
 			c.Organism = org.Name
 			c.Detail = CheckDetail{DRefS: org.D, DTemperatureC: org.DTemperature, ZK: org.Z}
-			ev.judgedAt(in, &c.Detail, p.flow)
+			ev.judgedAt(in, &c.Detail, p.flow, p.atSeal)
 			c.Detail.NominalValue = o.AtSetpoint
 			ev.Checks = append(ev.Checks, c)
 		}
@@ -275,9 +276,9 @@ func (ev *HoldingEval) lethality(in HoldingInputs) {
 }
 
 // judgedAt fills the part of a check's detail that says where it was judged.
-func (ev *HoldingEval) judgedAt(in HoldingInputs, x *CheckDetail, flow float64) {
+func (ev *HoldingEval) judgedAt(in HoldingInputs, x *CheckDetail, flow float64, atSeal bool) {
 	x.SetpointC, x.JudgedC, x.AccuracyK = in.Setpoint, ev.JudgedC, in.SensorAccuracy
-	x.FlowM3s, x.AtSeal = flow, flow == ev.Flow.Volumetric
+	x.FlowM3s, x.AtSeal = flow, atSeal
 	x.Regime = ev.Hyd.Regime.String()
 	if !x.AtSeal {
 		x.Regime = ev.Worst.Regime.String()
@@ -316,7 +317,7 @@ func (ev *HoldingEval) judgeLegal(in HoldingInputs) {
 		c = NewCheck(HoldingTime, v.Row.Time, t)
 		c.Detail = CheckDetail{RowTemperatureC: v.Row.Temperature, MarginPercent: v.MarginPct}
 	}
-	ev.judgedAt(in, &c.Detail, ev.Worst.Volumetric)
+	ev.judgedAt(in, &c.Detail, ev.Worst.Volumetric, ev.Worst.AtSeal)
 	c.Detail.CreditHeatLoss = false // the holding time takes no lethality credit
 	c.Detail.SealValue = ev.Hyd.MinResidence
 	if nominal.RowIndex >= 0 {
