@@ -22,11 +22,15 @@ func newHoldCmd(stdout io.Writer) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "hold PLANT.yaml",
 		Short: "Show the holding tube in detail: hydraulics, residence, legal rows, lethality",
-		Long: `hold prints the holding tube alone, judged at the sealed maximum flow: mean
+		Long: `hold prints the holding tube alone: at the sealed maximum flow the mean
 velocity, Reynolds number and regime, the fastest-to-mean velocity ratio,
-fastest-particle and mean residence times, the tube length and the largest flow
-that would meet each legal row, and a table of each organism's log reduction
-for diversion setpoints from 1 K below to 2 K above the entered one.
+fastest-particle and mean residence times; the worst flow up to the seal
+(just below Re 4000 when the seal is turbulent and that is shorter), where
+the holding time and log reductions are judged, at the setpoint less the
+sensor's stated accuracy; the tube length and the largest flow that would
+meet each legal row; and a table of each organism's log reduction and the
+legal table for diversion setpoints from 1 K below to 2 K above the entered
+one (whole °F in US units).
 
 Only the holding-tube checks (holding-time, log-reduction, tube-slope) decide
 the exit status here; 'pasval check' judges the whole line.`,
