@@ -69,7 +69,7 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 	}
 	if opts.record != "" {
 		// Written first, so that a refusal (file exists) comes before any output.
-		if err := writeRecord(res, opts.record, date, opts.force, diag); err != nil {
+		if err := writeRecord(res, opts.record, date, opts.force, diag, nil); err != nil {
 			return err
 		}
 	}

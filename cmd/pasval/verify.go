@@ -128,6 +128,10 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 			passWord(cover.Pass), verdictList(cover.Verdicts))
 		ok = false
 	}
+	signed := report.Signed(pdf)
+	if signed {
+		ok = verifySignatures(pdf, out) && ok
+	}
 	made := st.Version
 	if made == "" {
 		made = "an unstated version"
@@ -144,6 +148,15 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 			st.Version, st.Date.Format("2006-01-02"))
 		return ok
 	}
+	if signed && bytes.HasPrefix(pdf, rep.PDF) {
+		// A signature is appended after the record: the record itself must
+		// be the re-render, byte for byte, and the signing must change no page.
+		if page, err := report.FirstDifferentPage(pdf, rep.PDF); err == nil && page == 0 {
+			fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from its plant file (pasval %s, %s), "+
+				"followed by its signatures\n", st.Version, st.Date.Format("2006-01-02"))
+			return ok
+		}
+	}
 	page, err := report.FirstDifferentPage(pdf, rep.PDF)
 	switch {
 	case err != nil:
@@ -155,6 +168,38 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 			"(metadata, attachment or structure: edited, or re-saved by another program)")
 	}
 	return false
+}
+
+// verifySignatures checks a signed record's signatures: each valid, the last
+// covering the whole file, and no annotation but the signature fields.
+func verifySignatures(pdf []byte, out io.Writer) bool {
+	sigs, err := report.ReadSignatures(pdf)
+	if err != nil {
+		fmt.Fprintf(out, "signatures                  DIFFER: %v\n", err)
+		return false
+	}
+	ok := sigs.Whole
+	for _, sg := range sigs.List {
+		state := "valid"
+		if !sg.Valid {
+			state = "INVALID"
+		}
+		trust := "its certificate does not chain to a root this system trusts: check who the signer is"
+		if sg.Trusted {
+			trust = "its certificate chains to a root this system trusts"
+		}
+		fmt.Fprintf(out, "signature                   %s (%s): %s; %s\n", sg.Name, sg.Subject, state, trust)
+	}
+	if !sigs.Whole {
+		fmt.Fprintf(out, "signatures                  DIFFER: %d found, %d check out, or bytes were added after the last signature\n",
+			sigs.Found, len(sigs.List))
+	}
+	only, page, err := report.OnlySignatureAnnotations(pdf)
+	if err != nil || !only {
+		fmt.Fprintf(out, "annotations                 DIFFER: page %d carries an annotation that is not a signature field\n", page)
+		ok = false
+	}
+	return ok
 }
 
 func passWord(pass bool) string {
