@@ -236,6 +236,16 @@ func TestWorstFlowBelowTheSeal(t *testing.T) {
 	if re := pl.Reynolds(rho, pl.VelocityAt(4000, rho, d), d); !near(re, 4000, 1e-12) {
 		t.Errorf("power law: Re at v₄₀₀₀ = %.15g", re)
 	}
+	// Its worst flow (docs/METHOD.md §7.7, hand formula): n = 0.65, K = 0.02 Pa·s^0.65,
+	// v₄₀₀₀ = [4000 K 8^(n−1) ((3n+1)/(4n))ⁿ / (ρ Dⁿ)]^(1/(2−n)), r_lam = 2.95/1.65,
+	// t_worst = L/(r_lam v₄₀₀₀) = L/(1.788 v₄₀₀₀), for a seal of 1.2 v₄₀₀₀ (Re_MR = 4000·1.2^1.35 = 5119,
+	// turbulent, r ≈ 1.31: t_seal = L/(1.57 v₄₀₀₀), longer).
+	n := 0.65
+	v4pl := math.Pow(4000*0.02*math.Pow(8, n-1)*math.Pow((3*n+1)/(4*n), n)/(rho*math.Pow(d, n)), 1/(2-n))
+	w = tube.WorstFlow(Flow{Volumetric: 1.2 * v4pl * tube.CrossSection(), Density: rho}, pl, 0)
+	if w.AtSeal || !near(w.MinResidence, 20/(2.95/1.65*v4pl), 1e-12) || !near(w.Volumetric, v4pl*tube.CrossSection(), 1e-12) {
+		t.Errorf("power law worst flow %+v; want t %.6g s", w, 20/(2.95/1.65*v4pl))
+	}
 }
 
 func TestMaxFlowOverTheTurbulentJump(t *testing.T) {
