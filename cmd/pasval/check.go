@@ -69,7 +69,7 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 	}
 	if opts.record != "" {
 		// Written first, so that a refusal (file exists) comes before any output.
-		if err := writeRecord(res, opts.record, date, opts.force, diag); err != nil {
+		if err := writeRecord(res, opts.record, date, opts.force, diag, nil); err != nil {
 			return err
 		}
 	}
@@ -123,6 +123,7 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 	}
 	writeChecks(w, res, d, colour)
 	writeWarnings(w, present.Warnings(res, d))
+	writeNotes(w, present.Notes(res, d))
 	fmt.Fprint(w, "\n"+wrap(res.Caution, "Caution:", 88))
 }
 
@@ -172,6 +173,15 @@ func writeComparison(w io.Writer, res *assess.Result, d present.Display) {
 		t.add(label, c.Arrangement, d.Num(c.AreaM2, units.Area, 2), c.Other, other, ratio, note)
 	}
 	t.write(w)
+}
+
+func writeNotes(w io.Writer, notes []string) {
+	if len(notes) > 0 {
+		fmt.Fprintln(w, "\nNotes")
+		for _, m := range notes {
+			fmt.Fprint(w, wrap(m, "  i", 88))
+		}
+	}
 }
 
 func writeWarnings(w io.Writer, warnings []string) {

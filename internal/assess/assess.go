@@ -21,10 +21,14 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
+	"strconv"
+	"strings"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
+	"pasval/internal/units"
 	"pasval/internal/version"
 	"pasval/regen"
 )
@@ -61,8 +65,26 @@ type CheckDetail struct {
 	// the coolest row.
 	RowTemperatureC float64
 	BelowEveryRow   bool
-	SetpointC       float64
 	MarginPercent   float64 // of the row time
+	// holding-time and log-reduction: where they were judged
+	// (docs/METHOD.md §7.7, §9.4): the setpoint, the judged temperature
+	// (setpoint − sensor accuracy), the flow and its regime, and whether the
+	// heat-loss credit was taken.
+	SetpointC, JudgedC, AccuracyK float64
+	FlowM3s                       float64
+	AtSeal                        bool
+	Regime                        string
+	CreditHeatLoss                bool
+	// SealValue is the holding time at the sealed maximum; NominalValue the
+	// judged quantity at the nominal setpoint (holding-time: the worst time).
+	SealValue, NominalValue float64
+	// holding-time at the nominal setpoint: the row judged there (NaN when
+	// none applies) and whether it is met.
+	NominalRowC float64
+	NominalMet  bool
+	// holding-time, failing: the coolest row above the judged temperature
+	// whose time the tube holds, and the setpoint rise that reaches it (NaN: none).
+	RowToMeetC, RiseToMeetK float64
 	// heating-medium: the installed plates.
 	Plates int
 	// log-reduction: the organism's kinetics as entered.
@@ -295,6 +317,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 	if n := len(p.Cooling); n > 0 && anyRated(p.Cooling) {
 		res.Checks = append(res.Checks, NewCheck(CoolingOutlet, p.Process.OutletTarget.SI, line.FinalProductOut))
 	}
+	lineWarnings(p, res, line)
 	return nil
 }
 
@@ -342,5 +365,51 @@ func sectionError(p *plantfile.Plant, err error) error {
 	if field == "process" {
 		msg = err.Error()
 	}
+	if p.System == units.US {
+		msg = inUSUnits(msg)
+	}
 	return inputerr.List{{Pos: pos, Field: field, Msg: msg}}
+}
+
+var (
+	celsiusRe = regexp.MustCompile(`(-?\d+(?:\.\d+)?) °C`)
+	arrowRe   = regexp.MustCompile(`(-?\d+(?:\.\d+)?) → (-?\d+(?:\.\d+)?) °C`)
+	kelvinRe  = regexp.MustCompile(`(-?\d+(?:\.\d+)?) K\b`)
+)
+
+// inUSUnits rewrites the temperatures of an engine's message for a plant
+// written in °F: the engines word their errors in SI ("72.00 °C", "3.50 K"),
+// and a user of a °F file reads them in °F (points and differences).
+func inUSUnits(msg string) string {
+	conv := func(re *regexp.Regexp, s string, f func(float64) float64) string {
+		return re.ReplaceAllStringFunc(s, func(m string) string {
+			num := re.FindStringSubmatch(m)[1]
+			v, err := strconv.ParseFloat(num, 64)
+			if err != nil {
+				return m
+			}
+			return fmt.Sprintf("%.*f °F", decimals(num), f(v))
+		})
+	}
+	toF := func(c float64) float64 { return c*9/5 + 32 }
+	// "A → B °C": the unit follows the second of a pair.
+	msg = arrowRe.ReplaceAllStringFunc(msg, func(m string) string {
+		g := arrowRe.FindStringSubmatch(m)
+		a, err1 := strconv.ParseFloat(g[1], 64)
+		b, err2 := strconv.ParseFloat(g[2], 64)
+		if err1 != nil || err2 != nil {
+			return m
+		}
+		return fmt.Sprintf("%.*f → %.*f °F", decimals(g[1]), toF(a), decimals(g[2]), toF(b))
+	})
+	msg = conv(celsiusRe, msg, toF)
+	return conv(kelvinRe, msg, func(k float64) float64 { return k * 9 / 5 })
+}
+
+// decimals is the number of digits after the point in a formatted number.
+func decimals(num string) int {
+	if i := strings.IndexByte(num, '.'); i >= 0 {
+		return len(num) - i - 1
+	}
+	return 0
 }

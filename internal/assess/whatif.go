@@ -17,8 +17,8 @@ type PlatesOption struct {
 	RegenerationRatio      float64   `json:"regeneration_ratio"`
 	RawOutC                float64   `json:"raw_out_C"`         // raw product leaving regeneration
 	PasteurizedOutC        float64   `json:"pasteurized_out_C"` // pasteurized product leaving regeneration
-	HeatingDutyKW          float64   `json:"heating_duty_kW"`   // raw out → heater outlet
-	CoolingDutyKW          float64   `json:"cooling_duty_kW"`   // pasteurized out → outlet target
+	HeatingDutyKW          float64   `json:"heating_duty_kW"`   // the heating section's duty (without one: raw out → heater outlet)
+	CoolingDutyKW          float64   `json:"cooling_duty_kW"`   // the cooling stages' duty (without stages: pasteurized out → outlet target)
 	HeatingMediumRequiredC *float64  `json:"heating_medium_required_C"`
 	CoolingOutletC         *float64  `json:"cooling_outlet_C"`
 	HeatingSavedKW         float64   `json:"heating_saved_kW"`
@@ -122,7 +122,10 @@ func regenerationNotRated(p *plantfile.Plant) error {
 // ascending after sorting). A regenerator with a plate pack takes a layout
 // (passes or channels): each option is rounded to whole steps of it (at
 // least one; options that round alike are shown once) and its U and
-// pressure drops are those of the new layout. Savings:
+// pressure drops are those of the new layout. Each duty is the sections' own
+// (a rated cooling stage's is what it removes, down to the outlet it
+// reaches); savings are the baseline's duty less the option's, which for
+// sized sections is
 //
 //	heating saved = cooling saved = C · Δratio · (setpoint − raw inlet)
 //	annual energy = (heating + cooling saved) · hours;  cost = heating·h·p_heat + cooling·h·p_cool
@@ -226,7 +229,14 @@ func option(p *plantfile.Plant, requested, steps int, layout Layout, base *Plate
 	if p.Process.OutletTarget.Set {
 		coolTo = p.Process.OutletTarget.SI
 	}
+	heating, cooling, heaters, coolers := 0.0, 0.0, 0, 0
 	for _, s := range res.Sections {
+		switch s.Kind {
+		case regen.HeatingSection:
+			heating, heaters = heating+s.DutyKW, heaters+1
+		case regen.CoolingSection:
+			cooling, coolers = cooling+s.DutyKW, coolers+1
+		}
 		switch {
 		case s.Kind == regen.RegenerationSection:
 			o.RegenerationRatio, o.RawOutC, o.PasteurizedOutC = *res.RegenerationRatio, s.ProductOutC, s.OtherOutC
@@ -251,8 +261,16 @@ func option(p *plantfile.Plant, requested, steps int, layout Layout, base *Plate
 			o.FailedChecks = append(o.FailedChecks, ch.ID)
 		}
 	}
-	o.HeatingDutyKW = c * (heatOut - o.RawOutC) / 1e3
-	o.CoolingDutyKW = c * (o.PasteurizedOutC - coolTo) / 1e3
+	// The duties are the sections' own, as check prints them (what rated
+	// stages actually remove, down to the outlet they reach); a line without
+	// a heating or cooling section counts the duty it would need.
+	o.HeatingDutyKW, o.CoolingDutyKW = heating, cooling
+	if heaters == 0 {
+		o.HeatingDutyKW = c * (heatOut - o.RawOutC) / 1e3
+	}
+	if coolers == 0 {
+		o.CoolingDutyKW = c * (o.PasteurizedOutC - coolTo) / 1e3
+	}
 	if base != nil {
 		o.HeatingSavedKW = base.HeatingDutyKW - o.HeatingDutyKW
 		o.CoolingSavedKW = base.CoolingDutyKW - o.CoolingDutyKW

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"pasval/internal/plantfile"
+	"pasval/regen"
 )
 
 const whatIfPlant = `product:
@@ -149,4 +150,38 @@ func mustReadB(b *testing.B, path string) []byte {
 		b.Fatal(err)
 	}
 	return data
+}
+
+func TestWhatIfDutiesAreTheSections(t *testing.T) {
+	// The baseline's duties are what check prints for the same file: the sum of
+	// the cooling stages' duties (rated stages that reach a colder outlet than
+	// the target remove more than C·(pasteurized out − target)), and the heating
+	// section's duty (hand rule: the what-if and check describe one line).
+	p := load(t, string(mustRead(t, "../../testdata/demo/cider-us.yaml")))
+	res, err := Run(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var heating, cooling float64
+	for _, s := range res.Sections {
+		switch s.Kind {
+		case regen.HeatingSection:
+			heating += s.DutyKW
+		case regen.CoolingSection:
+			cooling += s.DutyKW
+		}
+	}
+	w, err := AddPlates(p, []int{10}, DefaultKneeFraction, LayoutNone)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(w.Baseline.CoolingDutyKW-cooling) > 1e-9*cooling || math.Abs(w.Baseline.HeatingDutyKW-heating) > 1e-9*heating {
+		t.Errorf("baseline heating %g cooling %g kW, check %g and %g kW", w.Baseline.HeatingDutyKW, w.Baseline.CoolingDutyKW, heating, cooling)
+	}
+	// The rated stages reach a colder outlet than the target here, so the old
+	// count down to the target was smaller.
+	c := res.Product.ProductCapacity
+	if toTarget := c * (w.Baseline.PasteurizedOutC - p.Process.OutletTarget.SI) / 1e3; !(cooling > toTarget) {
+		t.Errorf("cooling %g kW is not more than the count to the target %g kW", cooling, toTarget)
+	}
 }

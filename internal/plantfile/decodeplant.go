@@ -89,6 +89,7 @@ func (d *decoder) decodeHolding(p *Plant, top *object) {
 		h.Ambient = ht.quantity("ambient")
 		h.OuterCoefficient = ht.quantity("outer_coefficient")
 		h.PU = ht.boolean("pu")
+		h.CreditHeatLoss = ht.boolean("credit_heat_loss")
 		h.resolveDiameters()
 		p.HoldingTube = h
 	}
@@ -202,6 +203,7 @@ func (d *decoder) decodeProduct(pr *Product, o *object) {
 	pr.Density = o.quantity("density")
 	pr.SpecificHeat = o.quantity("specific_heat")
 	pr.Conductivity = o.quantity("conductivity")
+	pr.FreezingPoint = o.quantity("freezing_point")
 	if c := o.sub("composition"); c != nil {
 		comp := &Composition{Pos: d.pos(c.node)}
 		for _, f := range []struct {

@@ -300,7 +300,7 @@ func table() []Field {
 		q("process.hold_setpoint", units.Temperature, "diversion setpoint at the holding-tube outlet", "72.5 °C").required(),
 		q("process.outlet_target", units.Temperature, "product outlet target (required with cooling)", "4 °C"),
 		q("process.sensor_accuracy", units.TemperatureDifference,
-			"stated accuracy of the diversion sensor, a difference: warns when the setpoint is within it of a legal row", "0.5 °C"),
+			"stated accuracy of the diversion sensor, a difference: the holding time, log reductions and legal row are judged at the setpoint less it", "0.5 °C"),
 		mapping("regeneration", "product-to-product regeneration: ratio (sizing), or plates or a plate pack's passes (rating)"))
 	pack := platePack("regeneration")
 	add(pack[0], num("regeneration.ratio", "regeneration ratio, 0 < ratio < 1: given, the section is sized (sizing mode)", "0.92"))
@@ -347,6 +347,9 @@ func table() []Field {
 		num("economics.heat_price_per_kWh", "price per kWh of heat delivered to the heating medium", "0.048").required(),
 		num("economics.cooling_price_per_kWh", "price per kWh of heat removed by the cooling media", "0.029").required(),
 		num("economics.plate_cost", "cost per added plate, installed", "340").required())
+	add(Field{Path: "holding_tube.credit_heat_loss", Value: KindBoolean, Default: "false",
+		Description: "judge the log reduction with the heat-loss profile (hotter upstream) instead of the tube isothermal at the judged temperature: a process authority's decision", Example: "true"},
+		q("product.freezing_point", units.Temperature, "freezing point, for the warning on product cooled below it (default 0 °C)", "-0.5 °C"))
 	// Products on a shared line (docs/METHOD.md §16).
 	add(text("line_file", "the line file (path relative to this file) that supplies every top-level block this file does not give; a block given here replaces the line's whole", "line.yaml"),
 		Field{Path: "legal_tables", Value: KindNamed,

@@ -130,10 +130,13 @@ type Product struct {
 	Density      Quantity // kg/m³ (optional with Composition)
 	SpecificHeat Quantity // J/(kg·K) (optional with Composition)
 	Conductivity Quantity // W/(m·K), optional
-	Composition  *Composition
-	Viscosity    []ViscosityPoint // Newtonian points; empty when PowerLaw is set or none entered
-	PowerLaw     *PowerLaw
-	Pos          inputerr.Pos
+	// FreezingPoint is the product's freezing point, °C, optional: below it
+	// (or below 0 °C when not entered) the cooled product is flagged.
+	FreezingPoint Quantity
+	Composition   *Composition
+	Viscosity     []ViscosityPoint // Newtonian points; empty when PowerLaw is set or none entered
+	PowerLaw      *PowerLaw
+	Pos           inputerr.Pos
 }
 
 // Composition is the product make-up by mass fraction, as entered. The
@@ -333,7 +336,10 @@ type HoldingTube struct {
 	Ambient          Quantity
 	OuterCoefficient Quantity // W/(m²·K) on the outer surface
 	PU               bool     // report brewing pasteurization units
-	Pos              inputerr.Pos
+	// CreditHeatLoss judges the log reduction with the heat-loss profile
+	// (holding_tube.credit_heat_loss; a process authority's decision).
+	CreditHeatLoss bool
+	Pos            inputerr.Pos
 }
 
 // Organism is a target organism with its kinetics.

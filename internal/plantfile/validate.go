@@ -364,6 +364,9 @@ func (v *validator) holding(p *Plant) {
 			v.add(h.Ambient.Pos, "holding_tube.ambient", "the ambient %s is not below the setpoint %s; the tube would gain heat", h.Ambient.Text, p.Process.HoldSetpoint.Text)
 		}
 	}
+	if h.CreditHeatLoss && !h.OuterCoefficient.Set {
+		v.add(h.Pos, "holding_tube.credit_heat_loss", "true needs heat loss (ambient and outer_coefficient): without it there is no credit to take")
+	}
 	if len(p.Product.Viscosity) == 0 && p.Product.PowerLaw == nil && p.Product.Name != "" && firstPack(p) == "" {
 		v.add(p.Product.Pos, "product.viscosity", "missing; the holding tube's flow regime needs viscosity points or power_law")
 	}

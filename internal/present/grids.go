@@ -2,6 +2,7 @@ package present
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"pasval/internal/assess"
@@ -117,7 +118,8 @@ func Checks(res *assess.Result, d Display) Grid {
 		if c.Limit == "max" {
 			op = "≤ "
 		}
-		g.add(CheckLabel(c), verdict, op+CheckValue(c.Required, c.Unit, d), CheckValue(c.Actual, c.Unit, d), CheckMargin(c, d), CheckNote(c, d))
+		req, act := CheckValues(c, d)
+		g.add(CheckLabel(c), verdict, op+req, act, CheckMargin(c, d), CheckNote(c, d))
 	}
 	return g
 }
@@ -163,8 +165,26 @@ func HoldingFacts(res *assess.Result, d Display) [][2]string {
 	if h.FastestToMeanOverridden {
 		ratio += " (entered)"
 	}
-	add("flow", fmt.Sprintf("mean velocity %s/s, Re %.0f (%s), fastest/mean %s", d.With(h.MeanVelocity, units.Length, 3), h.Reynolds, h.Regime, ratio))
-	add("residence", fmt.Sprintf("fastest particle %.2f s, mean %.2f s", h.MinResidenceS, h.MeanResidenceS))
+	add("flow", fmt.Sprintf("mean velocity %s/s, Re %.0f (%s), fastest/mean %s at the sealed maximum", d.With(h.MeanVelocity, units.Length, 3), h.Reynolds, h.Regime, ratio))
+	add("residence", fmt.Sprintf("fastest particle %.2f s, mean %.2f s at the sealed maximum", h.MinResidenceS, h.MeanResidenceS))
+	if h.WorstFlowAtSeal {
+		add("worst flow", "the sealed maximum: no lower flow gives the fastest particle less time")
+	} else {
+		add("worst flow", fmt.Sprintf("%s (%s, just below Re 4000): fastest/mean %.3f, fastest particle %.2f s; the holding time and log reductions are judged here",
+			d.Flow(h.WorstFlowM3s), h.WorstFlowRegime, h.WorstFastestToMean, h.WorstMinResidenceS))
+	}
+	judged := fmt.Sprintf("the setpoint %s", d.With(h.SetpointC, units.Temperature, 2))
+	if h.SensorAccuracyK > 0 {
+		judged = fmt.Sprintf("%s, the setpoint %s less the sensor accuracy %s", d.With(h.JudgedTemperatureC, units.Temperature, 2),
+			d.With(h.SetpointC, units.Temperature, 2), d.With(h.SensorAccuracyK, units.TemperatureDifference, 2))
+	}
+	switch {
+	case h.CreditHeatLoss:
+		judged += "; log reductions with the heat-loss profile (credit taken: holding_tube.credit_heat_loss: true)"
+	case h.InletTemperatureC != h.OutletTemperatureC:
+		judged += "; log reductions with the tube isothermal there (the heat-loss credit is shown, not taken)"
+	}
+	add("judged at", judged)
 	if h.InletTemperatureC != h.OutletTemperatureC {
 		add("temperature", fmt.Sprintf("inlet %s → outlet %s with heat loss; the heater delivers %s at the normal rate",
 			d.With(h.InletTemperatureC, units.Temperature, 2), d.With(h.OutletTemperatureC, units.Temperature, 2), d.With(h.HeatingOutletC, units.Temperature, 2)))
@@ -184,13 +204,16 @@ func LegalRows(res *assess.Result, d Display) Grid {
 	g := grid("row", ">temperature", ">time", "applies", ">length needed", ">max flow")
 	for i, r := range h.Rows {
 		applies := "no (above setpoint)"
+		if r.AppliesAtSet && !r.Applies {
+			applies = "no (above judged temperature)"
+		}
 		if r.Applies {
 			applies = "yes"
 			if h.Legal != nil && h.Legal.RowIndex == i {
 				applies = "yes: judged"
 			}
 		}
-		maxFlow := d.With(r.MaxFlowM3s, units.VolumeFlow, 0)
+		maxFlow := d.Flow(r.MaxFlowM3s)
 		if r.MaxFlowCapped {
 			maxFlow = "≥ " + maxFlow
 		}
@@ -200,17 +223,65 @@ func LegalRows(res *assess.Result, d Display) Grid {
 	return g
 }
 
-// Lethality is each organism's result.
-func Lethality(res *assess.Result) Grid {
-	g := grid("organism", ">D at setpoint", ">log reduction", ">required", ">equivalent time at D temperature")
+// Lethality is each organism's result: the judged log reduction and, beside
+// it, the values at the seal, at the setpoint and with or without the
+// heat-loss credit where they differ.
+func Lethality(res *assess.Result, d Display) Grid {
+	h := res.HoldingTube
+	atSeal, atSet := !h.WorstFlowAtSeal, h.SensorAccuracyK > 0
+	heatLoss := len(res.Lethality) > 0 && res.Lethality[0].LogReductionCredit != nil
+	headers := []string{"organism", ">D at " + d.With(h.JudgedTemperatureC, units.Temperature, 2), ">log reduction"}
+	if atSeal {
+		headers = append(headers, ">at the seal")
+	}
+	if atSet {
+		headers = append(headers, ">at the setpoint")
+	}
+	if heatLoss && h.CreditHeatLoss {
+		headers = append(headers, ">isothermal")
+	} else if heatLoss {
+		headers = append(headers, ">with heat-loss credit")
+	}
+	headers = append(headers, ">required", ">equivalent time at D temperature")
+	g := grid(headers...)
 	for i, l := range res.Lethality {
 		req := "—"
 		if res.Plant.Organisms[i].RequiredSet {
 			req = fmt.Sprintf("%.2f", l.RequiredLogReduction)
 		}
-		g.add(l.Organism, fmt.Sprintf("%.4g s", l.DAtSetpointS), fmt.Sprintf("%.2f", l.LogReduction), req, fmt.Sprintf("%.2f s", l.EquivalentTimeS))
+		cells := []string{l.Organism, fmt.Sprintf("%.4g s", l.DAtJudgedS), LogText(l.LogReduction)}
+		if atSeal {
+			cells = append(cells, LogText(l.LogReductionAtSeal))
+		}
+		if atSet {
+			cells = append(cells, LogText(l.LogReductionAtSet))
+		}
+		if heatLoss && h.CreditHeatLoss {
+			cells = append(cells, LogText(l.LogReductionIso))
+		} else if heatLoss {
+			cells = append(cells, LogText(*l.LogReductionCredit))
+		}
+		eq := fmt.Sprintf("%.2f s", l.EquivalentTimeS)
+		if l.EquivalentTimeS >= 1e6 {
+			eq = fmt.Sprintf("%.3g s", l.EquivalentTimeS)
+		}
+		g.add(append(cells, req, eq)...)
 	}
 	return g
+}
+
+// HoldingHeading is the holding tube's heading: the sealed maximum, at the
+// setpoint's density, and the worst flow when it lies below the seal.
+func HoldingHeading(res *assess.Result, d Display) string {
+	h, pp := res.HoldingTube, res.Product
+	seal := d.Flow(h.MaxFlowM3s)
+	if entered := pp.MaxMassFlow / pp.Density; math.Abs(entered/h.MaxFlowM3s-1) > 1e-9 {
+		seal += fmt.Sprintf(" at the setpoint density (%s at %s)", d.Flow(entered), d.With(pp.Density, units.Density, 1))
+	}
+	if h.WorstFlowAtSeal {
+		return fmt.Sprintf("judged at the sealed maximum, %s", seal)
+	}
+	return fmt.Sprintf("sealed maximum %s; judged at %s, the worst flow below it", seal, d.Flow(h.WorstFlowM3s))
 }
 
 // AddedLabel is "baseline" or "+N".

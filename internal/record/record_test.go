@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
 	"time"
@@ -153,13 +154,19 @@ func TestRenderIsDeterministicAndVerifiable(t *testing.T) {
 		if pages < 2 {
 			t.Errorf("%s: %d pages", name, pages)
 		}
-		v, err := report.Verify(a, doc.PlantBytes)
+		plant := doc.Attachments[0].Content
+		v, err := report.Verify(a, plant)
 		if err != nil || !v.Match || v.RecordedSHA256 != doc.SHA256 {
 			t.Errorf("%s: verify %+v %v", name, v, err)
 		}
-		got, err := report.Attachment(a)
-		if err != nil || !bytes.Equal(got, doc.PlantBytes) {
+		st, err := report.Read(a)
+		if err != nil || len(st.Attachments) != 1 || !bytes.Equal(st.Attachments[0].Content, plant) || st.Attachments[0].Name != name+".yaml" {
 			t.Errorf("%s: attachment differs (%v)", name, err)
+		}
+		// The metadata carries what a re-render needs and the verdicts.
+		if err == nil && (st.Version != doc.Version || !st.Date.Equal(doc.Date) || st.Pass != doc.Cover.Pass ||
+			!reflect.DeepEqual(st.Verdicts, doc.Cover.Verdicts) || st.Pages != pages) {
+			t.Errorf("%s: stored %+v", name, st)
 		}
 	}
 }
@@ -171,7 +178,7 @@ func TestVerifyTamper(t *testing.T) {
 		t.Fatal(err)
 	}
 	// One byte of the plant file changed: mismatch.
-	plant := append([]byte(nil), doc.PlantBytes...)
+	plant := append([]byte(nil), doc.Attachments[0].Content...)
 	plant[len(plant)/2] ^= 0x01
 	if v, err := report.Verify(pdf, plant); err != nil || v.Match {
 		t.Errorf("tampered plant file: %+v %v", v, err)

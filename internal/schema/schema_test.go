@@ -98,7 +98,7 @@ var (
 		"plate-pack-medium-no-viscosity",
 		"below-absolute-zero", "cocurrent-regenerator", "cocurrent-regenerator-half", "composition-sum", "cooling-cross", "economics-hours",
 		"economics-negative-price", "heating-cross", "heating-starved", "holding-ambient-above-setpoint", "holding-heat-loss-absurd",
-		"holding-heat-loss-no-od", "holding-no-viscosity", "holding-ratio-below-one", "holding-rise-above-length",
+		"holding-heat-loss-no-od", "holding-credit-without-heat-loss", "holding-no-viscosity", "holding-ratio-below-one", "holding-rise-above-length",
 		"holding-unknown-sanitary", "holding-zero-length", "huge-number", "intermediate-stage-no-outlet", "magnitude-tiny",
 		"missing-flow", "negative-flow", "negative-viscosity", "organism-D-as-temperature", "organism-zero-z",
 		"organisms-without-tube", "percent-flow", "rate-above-max", "rated-stage-with-outlet", "ratio-above-one", "ratio-one",
