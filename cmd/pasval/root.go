@@ -63,11 +63,14 @@ authority and the local regulator.`,
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
-	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
+	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout),
+		newMatrixCmd(stdout))
 	for _, c := range root.Commands() {
 		switch c.Name() {
 		case "check", "hold", "report", "plates":
 			c.ValidArgsFunction = completePlantFile
+		case "matrix":
+			c.ValidArgsFunction = completePlantFiles
 		case "verify":
 			c.ValidArgsFunction = completeRecord
 		case "init", "schema":
@@ -117,6 +120,11 @@ func completePlantFile(cmd *cobra.Command, args []string, toComplete string) ([]
 	if len(args) > 0 {
 		return nil, cobra.ShellCompDirectiveNoFileComp
 	}
+	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+}
+
+// completePlantFiles offers *.yaml and *.yml files for every argument (matrix).
+func completePlantFiles(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
 	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
 }
 

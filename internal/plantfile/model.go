@@ -49,11 +49,12 @@ type Plant struct {
 	// LineFile is line_file as written ("" without one) and Line the file it
 	// names, which supplies every top-level block this file does not give
 	// (docs/METHOD.md §16). Records attach and hash both.
-	LineFile string
-	Line     *SourceFile
-	System   units.System
-	Record   []RecordField
-	Inputs   []Input // every quantity in file order
+	LineFile    string
+	LineFilePos inputerr.Pos // of line_file's value
+	Line        *SourceFile
+	System      units.System
+	Record      []RecordField
+	Inputs      []Input // every quantity in file order
 
 	Product      Product
 	Flow         Flow

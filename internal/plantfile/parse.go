@@ -66,7 +66,12 @@ func LoadLine(path string) (*Plant, error) {
 	if err != nil {
 		return nil, inputerr.List{inputerr.At(inputerr.Pos{File: path}, "", "cannot read %s: %v", path, err)}
 	}
-	return parseWith(&decoder{file: path, lineOnly: true}, data)
+	return ParseLine(path, data)
+}
+
+// ParseLine is LoadLine of bytes already read.
+func ParseLine(file string, data []byte) (*Plant, error) {
+	return parseWith(&decoder{file: file, lineOnly: true}, data)
 }
 
 func unwrapPathError(err error) error {
@@ -190,7 +195,7 @@ func (d *decoder) withLine(p *Plant, top *object) *object {
 		return top
 	}
 	at := top.values["line_file"]
-	p.LineFile = name
+	p.LineFile, p.LineFilePos = name, d.pos(at)
 	if d.lineOnly {
 		d.errorf(at, "line_file", "this file names a line file itself, so it is a product file; give pasval matrix the line file first (%s), then the product files", name)
 		return nil
