@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"path/filepath"
+	"strings"
 
 	"pasval/internal/assess"
 	"pasval/internal/units"
@@ -44,7 +45,7 @@ func MatrixHolding(ps []assess.OnLine, d Display) Grid {
 			}
 		}
 		g.add(ProductName(o), filepath.Base(p.File), table, d.Num(p.Process.HoldSetpoint.SI, units.Temperature, 2), judged,
-			d.Num(sealOf(res), units.VolumeFlow, 0), fastest, row)
+			d.flowNum(sealOf(res)), fastest, row)
 	}
 	return g
 }
@@ -166,9 +167,9 @@ func MatrixEnvelope(ps []assess.OnLine, d Display) Grid {
 		flow, flowBy := "none in range", limitedBy(e.MaxSeal)
 		switch {
 		case e.MaxSeal.Found && e.MaxSeal.AtRangeEnd:
-			flow, flowBy = "≥ "+d.Num(e.MaxSeal.Value, units.VolumeFlow, 0), fmt.Sprintf("(search ends at %g × the seal)", assess.EnvelopeFlowCap)
+			flow, flowBy = "≥ "+d.flowNum(e.MaxSeal.Value), fmt.Sprintf("(search ends at %g × the seal)", assess.EnvelopeFlowCap)
 		case e.MaxSeal.Found:
-			flow = d.Num(e.MaxSeal.Value, units.VolumeFlow, 0)
+			flow = d.flowNum(e.MaxSeal.Value)
 		}
 		sp, spBy := "none in range", limitedBy(e.MinSetpoint)
 		switch {
@@ -184,15 +185,30 @@ func MatrixEnvelope(ps []assess.OnLine, d Display) Grid {
 	return g
 }
 
+// flowNum is a volumetric flow without its unit: whole numbers from 1000 up,
+// one decimal below (gpm).
+func (d Display) flowNum(q float64) string {
+	if units.FromSI(q, units.VolumeFlow, d.Unit(units.VolumeFlow)) < 1000 {
+		return d.Num(q, units.VolumeFlow, 1)
+	}
+	return d.Num(q, units.VolumeFlow, 0)
+}
+
+// sci prints a small number as 1e-9 rather than 1e-09.
+func sci(v float64) string {
+	return strings.Replace(strings.Replace(fmt.Sprintf("%g", v), "e-0", "e-", 1), "e+0", "e+", 1)
+}
+
 // EnvelopeMethod says how the envelope was searched, in display units.
 func EnvelopeMethod(d Display) string {
 	return fmt.Sprintf("Highest seal flow: both rates scaled together from the entered ones (the normal rate keeps its proportion to the seal), "+
-		"in steps of ×%.3f up to %g × the entered seal (down to 1/%g of it when the seal fails), then bisected to %g relative; "+
-		"lowest setpoint: at the entered rates, from %s up in %s steps to %s, then bisected to %s. "+
+		"in steps of ×%.3f up to %g × the entered seal (down to 1/%g of it when the seal fails), then bisected to %s relative; "+
+		"lowest setpoint: at the entered rates, from %s up in %s steps to %s, then bisected to %s %s. "+
 		"Each trial computes the whole plant, every check (docs/METHOD.md §16.3).",
-		assess.EnvelopeFlowStep, assess.EnvelopeFlowCap, 1/assess.EnvelopeFlowFloor, assess.EnvelopeFlowTol,
+		assess.EnvelopeFlowStep, assess.EnvelopeFlowCap, 1/assess.EnvelopeFlowFloor, sci(assess.EnvelopeFlowTol),
 		d.With(assess.EnvelopeSetpointFrom, units.Temperature, 0), d.With(assess.EnvelopeSetpointStep, units.TemperatureDifference, 1),
-		d.With(assess.EnvelopeSetpointTo, units.Temperature, 0), d.With(assess.EnvelopeSetpointTol, units.TemperatureDifference, 6))
+		d.With(assess.EnvelopeSetpointTo, units.Temperature, 0),
+		sci(units.FromSI(assess.EnvelopeSetpointTol, units.TemperatureDifference, d.Unit(units.TemperatureDifference))), d.Unit(units.TemperatureDifference))
 }
 
 // MatrixFailing lists every failing check of every product.

@@ -37,6 +37,16 @@ type obj = map[string]any
 func PlantFile() map[string]any {
 	s := node(plantfile.Field{Value: plantfile.KindMapping,
 		Description: "A pasval plant file: a continuous pasteurizer described once, every quantity with its unit."}, "")
+	// A file names its line file, or gives product and process itself, or
+	// is a line file (neither product nor process): docs/METHOD.md §16.1.
+	if req, ok := s["required"]; ok {
+		delete(s, "required")
+		s["anyOf"] = []any{
+			obj{"required": req},
+			obj{"required": []any{"line_file"}},
+			obj{"not": obj{"anyOf": []any{obj{"required": []any{"product"}}, obj{"required": []any{"process"}}}}},
+		}
+	}
 	s["$schema"] = "https://json-schema.org/draft/2020-12/schema"
 	s["$id"] = ID
 	s["title"] = "pasval plant file"
