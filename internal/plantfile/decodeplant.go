@@ -156,15 +156,6 @@ func (d *decoder) decodeLegalTables(p *Plant, top *object) {
 	}
 }
 
-// neitherFile says where a top-level block was looked for: "this file", or
-// "neither this file nor its line file NAME".
-func (d *decoder) neitherFile() string {
-	if d.lineFile == "" {
-		return "this file"
-	}
-	return "neither this file nor its line file " + d.lineFile
-}
-
 func (d *decoder) decodeEconomics(p *Plant, top *object) {
 	ec := top.sub("economics")
 	if ec == nil {
