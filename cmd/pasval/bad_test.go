@@ -25,7 +25,7 @@ var badCases = map[string]badCase{
 	"anchor-alias":                   {15, "regeneration.plate_area", "anchors and aliases"},
 	"bad-arrangement":                {14, "regeneration.arrangement", `did you mean "counterflow"`},
 	"below-absolute-zero":            {10, "process.raw_inlet", "below absolute zero"},
-	"broken-yaml":                    {2, "product", "not valid YAML"},
+	"broken-yaml":                    {3, "name", "not valid YAML"},
 	"cocurrent-regenerator":          {15, "regeneration.ratio", "never passes 50 %"},
 	"cocurrent-regenerator-half":     {15, "regeneration.ratio", "never passes 50 %"},
 	"comments-only":                  {1, "", "no YAML mapping"},
@@ -94,6 +94,13 @@ var badCases = map[string]badCase{
 	"economics-hours":                {31, "economics.operating_hours_per_year", "8784 hours"},
 	"holding-heat-loss-absurd":       {52, "holding_tube.outer_coefficient", "more than 1000 K"},
 	"magnitude-tiny":                 {4, "product.density", "outside the magnitudes"},
+	// Reproducers of faults found by adversarial testing (README "Reliability").
+	"yaml-unclosed-bracket":   {12, "outlet_target", "did not find expected ',' or ']'"},
+	"yaml-undefined-alias":    {22, "u_value", "unknown anchor"},
+	"yaml-control-in-comment": {13, "regeneration", "control character"},
+	"yaml-tag-binary":         {4, "product.density", "YAML tags"},
+	"yaml-tag-custom":         {4, "product.density", "YAML tags"},
+	"yaml-tag-map":            {17, "heating", "YAML tags"},
 }
 
 const badDir = "../../testdata/bad"
