@@ -134,8 +134,10 @@ func attachment(pdf []byte) ([]byte, error) {
 	if err != nil {
 		return nil, errBadStream
 	}
-	defer zr.Close()
 	content, err := io.ReadAll(io.LimitReader(zr, maxAttachment+1))
+	if cerr := zr.Close(); err == nil {
+		err = cerr
+	}
 	if err != nil || len(content) > maxAttachment || len(content) != size {
 		return nil, errBadStream
 	}

@@ -95,12 +95,13 @@ var badCases = map[string]badCase{
 	"holding-heat-loss-absurd":       {52, "holding_tube.outer_coefficient", "more than 1000 K"},
 	"magnitude-tiny":                 {4, "product.density", "outside the magnitudes"},
 	// Reproducers of faults found by adversarial testing (README "Reliability").
-	"yaml-unclosed-bracket":   {12, "outlet_target", "did not find expected ',' or ']'"},
-	"yaml-undefined-alias":    {22, "u_value", "unknown anchor"},
-	"yaml-control-in-comment": {13, "regeneration", "control character"},
-	"yaml-tag-binary":         {4, "product.density", "YAML tags"},
-	"yaml-tag-custom":         {4, "product.density", "YAML tags"},
-	"yaml-tag-map":            {17, "heating", "YAML tags"},
+	"viscosity-same-temperature": {8, "product.viscosity[1].at", "the same temperature as viscosity[0]"},
+	"yaml-unclosed-bracket":      {12, "outlet_target", "did not find expected ',' or ']'"},
+	"yaml-undefined-alias":       {22, "u_value", "unknown anchor"},
+	"yaml-control-in-comment":    {13, "regeneration", "control character"},
+	"yaml-tag-binary":            {4, "product.density", "YAML tags"},
+	"yaml-tag-custom":            {4, "product.density", "YAML tags"},
+	"yaml-tag-map":               {17, "heating", "YAML tags"},
 }
 
 const badDir = "../../testdata/bad"

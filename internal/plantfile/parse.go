@@ -31,8 +31,10 @@ func Load(path string) (*Plant, error) {
 	if err != nil {
 		return nil, cannotRead(err)
 	}
-	defer f.Close()
 	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
 	if err != nil {
 		return nil, cannotRead(err)
 	}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"pasval/internal/inputerr"
+	"pasval/internal/units"
 )
 
 // Validate checks the rules that span fields, before any computation: that
@@ -85,17 +86,16 @@ func (v *validator) product(p *Plant) {
 	if len(pr.Viscosity) > 0 && pr.PowerLaw != nil {
 		v.add(pr.PowerLaw.Pos, "product.power_law", "give either viscosity points (Newtonian) or power_law, not both")
 	}
-	seen := map[float64]int{}
 	for i, pt := range pr.Viscosity {
 		f := fmt.Sprintf("product.viscosity[%d]", i)
 		v.positive(pt.Value, f+".value")
-		if !pt.At.Set {
-			continue
+		for j := range i {
+			if pt.At.Set && pr.Viscosity[j].At.Set && units.SameTemperature(pt.At.SI, pr.Viscosity[j].At.SI) {
+				v.add(pt.At.Pos, f+".at", "%s is the same temperature as viscosity[%d] (%s); give each temperature once",
+					pt.At.Text, j, pr.Viscosity[j].At.Text)
+				break
+			}
 		}
-		if j, dup := seen[pt.At.SI]; dup {
-			v.add(pt.At.Pos, f+".at", "the same temperature as viscosity[%d]; give each temperature once", j)
-		}
-		seen[pt.At.SI] = i
 	}
 	if pr.PowerLaw != nil {
 		v.positive(pr.PowerLaw.Consistency, "product.power_law.consistency")

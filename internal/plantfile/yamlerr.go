@@ -117,4 +117,3 @@ func controlCharacterAt(data []byte) (line, col int, r rune, found bool) {
 	}
 	return 0, 0, 0, false
 }
-

@@ -373,3 +373,14 @@ func splitNumber(s string) (float64, string, error) {
 	}
 	return f, rest, nil
 }
+
+// TemperatureResolution is the one rule for "the same temperature", K: two
+// temperatures closer than this are one. Converting between °C, K and °F
+// leaves differences of about 1e-13 K (20.1 °C and 293.25 K differ by 2e-14 K
+// after conversion), far below it, while no measurement resolves a
+// microkelvin. The plant-file validation and the viscosity curve both use it.
+const TemperatureResolution = 1e-6
+
+// SameTemperature reports whether two temperatures (°C, or two differences in
+// K) are one by TemperatureResolution.
+func SameTemperature(a, b float64) bool { return math.Abs(a-b) < TemperatureResolution }
