@@ -96,6 +96,8 @@ var badCases = map[string]badCase{
 	"magnitude-tiny":                 {4, "product.density", "outside the magnitudes"},
 	// Reproducers of faults found by adversarial testing (README "Reliability").
 	"viscosity-same-temperature": {8, "product.viscosity[1].at", "the same temperature as viscosity[0]"},
+	"text-forged-verdict":        {3, "record.site", "line break"},
+	"text-bidi-override":         {3, "product.name", "U+202E"},
 	"yaml-unclosed-bracket":      {12, "outlet_target", "did not find expected ',' or ']'"},
 	"yaml-undefined-alias":       {22, "u_value", "unknown anchor"},
 	"yaml-control-in-comment":    {13, "regeneration", "control character"},

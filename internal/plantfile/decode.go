@@ -10,6 +10,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"pasval/internal/inputerr"
+	"pasval/internal/oneline"
 	"pasval/internal/units"
 )
 
@@ -160,8 +161,19 @@ func (o *object) scalar(key string, expect string) (string, *yaml.Node, bool) {
 	return v.Value, v, true
 }
 
+// text reads free text: one line of printable characters (internal/oneline),
+// so that no value can add a line or a terminal control to what pasval
+// prints or records.
 func (o *object) text(key string) string {
-	s, _, _ := o.scalar(key, "text")
+	s, n, ok := o.scalar(key, "text")
+	if !ok {
+		return ""
+	}
+	if i, r, bad := oneline.Find(s); bad {
+		o.d.errorf(n, join(o.path, key), "%q holds %s at character %d; free text is one line of printable characters",
+			s, oneline.Describe(r), i)
+		return ""
+	}
 	return strings.TrimSpace(s)
 }
 

@@ -13,6 +13,7 @@ package schema
 import (
 	"fmt"
 
+	"pasval/internal/oneline"
 	"pasval/internal/plantfile"
 	"pasval/internal/units"
 )
@@ -64,7 +65,7 @@ func node(f plantfile.Field, path string) obj {
 	case plantfile.KindInteger:
 		return obj{"type": "integer", "minimum": f.Min, "maximum": f.Max, "description": desc}
 	case plantfile.KindText:
-		return obj{"type": "string", "description": desc}
+		return obj{"type": "string", "pattern": oneline.Pattern, "description": desc + " (one line)"}
 	case plantfile.KindBoolean:
 		return obj{"type": "boolean", "description": desc}
 	case plantfile.KindEnum:

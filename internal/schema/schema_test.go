@@ -86,6 +86,7 @@ var (
 		"product-is-list", "ratio-and-plates", "no-ratio-no-plates", "unknown-medium", "bad-arrangement", "fractional-plates",
 		"null-value", "viscosity-bare-temperature", "organism-bare-z", "legal-row-bare-time", "pu-not-boolean", "organism-typo-key",
 		"holding-both-diameters", "economics-missing-plate-cost", "nan-value", "inf-value",
+		"text-forged-verdict", "text-bidi-override",
 	}
 	semantic = []string{
 		"below-absolute-zero", "cocurrent-regenerator", "cocurrent-regenerator-half", "composition-sum", "cooling-cross", "economics-hours",
