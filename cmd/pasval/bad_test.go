@@ -96,6 +96,12 @@ var badCases = map[string]badCase{
 	"magnitude-tiny":                 {4, "product.density", "outside the magnitudes"},
 	// Reproducers of faults found by adversarial testing (README "Reliability").
 	"viscosity-same-temperature": {8, "product.viscosity[1].at", "the same temperature as viscosity[0]"},
+	"temperature-overflow":       {10, "process.raw_inlet", "outside the temperatures pasval computes with"},
+	"temperature-beyond-range":   {21, "organisms[0].D_temperature", "outside the temperatures pasval computes with"},
+	"economics-price-huge":       {32, "economics.heat_price_per_kWh", "outside the magnitudes"},
+	"log-reduction-percent":      {23, "organisms[0].required_log_reduction", "without a unit"},
+	"organism-z-tiny":            {22, "organisms[0].z", "1 to 100 K"},
+	"plates-above-limit":         {14, "regeneration.plates", "from 1 to 10000"},
 	"text-forged-verdict":        {3, "record.site", "line break"},
 	"text-bidi-override":         {3, "product.name", "U+202E"},
 	"yaml-unclosed-bracket":      {12, "outlet_target", "did not find expected ',' or ']'"},

@@ -12,6 +12,7 @@ import (
 	"golang.org/x/term"
 
 	"pasval/internal/inputerr"
+	"pasval/internal/oneline"
 	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
@@ -174,12 +175,19 @@ func (o outputFlags) load(file string) (*plantfile.Plant, present.Display, error
 	return p, present.Display{Sys: sys}, nil
 }
 
-// writeJSON prints v as indented JSON, keeping °, µ and the like readable.
+// writeJSON prints v as indented JSON, keeping °, µ and the like readable;
+// control and bidirectional formatting characters (the schema's free-text
+// pattern holds some) are written as \uXXXX escapes, never raw.
 func writeJSON(out io.Writer, v any) error {
-	enc := json.NewEncoder(out)
+	var b strings.Builder
+	enc := json.NewEncoder(&b)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
-	return enc.Encode(v)
+	if err := enc.Encode(v); err != nil {
+		return err
+	}
+	_, err := io.WriteString(out, oneline.EscapeLines(b.String()))
+	return err
 }
 
 // argsFile requires exactly one plant-file argument.

@@ -80,13 +80,19 @@ func Describe(r rune) string {
 
 // Escape returns s with every refused rune written as \uXXXX, for
 // diagnostics that quote what a user wrote.
-func Escape(s string) string {
+func Escape(s string) string { return escape(s, false) }
+
+// EscapeLines is Escape for text of several lines made by the program (JSON
+// output): its line feeds are kept.
+func EscapeLines(s string) string { return escape(s, true) }
+
+func escape(s string, keepLines bool) string {
 	if _, _, bad := Find(s); !bad {
 		return s
 	}
 	var b strings.Builder
 	for _, r := range s {
-		if Refused(r) {
+		if Refused(r) && !(keepLines && r == '\n') {
 			fmt.Fprintf(&b, `\u%04X`, r)
 			continue
 		}

@@ -54,6 +54,9 @@ func TestFindAndEscape(t *testing.T) {
 		if got := Escape(tc.in); got != want {
 			t.Errorf("Escape(%q) = %q, want %q", tc.in, got, want)
 		}
+		if got := EscapeLines(tc.in + "\n"); !strings.Contains(tc.in, "\n") && got != want+"\n" {
+			t.Errorf("EscapeLines(%q) = %q, want %q", tc.in+"\n", got, want+"\n")
+		}
 		if bad && !strings.Contains(Describe(r), fmt.Sprintf("(%U)", r)) {
 			t.Errorf("Describe(%U) = %q", r, Describe(r))
 		}

@@ -202,7 +202,13 @@ func (d *decoder) parseQuantity(n *yaml.Node, field, s string, k units.Kind) Qua
 		d.errorf(n, field, "%v", err)
 		return Quantity{}
 	}
-	if a := math.Abs(v.SI); k.Name != units.Temperature.Name && a != 0 && (a < minMagnitude || a > maxMagnitude) {
+	if k.Name == units.Temperature.Name {
+		if v.SI > MaxTemperature {
+			d.errorf(n, field, "%q is outside the temperatures pasval computes with (absolute zero to %g °C); check the number and its unit",
+				s, MaxTemperature)
+			return Quantity{}
+		}
+	} else if a := math.Abs(v.SI); a != 0 && (a < minMagnitude || a > maxMagnitude) {
 		d.errorf(n, field, "%q is outside the magnitudes pasval computes with (%g to %g in SI units); check the number and its unit", s, minMagnitude, maxMagnitude)
 		return Quantity{}
 	}
@@ -211,11 +217,16 @@ func (d *decoder) parseQuantity(n *yaml.Node, field, s string, k units.Kind) Qua
 	return q
 }
 
-// Magnitude limits for entered quantities in SI: far outside any plant, they
-// keep absurd entries (a unit typo, 1e300) from overflowing the arithmetic.
+// Magnitude limits for entered quantities in SI and for plain numbers: far
+// outside any plant, they keep absurd entries (a unit typo, 1e300) from
+// overflowing the arithmetic. Temperatures are points, not magnitudes: they
+// run from absolute zero to MaxTemperature.
 const (
 	minMagnitude = 1e-9
 	maxMagnitude = 1e9
+	// MaxTemperature is the hottest temperature read, °C: far above any
+	// pasteurizer, its media or its surroundings.
+	MaxTemperature = 1000.0
 )
 
 func (d *decoder) record(field string, q Quantity, k units.Kind) {
@@ -243,15 +254,25 @@ func (o *object) flowRate(key string) FlowRate {
 	return FlowRate{Quantity: q, ByMass: k.Name == units.MassFlow.Name}
 }
 
-// number reads a plain number (a fraction may be written "92 %").
+// number reads a plain number, within the magnitudes pasval computes with. A
+// Fraction field (the table says which) may also be written as a percentage
+// or a ratio of like units; any other number takes no unit.
 func (o *object) number(key string) (float64, inputerr.Pos, bool) {
 	s, n, ok := o.scalar(key, "a number")
 	if !ok {
 		return 0, o.d.pos(n), false
 	}
+	f := o.field(key)
 	v, err := units.Parse(s, units.Dimensionless)
-	if err != nil {
-		o.d.errorf(n, join(o.path, key), "expected a plain number such as 0.92 (or 92 %%), found %q", s)
+	switch {
+	case err != nil && f.Fraction:
+		o.d.errorf(n, join(o.path, key), "expected a number such as %s, or a percentage such as 92 %%, found %q", f.Example, s)
+		return 0, o.d.pos(n), false
+	case err != nil || (!f.Fraction && v.Unit != ""):
+		o.d.errorf(n, join(o.path, key), "expected a plain number such as %s, without a unit (this is not a fraction), found %q", f.Example, s)
+		return 0, o.d.pos(n), false
+	case math.Abs(v.SI) > maxMagnitude:
+		o.d.errorf(n, join(o.path, key), "%q is outside the magnitudes pasval computes with (up to %g); check the number", s, maxMagnitude)
 		return 0, o.d.pos(n), false
 	}
 	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), Pos: o.d.pos(n), Set: true}

@@ -51,6 +51,16 @@ func Validate(p *Plant) error {
 	return v.errs
 }
 
+// The z-values read, K: published z-values of vegetative bacteria lie
+// around 4–12 K, of spores around 10 K, of enzymes and quality factors up to
+// some 50 K (common practice). Far outside this a log reduction is no longer
+// a physical statement (z = 0.01 K gives 10^70 decades per kelvin), so such a
+// z is refused where it is read rather than warned about.
+const (
+	MinZ = 1.0
+	MaxZ = 100.0
+)
+
 type validator struct {
 	errs inputerr.List
 }
@@ -211,6 +221,10 @@ func (v *validator) holding(p *Plant) {
 		f := fmt.Sprintf("organisms[%d]", i)
 		v.positive(o.D, f+".D")
 		v.positive(o.Z, f+".z")
+		if o.Z.Set && o.Z.SI > 0 && !(o.Z.SI >= MinZ && o.Z.SI <= MaxZ) {
+			v.add(o.Z.Pos, f+".z", "a z-value of %s is outside %g to %g K, the range of thermal-death kinetics; check the number and its unit",
+				o.Z.Text, MinZ, MaxZ)
+		}
 		if o.RequiredSet && !(o.RequiredLogReduction >= 0 && o.RequiredLogReduction <= 100) {
 			v.add(o.Pos, f+".required_log_reduction", "expected a number of log reductions from 0 to 100, found %g", o.RequiredLogReduction)
 		}

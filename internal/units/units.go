@@ -236,7 +236,13 @@ func Parse(s string, k Kind) (Value, error) {
 			v.SI = num
 		case tempF:
 			v.SI = (num - 32) * 5 / 9
+			if math.IsInf(v.SI, 0) { // 1.7e308 °F: the product overflows, the quotient does not
+				v.SI = (num - 32) / 9 * 5
+			}
 			v.System = US
+		}
+		if math.IsInf(v.SI, 0) || math.IsNaN(v.SI) {
+			return Value{}, errorf(s, "%q is out of range", s)
 		}
 		if v.SI < -273.15 {
 			return Value{}, errorf(s, "%q is below absolute zero", s)
