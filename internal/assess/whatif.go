@@ -39,6 +39,20 @@ type WhatIf struct {
 	Caution      string         `json:"caution"`
 }
 
+// AddedPlatesError is an option of added plates outside what pasval computes
+// with: at least 1, and the regenerator at most plantfile.MaxPlates in all.
+type AddedPlatesError struct {
+	Installed, Added int
+}
+
+func (e *AddedPlatesError) Error() string {
+	if e.Added < 1 {
+		return fmt.Sprintf("added plates must be at least 1, not %d", e.Added)
+	}
+	return fmt.Sprintf("%d added plates would give the regenerator %d, above the %d plates pasval computes with (add at most %d)",
+		e.Added, e.Installed+e.Added, plantfile.MaxPlates, max(0, plantfile.MaxPlates-e.Installed))
+}
+
 // DefaultKneeFraction: the knee is where a further 10 plates save less than
 // this fraction of what the first 10 saved.
 const DefaultKneeFraction = 0.10
@@ -77,8 +91,8 @@ func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64) (*WhatIf, 
 		w.Currency = p.Economics.Currency
 	}
 	for _, a := range added {
-		if a < 1 || a > 10000 {
-			return nil, fmt.Errorf("added plates must be from 1 to 10000, not %d", a)
+		if a < 1 || p.Regeneration.Plates.Plates+a > plantfile.MaxPlates {
+			return nil, &AddedPlatesError{Installed: p.Regeneration.Plates.Plates, Added: a}
 		}
 		o, err := option(p, a, &base)
 		if err != nil {
