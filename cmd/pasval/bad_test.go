@@ -101,6 +101,7 @@ var badCases = map[string]badCase{
 	"economics-price-huge":       {32, "economics.heat_price_per_kWh", "outside the magnitudes"},
 	"log-reduction-percent":      {23, "organisms[0].required_log_reduction", "without a unit"},
 	"organism-z-tiny":            {22, "organisms[0].z", "1 to 100 K"},
+	"kinetics-non-finite":        {21, "organisms[0].D_temperature", "not a finite number"},
 	"rate-above-max-mixed-units": {7, "flow.rate", "above the sealed maximum"},
 	"plates-above-limit":         {14, "regeneration.plates", "from 1 to 10000"},
 	"text-forged-verdict":        {3, "record.site", "line break"},

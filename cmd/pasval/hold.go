@@ -71,9 +71,13 @@ func runHold(opts holdOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
+	rows, err := assess.SetpointTable(res)
+	if err != nil {
+		return err
+	}
 	worded := present.ForJSON(res)
 	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
-		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: worded.Warnings,
+		Lethality: res.Lethality, SetpointTable: rows, Checks: []assess.Check{}, Warnings: worded.Warnings,
 		Pass: true, Caution: res.Caution}
 	only := *res
 	only.Checks = []assess.Check{}

@@ -131,3 +131,35 @@ func TestPlatesLimitIsOneLimit(t *testing.T) {
 		}
 	}
 }
+
+// TestNonFiniteResultsTracedToInputs: a result that would be infinite is
+// never printed ("+Inf" in text, a JSON encoder error): the command exits 2
+// naming the entered values that cause it, with their lines. Here kinetics
+// at -233.3 °C with z = 1 K give a finite log reduction at the setpoint
+// (about 1e307) but an infinite one 1.5 K above it, in hold's setpoint table.
+func TestNonFiniteResultsTracedToInputs(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join(badDir, "organism-zero-z.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	src := strings.Replace(strings.Replace(string(data), "D_temperature: 71.7 °C", "D_temperature: -233.3 °C", 1), "z: 0 °C", "z: 1 °C", 1)
+	plant := filepath.Join(t.TempDir(), "far-kinetics.yaml")
+	writeFile(t, plant, src)
+	for _, args := range [][]string{{"hold", plant}, {"hold", plant, "--json"}} {
+		out, errs, code := runBinary(t, args...)
+		if code != exitInput || out != "" || !strings.Contains(errs, "far-kinetics.yaml:21:20: organisms[0].D_temperature: ") ||
+			!strings.Contains(errs, "far-kinetics.yaml:22:8: organisms[0].z: ") || strings.Contains(errs, "Inf") {
+			t.Errorf("%v: exit %d, stdout %d bytes, stderr %q; want 2 naming D_temperature and z", args, code, len(out), errs)
+		}
+	}
+	bad := filepath.Join(badDir, "kinetics-non-finite.yaml")
+	for _, cmd := range []string{"check", "hold", "report"} {
+		args := []string{cmd, bad}
+		if cmd == "report" {
+			args = append(args, "-o", filepath.Join(t.TempDir(), "r.pdf"))
+		}
+		if out, errs, code := runBinary(t, args...); code != exitInput || out != "" || !strings.Contains(errs, ":21:20: organisms[0].D_temperature: ") {
+			t.Errorf("%v: exit %d, stderr %q", args, code, errs)
+		}
+	}
+}

@@ -17,7 +17,6 @@
 package assess
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -130,8 +129,12 @@ type Result struct {
 
 // Run computes every section and check the plant file describes. Errors are
 // inputerr.List values that point at the section whose numbers cannot
-// work (a temperature cross, an impossible duty).
-func Run(p *plantfile.Plant) (*Result, error) {
+// work (a temperature cross, an impossible duty), or at the entered values
+// that make a result not a finite number (finite.go).
+func Run(p *plantfile.Plant) (*Result, error) { return finiteOrTraced(p, run) }
+
+// run is Run without the finiteness check.
+func run(p *plantfile.Plant) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
 		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
 	res.Product = productProps(p)
@@ -157,11 +160,6 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	res.Pass = true
 	for _, c := range res.Checks {
 		res.Pass = res.Pass && c.Pass
-	}
-	// A safety net: no verdict rests on a number that is not finite.
-	if _, err := json.Marshal(res); err != nil {
-		return nil, inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1},
-			Msg: "the inputs lead to a result that is not a finite number; check the magnitudes and units of the entered values"}}
 	}
 	return res, nil
 }

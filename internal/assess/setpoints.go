@@ -1,6 +1,9 @@
 package assess
 
-import "pasval/lethality"
+import (
+	"pasval/internal/plantfile"
+	"pasval/lethality"
+)
 
 // SetpointRow is the fastest particle's lethality had the diversion setpoint
 // been offset by OffsetK, the tube and flow unchanged.
@@ -17,7 +20,25 @@ var SetpointOffsets = []float64{-1, -0.5, 0, 0.5, 1, 1.5, 2}
 // SetpointTable recomputes the log reduction of each organism for setpoints
 // around the entered one. The hydraulics (viscosity at the entered setpoint)
 // are held; with heat loss the profile moves with the outlet temperature.
-func SetpointTable(res *Result) []SetpointRow {
+// A row that is not finite (kinetics far from their reference) is refused
+// with the entered values that cause it (finite.go).
+func SetpointTable(res *Result) ([]SetpointRow, error) {
+	rows := setpointTable(res)
+	where, bad := nonFinite(rows)
+	if !bad {
+		return rows, nil
+	}
+	return nil, traceNonFinite(res.Plant, "setpoint_table"+where, func(q *plantfile.Plant) bool {
+		r, err := run(q)
+		if err != nil {
+			return false
+		}
+		_, bad := nonFinite(setpointTable(r))
+		return !bad
+	})
+}
+
+func setpointTable(res *Result) []SetpointRow {
 	h := res.HoldingTube
 	if h == nil || h.Model == nil {
 		return nil

@@ -2,7 +2,9 @@ package assess
 
 import (
 	"fmt"
+	"regexp"
 	"sort"
+	"strconv"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
@@ -76,7 +78,38 @@ func regenerationNotRated(p *plantfile.Plant) error {
 //
 // Every option is the whole line recomputed (sized sections re-sized, rated
 // ones re-rated), so its checks say whether the line still holds.
+//
+// Every number of the result is finite, or the entered values that make one
+// infinite are reported (finite.go); the probe re-runs only the option
+// concerned.
 func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64) (*WhatIf, error) {
+	w, err := addPlates(p, added, kneeFraction)
+	if err != nil {
+		return nil, err
+	}
+	where, bad := nonFinite(w)
+	if !bad {
+		return w, nil
+	}
+	var only []int
+	if m := optionPath.FindStringSubmatch(where); m != nil {
+		if i, err := strconv.Atoi(m[1]); err == nil && i < len(w.Options) {
+			only = []int{w.Options[i].AddedPlates}
+		}
+	}
+	return nil, traceNonFinite(p, where, func(q *plantfile.Plant) bool {
+		w, err := addPlates(q, only, kneeFraction)
+		if err != nil {
+			return false
+		}
+		_, bad := nonFinite(w)
+		return !bad
+	})
+}
+
+var optionPath = regexp.MustCompile(`^options\[(\d+)\]`)
+
+func addPlates(p *plantfile.Plant, added []int, kneeFraction float64) (*WhatIf, error) {
 	if p.Regeneration == nil || p.Regeneration.Plates.Plates == 0 {
 		return nil, regenerationNotRated(p)
 	}
@@ -109,7 +142,7 @@ func option(p *plantfile.Plant, added int, base *PlatesOption) (PlatesOption, er
 	rg := *p.Regeneration
 	rg.Plates.Plates += added
 	q.Regeneration = &rg
-	res, err := Run(&q)
+	res, err := run(&q) // unchecked: AddPlates checks the whole what-if
 	if err != nil {
 		return PlatesOption{}, err
 	}

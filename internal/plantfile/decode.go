@@ -23,6 +23,9 @@ type decoder struct {
 	// consulted holds the table paths the decoding looked up (tests check
 	// that every field of the table is decoded).
 	consulted map[string]bool
+	// replace holds scalar values to read in place of the file's, by
+	// concrete path (Plant.Replaced).
+	replace map[string]string
 }
 
 const maxErrors = 50
@@ -154,6 +157,9 @@ func (o *object) scalar(key string, expect string) (string, *yaml.Node, bool) {
 		}
 		return "", nil, false
 	}
+	if r, ok := o.d.replace[f]; ok {
+		return r, v, true
+	}
 	if v.Kind != yaml.ScalarNode || v.Tag == "!!null" || strings.TrimSpace(v.Value) == "" {
 		o.d.errorf(v, f, "expected %s, found %s", expect, describe(v))
 		return "", v, false
@@ -230,7 +236,7 @@ const (
 )
 
 func (d *decoder) record(field string, q Quantity, k units.Kind) {
-	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit})
+	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit, Pos: q.Pos})
 }
 
 // flowRate reads a product or medium rate, volumetric or by mass.
@@ -271,8 +277,8 @@ func (o *object) number(key string) (float64, inputerr.Pos, bool) {
 	case err != nil || (!f.Fraction && v.Unit != ""):
 		o.d.errorf(n, join(o.path, key), "expected a plain number such as %s, without a unit (this is not a fraction), found %q", f.Example, s)
 		return 0, o.d.pos(n), false
-	case math.Abs(v.SI) > maxMagnitude:
-		o.d.errorf(n, join(o.path, key), "%q is outside the magnitudes pasval computes with (up to %g); check the number", s, maxMagnitude)
+	case v.SI != 0 && (math.Abs(v.SI) < minMagnitude || math.Abs(v.SI) > maxMagnitude):
+		o.d.errorf(n, join(o.path, key), "%q is outside the magnitudes pasval computes with (0, or %g to %g); check the number", s, minMagnitude, maxMagnitude)
 		return 0, o.d.pos(n), false
 	}
 	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), Pos: o.d.pos(n), Set: true}
@@ -292,7 +298,7 @@ func (o *object) integer(key string) (int, inputerr.Pos, bool) {
 		o.d.errorf(n, join(o.path, key), "expected a whole number from %g to %g, found %q", f.Min, f.Max, s)
 		return 0, o.d.pos(n), false
 	}
-	o.d.inputs = append(o.d.inputs, Input{Field: join(o.path, key), Text: s, SI: float64(i), SIUnit: "1"})
+	o.d.inputs = append(o.d.inputs, Input{Field: join(o.path, key), Text: s, SI: float64(i), SIUnit: "1", Pos: o.d.pos(n)})
 	return i, o.d.pos(n), true
 }
 

@@ -110,6 +110,24 @@ func parseWith(d *decoder, data []byte) (p *Plant, err error) {
 	return p, nil
 }
 
+// Replaced reads the plant again from its source with the value at path (a
+// concrete path of one of p.Inputs, such as "organisms[1].D_temperature")
+// replaced by text, and validates it. It serves the tracing of a result that
+// is not finite back to an entered value (internal/assess).
+func (p *Plant) Replaced(path, text string) (*Plant, error) {
+	if p.Source == nil {
+		return nil, fmt.Errorf("%sthe plant has no source to read again", panicPrefix)
+	}
+	q, err := parseWith(&decoder{file: p.File, replace: map[string]string{path: text}}, p.Source)
+	if err != nil {
+		return nil, err
+	}
+	if err := Validate(q); err != nil {
+		return nil, err
+	}
+	return q, nil
+}
+
 // decodeYAML parses exactly one YAML document. yaml.v3 has panicked on some
 // malformed inputs in the past; a panic is turned into an error here so that
 // bad input never produces a stack trace.
