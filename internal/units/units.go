@@ -18,6 +18,7 @@ package units
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 	"unicode"
@@ -198,6 +199,17 @@ var table = map[string]unitDef{
 func init() {
 	table["mPa"] = unitDef{1e-3, dPress, false, 0}
 	table["µPa"] = unitDef{1e-6, dPress, false, 0}
+}
+
+// Symbols lists every unit symbol the parser knows, sorted (tests swap them
+// into plant files; compounds such as "L/h" are built from them).
+func Symbols() []string {
+	out := make([]string, 0, len(table))
+	for s := range table {
+		out = append(out, s)
+	}
+	sort.Strings(out)
+	return out
 }
 
 // Parse reads "number unit" and returns the value in SI for the given kind.
