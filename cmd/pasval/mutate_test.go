@@ -167,9 +167,9 @@ func mutateValue(l mutLeaf, old string, op uint8, x float64, s string) string {
 	case plantfile.KindText:
 		switch op % 3 {
 		case 0:
-			t := mutTexts[pick(x, len(mutTexts))]
-			i := pick(x, len(old)+1)
-			return old[:i] + t + old[i:]
+			t, r := mutTexts[pick(x, len(mutTexts))], []rune(old)
+			i := pick(x, len(r)+1)
+			return string(r[:i]) + t + string(r[i:])
 		case 1:
 			return old + s
 		default:
@@ -222,6 +222,8 @@ func mutate(b mutBase, leaf uint16, op uint8, x float64, s string) ([]byte, stri
 					if op != opSet {
 						nv = mutateValue(mutLeaf{path: p, field: f}, v.Value, op, x, s)
 					}
+					// A plant file is UTF-8 (FuzzLoad tries other bytes).
+					nv = strings.ToValidUTF8(nv, "\uFFFD")
 					desc = fmt.Sprintf("%s: %q → %q", p, v.Value, nv)
 					v.Value, v.Tag, v.Style = nv, "!!str", yaml.DoubleQuotedStyle
 					return true
