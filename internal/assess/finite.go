@@ -15,7 +15,7 @@ import (
 // combination of them can still overflow (kinetics at absolute zero with a
 // z of 1 K make the log reduction infinite). Such a result is never shown:
 // the computation is refused, and the entered values that cause it are
-// found by a sensitivity probe (docs/METHOD.md, "Reliability"):
+// found by a sensitivity probe (docs/METHOD.md §19.4, results that are not finite):
 //
 //	an entered value is blamed when replacing it alone by the typical value
 //	of its field (the field table's example: 71.7 °C for a D_temperature,
