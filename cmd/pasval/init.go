@@ -56,13 +56,15 @@ files name the line file beside them.`,
 	cmd.Flags().StringVarP(&opts.output, "output", "o", "", "write to this file instead of standard output")
 	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the output file if it exists")
 	cmd.Flags().StringVar(&opts.demo, "demo", "", "write the demo plant NAME instead of the starter file ('list' lists them)")
-	_ = cmd.RegisterFlagCompletionFunc("demo", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+	if err := cmd.RegisterFlagCompletionFunc("demo", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		names := []string{"list"}
 		for _, d := range demos {
 			names = append(names, d.name+"\t"+d.about)
 		}
 		return names, cobra.ShellCompDirectiveNoFileComp
-	})
+	}); err != nil {
+		panic("pasval: the --demo flag has no completion: " + err.Error()) // registered just above: a programming error
+	}
 	return cmd
 }
 

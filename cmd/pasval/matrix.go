@@ -393,7 +393,7 @@ func writeMatrixRecord(line *plantfile.Plant, rows []assess.OnLine, path string,
 		inputs = append(inputs, o.Result.Plant.File)
 	}
 	for _, in := range inputs {
-		if same, _ := sameFile(path, in); same {
+		if sameFile(path, in) {
 			return usagef("the record %s would overwrite the input file %s", path, in)
 		}
 	}

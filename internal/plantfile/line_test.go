@@ -141,8 +141,8 @@ func TestLineMergeReplacesBlocksWhole(t *testing.T) {
 		if strings.HasPrefix(in.Field, "heating") || strings.HasPrefix(in.Field, "regeneration") || strings.HasPrefix(in.Field, "legal_tables") {
 			want = "plant/line.yaml"
 		}
-		if in.File != want {
-			t.Errorf("input %s from %s, want %s", in.Field, in.File, want)
+		if in.Pos.File != want {
+			t.Errorf("input %s from %s, want %s", in.Field, in.Pos.File, want)
 		}
 	}
 }

@@ -10,7 +10,6 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
-	"strconv"
 	"strings"
 	"unicode/utf8"
 
@@ -49,8 +48,10 @@ func ReadFile(path string) ([]byte, error) {
 	if err != nil {
 		return nil, unwrapPathError(err)
 	}
-	defer f.Close()
 	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
 	if err != nil {
 		return nil, unwrapPathError(err)
 	}
@@ -149,6 +150,9 @@ func readTree(file string, data []byte, what string) (*yaml.Node, error) {
 		line, col := invalidUTF8At(data)
 		return nil, first(line, col, "the file is not valid UTF-8 text; save it as UTF-8")
 	}
+	if line, col, r, ok := controlCharacterAt(data); ok {
+		return nil, first(line, col, fmt.Sprintf("the file holds a control character (%U); a plant file is printable text", r))
+	}
 	if line, col, ok := tabIndent(data); ok {
 		return nil, first(line, col, "a tab is used for indentation; YAML needs spaces")
 	}
@@ -163,9 +167,8 @@ func readTree(file string, data []byte, what string) (*yaml.Node, error) {
 		}
 		return nil, first(1, 1, "the plant file holds no YAML mapping; expected at least 'product' and 'process'")
 	}
-	if n, path := findAlias(root, ""); n != nil {
-		return nil, inputerr.List{{Pos: inputerr.Pos{File: file, Line: n.Line, Column: n.Column}, Field: path,
-			Msg: "anchors and aliases (& and *) are not supported in plant files; write each value out"}}
+	if n, path, msg := findUnsupported(root, ""); n != nil {
+		return nil, inputerr.List{{Pos: inputerr.Pos{File: file, Line: n.Line, Column: n.Column}, Field: path, Msg: msg}}
 	}
 	return root, nil
 }
@@ -284,6 +287,30 @@ func markNodes(n *yaml.Node, set map[*yaml.Node]bool) {
 	}
 }
 
+// Replaced reads the plant again from its source with the value at path (a
+// concrete path of one of p.Inputs, such as "organisms[1].D_temperature")
+// replaced by text, and validates it. It serves the tracing of a result that
+// is not finite back to an entered value (internal/assess).
+func (p *Plant) Replaced(path, text string) (*Plant, error) {
+	if p.Source == nil {
+		return nil, fmt.Errorf("%sthe plant has no source to read again", panicPrefix)
+	}
+	d := &decoder{file: p.File, replace: map[string]string{path: text}}
+	if p.Line != nil {
+		// The value may sit in the line file: it is read again from its bytes.
+		line := p.Line.Source
+		d.read = func(string) ([]byte, error) { return line, nil }
+	}
+	q, err := parseWith(d, p.Source)
+	if err != nil {
+		return nil, err
+	}
+	if err := Validate(q); err != nil {
+		return nil, err
+	}
+	return q, nil
+}
+
 // decodeYAML parses exactly one YAML document. yaml.v3 has panicked on some
 // malformed inputs in the past; a panic is turned into an error here so that
 // bad input never produces a stack trace.
@@ -331,10 +358,15 @@ func secondDocumentLine(data []byte, contentLine int) int {
 	return found
 }
 
-// findAlias returns the first anchored or alias node and its field path.
-func findAlias(n *yaml.Node, path string) (*yaml.Node, string) {
+// findUnsupported returns the first node that uses a YAML feature plant files
+// refuse (an anchor, an alias or an explicit tag such as !!binary, !!map or
+// !name), its field path and the message.
+func findUnsupported(n *yaml.Node, path string) (*yaml.Node, string, string) {
 	if n.Kind == yaml.AliasNode || n.Anchor != "" {
-		return n, path
+		return n, path, "anchors and aliases (& and *) are not supported in plant files; write each value out"
+	}
+	if n.Style&yaml.TaggedStyle != 0 {
+		return n, path, fmt.Sprintf("YAML tags (here %q) are not supported in plant files; write the plain value", n.Tag)
 	}
 	for i, c := range n.Content {
 		p := path
@@ -348,11 +380,11 @@ func findAlias(n *yaml.Node, path string) (*yaml.Node, string) {
 		case yaml.SequenceNode:
 			p = fmt.Sprintf("%s[%d]", path, i)
 		}
-		if a, ap := findAlias(c, p); a != nil {
-			return a, ap
+		if a, ap, msg := findUnsupported(c, p); a != nil {
+			return a, ap, msg
 		}
 	}
-	return nil, ""
+	return nil, "", ""
 }
 
 var keyPattern = regexp.MustCompile(`^\s*(?:-\s+)?([A-Za-z_][A-Za-z0-9_]*)\s*:`)
@@ -400,24 +432,4 @@ func tabIndent(data []byte) (int, int, bool) {
 		}
 	}
 	return 0, 0, false
-}
-
-var yamlLine = regexp.MustCompile(`line (\d+)`)
-
-// yamlErrorPos extracts the line from a yaml.v3 error ("yaml: line 4: …")
-// and points the column at the line's first non-blank character.
-func yamlErrorPos(data []byte, err error) (int, int, string) {
-	msg := strings.TrimPrefix(err.Error(), "yaml: ")
-	line := 1
-	if m := yamlLine.FindStringSubmatch(msg); m != nil {
-		line, _ = strconv.Atoi(m[1])
-		msg = strings.TrimSpace(yamlLine.ReplaceAllString(msg, ""))
-		msg = strings.TrimPrefix(msg, ": ")
-	}
-	col := 1
-	lines := strings.Split(string(data), "\n")
-	if line >= 1 && line <= len(lines) {
-		col = len(lines[line-1]) - len(strings.TrimLeft(lines[line-1], " ")) + 1
-	}
-	return line, col, "the file is not valid YAML: " + msg
 }
