@@ -264,3 +264,16 @@ func TestRelativeMargin(t *testing.T) {
 		t.Errorf("limiting %s, want the failing pressure-drop", c.ID)
 	}
 }
+
+// BenchmarkFindEnvelope measures one product's envelope search (both edges)
+// on the demo line's whole milk: a tube-limited product whose setpoint scan
+// starts at 30 °C.
+func BenchmarkFindEnvelope(b *testing.B) {
+	p, err := plantfile.Load("../../testdata/demo/dairy-line-si/whole-milk.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		assess.FindEnvelope(p)
+	}
+}
