@@ -49,9 +49,10 @@ moving with the seal in the entered proportion, and the lowest setpoint that
 passes at its rates (or "none in range"). docs/METHOD.md §16 gives the ranges
 and tolerances.
 
-Every product file must name LINE.yaml as its line file. --record writes a
-record with a summary page and a page per product, the line file and every
-product file attached.`,
+Every product file must name LINE.yaml as its line file. Values print in the
+units of the first product file's setpoint unless --units says otherwise; JSON
+is SI. --record writes a record with a summary page and a page per product,
+the line file and every product file attached.`,
 		Example: `  pasval matrix testdata/demo/dairy-line-si/line.yaml testdata/demo/dairy-line-si/*milk.yaml
   pasval matrix line.yaml whole-milk.yaml cream.yaml --json
   pasval matrix line.yaml *.yaml --record line3-matrix.pdf --date 2026-12-01`,

@@ -221,15 +221,14 @@ func completePlantFiles(cmd *cobra.Command, args []string, toComplete string) ([
 	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
 }
 
-// completeRecord offers a PDF first, then a plant file.
+// completeRecord offers a PDF first, then plant files.
 func completeRecord(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
-	switch len(args) {
-	case 0:
+	if len(args) == 0 {
 		return []string{"pdf"}, cobra.ShellCompDirectiveFilterFileExt
-	case 1:
-		return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
 	}
-	return nil, cobra.ShellCompDirectiveNoFileComp
+	// The files the record was made from: the plant file and its line file,
+	// or a matrix's line and product files.
+	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
 }
 
 // useColour is true when w is a terminal and neither NO_COLOR nor TERM=dumb
