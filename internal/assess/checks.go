@@ -68,13 +68,21 @@ func CheckDefs() []CheckDef { return append([]CheckDef(nil), checkDefs...) }
 
 // DefOf is the definition of a check; an unknown id is a programming error.
 func DefOf(id CheckID) CheckDef {
-	for _, d := range checkDefs {
-		if d.ID == id {
-			return d
-		}
+	if i, ok := defIndex[id]; ok {
+		return checkDefs[i]
 	}
 	panic(fmt.Sprintf("%sno check definition for %q", panicPrefix, id))
 }
+
+// defIndex finds a definition in the registry (NewCheck runs once per check
+// in each Monte Carlo sample of margins).
+var defIndex = func() map[CheckID]int {
+	m := map[CheckID]int{}
+	for i, d := range checkDefs {
+		m[d.ID] = i
+	}
+	return m
+}()
 
 const panicPrefix = "assess: "
 

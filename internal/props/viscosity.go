@@ -21,20 +21,38 @@ type ViscosityCurve struct {
 // NewViscosityCurve sorts the points; it refuses none, non-positive values or
 // two points at the same temperature.
 func NewViscosityCurve(pts []ViscosityPoint) (ViscosityCurve, error) {
+	var c ViscosityCurve
+	err := c.Set(pts)
+	return c, err
+}
+
+// Set makes c the curve of pts, as NewViscosityCurve does, reusing c's
+// storage: a loop that varies the points (margins under uncertainty) builds
+// its curve again without allocating. On error c is left empty.
+func (c *ViscosityCurve) Set(pts []ViscosityPoint) error {
 	if len(pts) == 0 {
-		return ViscosityCurve{}, fmt.Errorf("at least one viscosity point is needed")
+		c.points = c.points[:0]
+		return fmt.Errorf("at least one viscosity point is needed")
 	}
-	p := append([]ViscosityPoint(nil), pts...)
-	sort.Slice(p, func(i, j int) bool { return p[i].TempC < p[j].TempC })
+	p := append(c.points[:0], pts...)
+	// Insertion sort: a handful of points, stable, and no allocation.
+	for i := 1; i < len(p); i++ {
+		for j := i; j > 0 && p[j].TempC < p[j-1].TempC; j-- {
+			p[j], p[j-1] = p[j-1], p[j]
+		}
+	}
+	c.points = p
 	for i := range p {
 		if !(p[i].Viscosity > 0) {
-			return ViscosityCurve{}, fmt.Errorf("viscosity must be positive")
+			c.points = p[:0]
+			return fmt.Errorf("viscosity must be positive")
 		}
 		if i > 0 && p[i].TempC-p[i-1].TempC < 1e-9 {
-			return ViscosityCurve{}, fmt.Errorf("two viscosity points at %.2f °C", p[i].TempC)
+			c.points = p[:0]
+			return fmt.Errorf("two viscosity points at %.2f °C", p[i].TempC)
 		}
 	}
-	return ViscosityCurve{points: p}, nil
+	return nil
 }
 
 // At returns μ(T) in Pa·s and whether T lies outside the measured points
