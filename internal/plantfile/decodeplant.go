@@ -25,6 +25,7 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 			}
 		}
 	}
+	defer d.decodeUncertainty(p, top)
 	defer d.decodeEconomics(p, top)
 	defer d.decodeHolding(p, top)
 	if prod := top.sub("product"); prod != nil {

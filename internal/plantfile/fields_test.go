@@ -105,6 +105,12 @@ func exampleFile() string {
 			case KindList:
 				fmt.Fprintf(&b, "%s%s:\n%s  -\n", indent, key, indent)
 				write(f.Path, indent+"    ")
+			case KindPathMapping:
+				fmt.Fprintf(&b, "%s%s:\n", indent, key)
+				for _, e := range Children(f.Path) {
+					fmt.Fprintf(&b, "%s  %s:\n", indent, e.Example)
+					write(e.Path, indent+"    ")
+				}
 			default:
 				fmt.Fprintf(&b, "%s%s: %s\n", indent, key, f.Example)
 			}
@@ -177,6 +183,13 @@ func walkAgainstTable(t *testing.T, file string, n *yaml.Node, path string) {
 			continue
 		}
 		switch {
+		case f.Value == KindPathMapping:
+			for j := 0; j+1 < len(v.Content); j += 2 {
+				if _, ok := Lookup(v.Content[j].Value); !ok {
+					t.Errorf("%s:%d: %s is not a field path", file, v.Content[j].Line, v.Content[j].Value)
+				}
+				walkAgainstTable(t, file, v.Content[j+1], uncertaintyEntry)
+			}
 		case f.Value == KindList:
 			if v.Kind != yaml.SequenceNode {
 				t.Errorf("%s: %s is not a list", file, fp)

@@ -60,6 +60,9 @@ type Plant struct {
 	Organisms     []Organism
 	LegalMinimums []LegalRow
 	Economics     *Economics
+	// Uncertainty holds the tolerances of the uncertainty block, in file
+	// order (docs/METHOD.md §14.1).
+	Uncertainty []Tolerance
 }
 
 // Economics prices energy and plates for the what-if of added regeneration plates.
