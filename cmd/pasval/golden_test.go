@@ -203,6 +203,11 @@ func dumpBlock(b *strings.Builder, blk report.Block) {
 			}
 			b.WriteString("\n")
 		}
+	case report.BarChart:
+		fmt.Fprintf(b, "bar chart %q unit %q\n", v.Caption, v.Unit)
+		for _, bar := range v.Bars {
+			fmt.Fprintf(b, "  %s: %.6g\n", bar.Label, bar.Value)
+		}
 	case report.SignOff:
 		fmt.Fprintf(b, "sign-off %s\n", strings.Join(v.Roles, ", "))
 	default:
