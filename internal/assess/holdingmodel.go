@@ -32,7 +32,7 @@ type HoldingInputs struct {
 	MaxRate, Rate             float64
 	MaxRateByMass, RateByMass bool
 	FlowDensity               float64
-	Density     float64 // kg/m³ at the setpoint: product.density, or product.composition (Choi–Okos)
+	Density                   float64 // kg/m³ at the setpoint: product.density, or product.composition (Choi–Okos)
 	// SpecificHeat is J/(kg·K): product.specific_heat, or product.composition.
 	SpecificHeat float64
 
@@ -72,7 +72,7 @@ type HoldingInputs struct {
 func GatherHolding(p *plantfile.Plant, pp ProductProps) HoldingInputs {
 	h := p.HoldingTube
 	in := HoldingInputs{MaxMassFlow: pp.MaxMassFlow, MassFlow: pp.MassFlow, Density: holdDensity(p, pp), SpecificHeat: pp.SpecificHeat,
-		FlowDensity: pp.Density,
+		FlowDensity:   pp.Density,
 		InnerDiameter: h.Inner, OuterDiameter: h.Outer, Length: h.Length.SI, Rise: h.Rise.SI, RiseGiven: h.Rise.Set,
 		MinSlope: lethality.DefaultMinSlope, FastestToMean: h.FastestToMean, Setpoint: p.Process.HoldSetpoint.SI,
 		HeatLoss: h.OuterCoefficient.Set, Ambient: h.Ambient.SI, OuterCoefficient: h.OuterCoefficient.SI, PU: h.PU,
@@ -146,10 +146,10 @@ type HoldingEval struct {
 	// legal and legalNominal are the verdicts as the judged core finds them
 	// (Legal and LegalNominal point to copies once the report is made).
 	legal, legalNominal lethality.LegalVerdict
-	Organisms    []OrganismEval          // per organism, in plant-file order
-	PU           float64                 // pasteurization units of the judged case, when asked for
-	Checks       []Check                 // tube-slope, holding-time, log-reduction, in print order
-	Warnings     []Warning
+	Organisms           []OrganismEval // per organism, in plant-file order
+	PU                  float64        // pasteurization units of the judged case, when asked for
+	Checks              []Check        // tube-slope, holding-time, log-reduction, in print order
+	Warnings            []Warning
 }
 
 // OrganismEval is one organism's lethality: the judged value and the others

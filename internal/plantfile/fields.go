@@ -139,7 +139,10 @@ var (
 func closed(lo, hi float64) Bound { return Bound{Lo: lo, Hi: hi} }
 
 // varies lets a field carry a tolerance within bound; moves says what moves with it.
-func (f Field) varies(b Bound, moves string) Field { f.Vary = &Variation{Bound: b, Moves: moves}; return f }
+func (f Field) varies(b Bound, moves string) Field {
+	f.Vary = &Variation{Bound: b, Moves: moves}
+	return f
+}
 
 // Key is the last element of the path.
 func (f Field) Key() string { return f.Path[strings.LastIndex(f.Path, ".")+1:] }
