@@ -106,6 +106,17 @@ var badCases = map[string]badCase{
 	"plate-pack-missing-port":          {17, "regeneration.plate.port_diameter", "missing"},
 	"plate-pack-enlargement":           {19, "regeneration.plate.enlargement_factor", "between 1 and 2"},
 	"plate-pack-medium-no-viscosity":   {28, "heating.medium.viscosity", "needs the medium's viscosity"},
+	"uncertainty-unknown-path":         {28, "uncertainty.flow.max_rat", `did you mean "flow.max_rate"`},
+	"uncertainty-not-scalar":           {28, "uncertainty.product.viscosity", "not a single value"},
+	"uncertainty-not-varied":           {28, "uncertainty.process.sensor_accuracy", "cannot carry a tolerance"},
+	"uncertainty-wrong-dimension":      {28, "uncertainty.holding_tube.length.tolerance", `"0.2 kg" is not a length`},
+	"uncertainty-percent-temperature":  {28, "uncertainty.process.hold_setpoint.tolerance", "depends on its scale"},
+	"uncertainty-crosses-bound":        {28, "uncertainty.holding_tube.fastest_to_mean.tolerance", "outside the physical range"},
+	"uncertainty-not-given":            {28, "uncertainty.holding_tube.inner_diameter", "vary holding_tube.sanitary_tube"},
+	"uncertainty-no-sign":              {28, "uncertainty.flow.max_rate.tolerance", "expected ±X %"},
+	"uncertainty-bad-distribution":     {28, "uncertainty.flow.max_rate.distribution", `did you mean "normal"`},
+	"uncertainty-missing-index":        {28, "uncertainty.organisms[].D", "give the list entry's index"},
+	"uncertainty-index-out-of-range":   {28, "uncertainty.organisms[3].D", "not given in the plant file"},
 }
 
 const badDir = "../../testdata/bad"

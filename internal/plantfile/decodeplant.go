@@ -326,7 +326,7 @@ func orList(words []string) string {
 	case 2:
 		return words[0] + " or " + words[1]
 	}
-	return fmt.Sprint(words)
+	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
 }
 
 func joinKeys(keys []string) string {

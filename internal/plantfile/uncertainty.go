@@ -154,7 +154,7 @@ func (d *decoder) variedField(k *yaml.Node, path string) (Field, bool) {
 				break
 			}
 		}
-		d.errorf(k, where, "%s is %s, not a single value%s", path, valueText(f), example)
+		d.errorf(k, where, "%s is a %s, not a single value%s", path, strings.TrimPrefix(valueText(f), "a "), example)
 		return f, false
 	}
 	if strings.Contains(path, "[]") || strings.Count(path, "[") != strings.Count(f.Path, "[]") {
