@@ -74,6 +74,13 @@ func DefOf(id CheckID) CheckDef {
 	panic(fmt.Sprintf("%sno check definition for %q", panicPrefix, id))
 }
 
+// The holding tube's checks, found once.
+var (
+	defTubeSlope    = DefOf(TubeSlope)
+	defHoldingTime  = DefOf(HoldingTime)
+	defLogReduction = DefOf(LogReduction)
+)
+
 // defIndex finds a definition in the registry (NewCheck runs once per check
 // in each Monte Carlo sample of margins).
 var defIndex = func() map[CheckID]int {
@@ -100,7 +107,13 @@ const Tolerance = 1e-9
 //	margin = required − actual   (AtMost)
 //	pass   ⇔ margin ≥ −Tolerance·|required|
 func NewCheck(id CheckID, required, actual float64) Check {
-	def := DefOf(id)
+	return newCheck(DefOf(id), required, actual)
+}
+
+// newCheck is NewCheck with the definition found (the holding tube's judged
+// core finds its three once, for the many evaluations of margins).
+func newCheck(def CheckDef, required, actual float64) Check {
+	id := def.ID
 	c := Check{ID: id, Required: required, Actual: actual, Unit: def.Unit, MarginUnit: def.MarginUnit, Limit: def.Limit}
 	switch def.Limit {
 	case AtLeast:

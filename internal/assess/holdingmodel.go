@@ -146,6 +146,9 @@ type HoldingEval struct {
 	// legal and legalNominal are the verdicts as the judged core finds them
 	// (Legal and LegalNominal point to copies once the report is made).
 	legal, legalNominal lethality.LegalVerdict
+	// newtonian and powerLaw hold the value Rheology points to.
+	newtonian lethality.Newtonian
+	powerLaw  lethality.PowerLaw
 	Organisms           []OrganismEval // per organism, in plant-file order
 	PU                  float64        // pasteurization units of the judged case, when asked for
 	Checks              []Check        // tube-slope, holding-time, log-reduction, in print order
@@ -266,15 +269,19 @@ func (ev *HoldingEval) Judge(in *HoldingInputs, t *HoldingTables) error {
 		ev.Tube.Rise = in.Rise
 	}
 	ev.Flow = lethality.Flow{Volumetric: in.MaxMassFlow / in.Density, Density: in.Density}
+	// The rheology is kept in ev and pointed to, so that a loop over Judge
+	// does not allocate an interface value each time.
 	if in.FlowIndex > 0 {
-		ev.Rheology = lethality.PowerLaw{N: in.FlowIndex, K: in.Consistency}
+		ev.powerLaw = lethality.PowerLaw{N: in.FlowIndex, K: in.Consistency}
+		ev.Rheology = &ev.powerLaw
 	} else {
 		ev.Viscosity, ev.Extrapolated = t.Curve.At(in.Setpoint)
 		ev.ViscosityLow, ev.ViscosityHigh = t.Curve.Range()
-		ev.Rheology = lethality.Newtonian{Viscosity: ev.Viscosity}
+		ev.newtonian = lethality.Newtonian{Viscosity: ev.Viscosity}
+		ev.Rheology = &ev.newtonian
 	}
 	ev.Hyd = ev.Tube.Hydraulics(ev.Flow, ev.Rheology, in.FastestToMean)
-	ev.Worst = ev.Tube.WorstFlow(ev.Flow, ev.Rheology, in.FastestToMean)
+	ev.Worst = ev.Tube.WorstFlowFrom(ev.Flow, ev.Hyd, ev.Rheology, in.FastestToMean)
 	ev.JudgedC = in.Setpoint - in.SensorAccuracy
 	ev.AtRate = in.profile(in.Setpoint, in.MassFlow)
 	if loss := ev.AtRate.Inlet() - in.Setpoint; !(loss <= MaxTubeHeatLoss) {
@@ -282,7 +289,7 @@ func (ev *HoldingEval) Judge(in *HoldingInputs, t *HoldingTables) error {
 	}
 	ev.Checks = ev.Checks[:0]
 	if in.RiseGiven {
-		ev.Checks = append(ev.Checks, NewCheck(TubeSlope, in.MinSlope, ev.Tube.Slope()))
+		ev.Checks = append(ev.Checks, newCheck(defTubeSlope, in.MinSlope, ev.Tube.Slope()))
 	}
 	if len(in.Legal) > 0 {
 		ev.judgeLegal(in, &t.Legal)
@@ -303,11 +310,11 @@ func (ev *HoldingEval) judgeLethality(in *HoldingInputs) {
 		o.FlowM3s = o.at.flow
 		ev.Organisms = append(ev.Organisms, o)
 		if in.Judged[i] {
-			c := NewCheck(LogReduction, org.RequiredLogReduction, o.LogReduction)
+			ev.Checks = append(ev.Checks, newCheck(defLogReduction, org.RequiredLogReduction, o.LogReduction))
+			c := &ev.Checks[len(ev.Checks)-1]
 			c.Organism = org.Name
 			c.Detail = CheckDetail{DRefS: org.D, DTemperatureC: org.DTemperature, ZK: org.Z}
 			ev.judgedAt(in, &c.Detail, o.at.flow, o.at.atSeal)
-			ev.Checks = append(ev.Checks, c)
 		}
 	}
 }
@@ -418,11 +425,11 @@ func (ev *HoldingEval) judgeLegal(in *HoldingInputs, table *lethality.LegalTable
 				coolest = r
 			}
 		}
-		c = NewCheck(HoldingTime, coolest.Time, t)
+		c = newCheck(defHoldingTime, coolest.Time, t)
 		c.Pass = false // no row applies at this temperature: the table is not met, whatever the time
 		c.Detail = CheckDetail{RowTemperatureC: coolest.Temperature, BelowEveryRow: true}
 	} else {
-		c = NewCheck(HoldingTime, v.Row.Time, t)
+		c = newCheck(defHoldingTime, v.Row.Time, t)
 		c.Detail = CheckDetail{RowTemperatureC: v.Row.Temperature, MarginPercent: v.MarginPct}
 	}
 	ev.judgedAt(in, &c.Detail, ev.Worst.Volumetric, ev.Worst.AtSeal)

@@ -173,9 +173,12 @@ type evaluator struct {
 }
 
 func (m *marginModel) newEvaluator() *evaluator {
-	e := &evaluator{m: m, tables: *m.tables}
+	e := &evaluator{m: m, tables: *m.tables, in: m.nominal}
+	// The evaluator's own copies of what the slots write into; every
+	// evaluation sets every variable's slots again, so nothing else is reset.
 	e.orgs = append([]lethality.Organism(nil), m.nominal.Organisms...)
 	e.visc = append([]props.ViscosityPoint(nil), m.nominal.Viscosity...)
+	e.in.Organisms, e.in.Viscosity = e.orgs, e.visc
 	if m.varyViscosity {
 		e.tables.Curve = props.ViscosityCurve{}
 	}
@@ -194,15 +197,8 @@ type outcome struct {
 // eval runs the judged core at the values vals (one per variable, SI).
 func (e *evaluator) eval(vals []float64) (outcome, error) {
 	in := &e.in
-	*in = e.m.nominal
-	copy(e.orgs, e.m.nominal.Organisms)
-	in.Organisms = e.orgs
-	if e.m.varyViscosity {
-		copy(e.visc, e.m.nominal.Viscosity)
-		in.Viscosity = e.visc
-	}
-	for i, v := range e.m.vars {
-		v.set(in, vals[i])
+	for i := range e.m.vars {
+		e.m.vars[i].set(in, vals[i])
 	}
 	in.MassFlows()
 	if e.m.varyViscosity {

@@ -9,6 +9,7 @@ package assess
 import (
 	"encoding/json"
 	"math"
+	"runtime"
 	"testing"
 
 	"pasval/internal/plantfile"
@@ -156,4 +157,25 @@ func TestPercentilesNearestRank(t *testing.T) {
 	if p := percentiles(x); p.P01 != 2 || p.P05 != 10 || p.P50 != 100 {
 		t.Errorf("percentiles %+v, want 2, 10, 100", p)
 	}
+}
+
+// BenchmarkMarginsSample is one Monte Carlo sample of the SI demo (eleven
+// inputs drawn, the judged core, the counts), per core: the README's
+// samples per second per core is 1e9 / (ns/op).
+func BenchmarkMarginsSample(b *testing.B) {
+	p := load(&testing.T{}, string(mustReadB(b, "../../testdata/demo/htst-milk-si.yaml")))
+	res, err := Run(p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	m, err := newMarginModel(p, res)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.SetParallelism(1)
+	b.ResetTimer()
+	if _, _, err := m.monteCarlo(p, MarginOptions{Samples: b.N, Seed: DefaultSeed}); err != nil {
+		b.Fatal(err)
+	}
+	b.ReportMetric(float64(runtime.GOMAXPROCS(0)), "cores")
 }

@@ -415,11 +415,12 @@ func (m *marginModel) monteCarlo(p *plantfile.Plant, opts MarginOptions) (MonteC
 						lr[i][s] = v
 					}
 					all := true
-					for k, ch := range o.checks {
-						if ch.Pass {
+					for k := range o.checks { // by index: a Check is large to copy
+						if o.checks[k].Pass {
 							c[k]++
+						} else {
+							all = false
 						}
-						all = all && ch.Pass
 					}
 					if all {
 						c[nChecks]++
@@ -428,8 +429,8 @@ func (m *marginModel) monteCarlo(p *plantfile.Plant, opts MarginOptions) (MonteC
 						for i := range vals {
 							kept.Inputs[i][s] = vals[i]
 						}
-						for k, ch := range o.checks {
-							kept.Pass[k][s] = ch.Pass
+						for k := range o.checks {
+							kept.Pass[k][s] = o.checks[k].Pass
 						}
 					}
 				}

@@ -73,7 +73,8 @@ func (c ViscosityCurve) At(tempC float64) (mu float64, extrapolated bool) {
 	i := sort.Search(len(p), func(i int) bool { return p[i].TempC >= tempC })
 	a, b := p[i-1], p[i]
 	f := (tempC - a.TempC) / (b.TempC - a.TempC)
-	return math.Exp(math.Log(a.Viscosity) + f*(math.Log(b.Viscosity)-math.Log(a.Viscosity))), false
+	la := math.Log(a.Viscosity)
+	return math.Exp(la + f*(math.Log(b.Viscosity)-la)), false
 }
 
 // Range is the span of the measured points, °C.
