@@ -19,17 +19,24 @@ import (
 var update = flag.Bool("update", false, "rewrite the README's generated plant-file table")
 
 func TestReadmeReferenceTable(t *testing.T) {
+	readmeBlock(t, ReferenceBegin, ReferenceEnd, ReferenceTable())
+	readmeBlock(t, VariedBegin, VariedEnd, VariedTable())
+}
+
+// readmeBlock compares (or, with -update, rewrites) a generated README block.
+func readmeBlock(t *testing.T, begin, end, table string) {
+	t.Helper()
 	path := "../../README.md"
 	data, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
 	}
 	s := string(data)
-	i, j := strings.Index(s, ReferenceBegin), strings.Index(s, ReferenceEnd)
+	i, j := strings.Index(s, begin), strings.Index(s, end)
 	if i < 0 || j < i {
-		t.Fatalf("README lacks the markers %q … %q", ReferenceBegin, ReferenceEnd)
+		t.Fatalf("README lacks the markers %q … %q", begin, end)
 	}
-	want := s[:i+len(ReferenceBegin)] + "\n" + ReferenceTable() + s[j:]
+	want := s[:i+len(begin)] + "\n" + table + s[j:]
 	if want == s {
 		return
 	}
