@@ -232,7 +232,11 @@ func (e *HeatLossError) Error() string {
 // uncertainty run the core alone, thousands of times.
 func EvaluateHolding(in HoldingInputs) (HoldingEval, error) {
 	var ev HoldingEval
-	if err := ev.Judge(&in, NewHoldingTables(&in)); err != nil {
+	tables, err := NewHoldingTables(&in)
+	if err != nil { // validation refuses such points, by the same rule
+		return ev, err
+	}
+	if err := ev.Judge(&in, tables); err != nil {
 		return ev, err
 	}
 	ev.report(&in)
@@ -246,14 +250,16 @@ type HoldingTables struct {
 	Legal lethality.LegalTable
 }
 
-// NewHoldingTables prepares the tables of in (validated inputs: the
-// viscosity points exist, are distinct and positive).
-func NewHoldingTables(in *HoldingInputs) *HoldingTables {
+// NewHoldingTables prepares the tables of in; it refuses viscosity points
+// that are none, not positive or at one temperature.
+func NewHoldingTables(in *HoldingInputs) (*HoldingTables, error) {
 	t := &HoldingTables{Legal: lethality.NewLegalTable(in.Legal)}
 	if in.FlowIndex == 0 {
-		t.Curve.Set(in.Viscosity) //nolint:errcheck // validated
+		if err := t.Curve.Set(in.Viscosity); err != nil {
+			return nil, err
+		}
 	}
-	return t
+	return t, nil
 }
 
 // Judge is the judged core of the holding-tube model (docs/METHOD.md §7–§10):

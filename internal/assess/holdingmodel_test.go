@@ -75,7 +75,10 @@ func BenchmarkJudgeHolding(b *testing.B) {
 		b.Fatal(err)
 	}
 	in := GatherHolding(p, res.Product)
-	tables := NewHoldingTables(&in)
+	tables, err := NewHoldingTables(&in)
+	if err != nil {
+		b.Fatal(err)
+	}
 	var ev HoldingEval
 	b.ReportAllocs()
 	for b.Loop() {

@@ -125,7 +125,10 @@ func newMarginModel(p *plantfile.Plant, res *Result) (*marginModel, error) {
 			"margins judge the holding tube; the plant file describes none")}
 	}
 	m := &marginModel{nominal: res.HoldingTube.Model.Inputs}
-	m.tables = NewHoldingTables(&m.nominal)
+	var err error
+	if m.tables, err = NewHoldingTables(&m.nominal); err != nil {
+		return nil, err
+	}
 	m.checks = res.HoldingTube.Model.Eval.Checks
 	seen := map[string]bool{}
 	for i, o := range m.nominal.Organisms {

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"pasval/internal/units"
 )
 
 // ViscosityPoint is one measured Newtonian viscosity.
@@ -19,7 +21,8 @@ type ViscosityCurve struct {
 }
 
 // NewViscosityCurve sorts the points; it refuses none, non-positive values or
-// two points at the same temperature.
+// two points at the same temperature (units.SameTemperature, the rule the
+// plant-file validation applies too).
 func NewViscosityCurve(pts []ViscosityPoint) (ViscosityCurve, error) {
 	var c ViscosityCurve
 	err := c.Set(pts)
@@ -47,7 +50,7 @@ func (c *ViscosityCurve) Set(pts []ViscosityPoint) error {
 			c.points = p[:0]
 			return fmt.Errorf("viscosity must be positive")
 		}
-		if i > 0 && p[i].TempC-p[i-1].TempC < 1e-9 {
+		if i > 0 && units.SameTemperature(p[i].TempC, p[i-1].TempC) {
 			c.points = p[:0]
 			return fmt.Errorf("two viscosity points at %.2f °C", p[i].TempC)
 		}
@@ -65,10 +68,10 @@ func (c ViscosityCurve) At(tempC float64) (mu float64, extrapolated bool) {
 		panic("props: empty ViscosityCurve")
 	}
 	if tempC <= p[0].TempC {
-		return p[0].Viscosity, tempC < p[0].TempC-1e-9
+		return p[0].Viscosity, !units.SameTemperature(tempC, p[0].TempC)
 	}
 	if tempC >= p[len(p)-1].TempC {
-		return p[len(p)-1].Viscosity, tempC > p[len(p)-1].TempC+1e-9
+		return p[len(p)-1].Viscosity, !units.SameTemperature(tempC, p[len(p)-1].TempC)
 	}
 	i := sort.Search(len(p), func(i int) bool { return p[i].TempC >= tempC })
 	a, b := p[i-1], p[i]
