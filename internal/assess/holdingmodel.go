@@ -149,10 +149,10 @@ type HoldingEval struct {
 	// newtonian and powerLaw hold the value Rheology points to.
 	newtonian lethality.Newtonian
 	powerLaw  lethality.PowerLaw
-	Organisms           []OrganismEval // per organism, in plant-file order
-	PU                  float64        // pasteurization units of the judged case, when asked for
-	Checks              []Check        // tube-slope, holding-time, log-reduction, in print order
-	Warnings            []Warning
+	Organisms []OrganismEval // per organism, in plant-file order
+	PU        float64        // pasteurization units of the judged case, when asked for
+	Checks    []Check        // tube-slope, holding-time, log-reduction, in print order
+	Warnings  []Warning
 }
 
 // OrganismEval is one organism's lethality: the judged value and the others

@@ -269,7 +269,7 @@ func (f Field) byDefault(d string) Field { f.Default = d; return f }
 func (f Field) exactlyOne(keys ...string) Field { f.OneOf = keys; return f }
 
 func (f Field) withExample(e string) Field { f.Example = e; return f }
-func (f Field) fraction() Field { f.Fraction = true; return f }
+func (f Field) fraction() Field            { f.Fraction = true; return f }
 
 // platePack is the plate-pack keys every heat-exchange section has.
 func platePack(section string) []Field {
