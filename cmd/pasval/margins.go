@@ -63,7 +63,9 @@ inputs at their unfavourable ends.`,
 	cmd.Flags().IntVar(&opts.samples, "samples", assess.DefaultSamples, "Monte Carlo samples")
 	cmd.Flags().Uint64Var(&opts.seed, "seed", assess.DefaultSeed, "seed of the random streams (the same seed gives the same result)")
 	cmd.Flags().StringVar(&opts.dump, "dump-samples", "", "write every sample's inputs and outcome to this CSV file")
-	cmd.Flags().MarkHidden("dump-samples") //nolint:errcheck // the flag exists
+	if err := cmd.Flags().MarkHidden("dump-samples"); err != nil {
+		panic(err) // the flag is defined just above
+	}
 	return cmd
 }
 

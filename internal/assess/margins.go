@@ -2,6 +2,7 @@ package assess
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 
 	"pasval/internal/inputerr"
@@ -158,8 +159,11 @@ func listIndexOf(path string) int {
 	if i < 0 {
 		return 0
 	}
-	var n int
-	fmt.Sscanf(path[i+1:], "%d", &n) //nolint:errcheck // the reader checked the path
+	j := strings.IndexByte(path[i:], ']')
+	n, err := strconv.Atoi(path[i+1 : i+j])
+	if err != nil {
+		panic(panicPrefix + "a varied path with a bad index: " + path) // the reader checked it
+	}
 	return n
 }
 

@@ -259,7 +259,10 @@ func (m *marginModel) atEnds(p *plantfile.Plant, e *evaluator, kept []int) (outc
 
 // worstCase is docs/METHOD.md §14.2.
 func (m *marginModel) worstCase(p *plantfile.Plant, e *evaluator, ends [][2]endOutcome) (WorstCase, error) {
-	o0, _ := e.eval(m.nominalValues())
+	o0, err := e.eval(m.nominalValues())
+	if err != nil {
+		return WorstCase{}, m.sampleError(p, m.nominalValues(), err)
+	}
 	nominal := endOutcome{o0.minResidence, append([]float64(nil), o0.logRed...), append([]Check(nil), o0.checks...)}
 	wc := WorstCase{LogReductionByOrganism: map[string]float64{}, Checks: []WorstCheck{}}
 	for k, c := range nominal.checks {

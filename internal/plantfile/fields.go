@@ -223,12 +223,6 @@ func init() {
 	}
 }
 
-// tablePath turns a concrete path into the table path of the mapping it
-// names: "cooling[1]" → "cooling", "cooling[1].medium" → "cooling[].medium".
-func tablePath(concrete string) string {
-	return strings.TrimSuffix(listIndex.ReplaceAllString(concrete, "[]"), "[]")
-}
-
 // allowedKeys are the keys of the mapping at a table path, in table order.
 func allowedKeys(path string) []string {
 	var keys []string
