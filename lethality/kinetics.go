@@ -173,22 +173,45 @@ type LegalVerdict struct {
 //
 // References: docs/METHOD.md §10 (Legal minimum table) and §3.
 func JudgeLegal(rows []LegalRow, setpoint, minResidence, relTol float64) LegalVerdict {
-	idx := make([]int, 0, len(rows))
-	for i, r := range rows {
-		if r.Temperature <= setpoint+1e-9 {
-			idx = append(idx, i)
+	return NewLegalTable(rows).Judge(setpoint, minResidence, relTol)
+}
+
+// LegalTable is a legal table prepared for judging many times (margins under
+// uncertainty judge it once per sample): its rows and the order in which the
+// rule reads them, hottest first (rows of equal temperature in table order).
+type LegalTable struct {
+	rows  []LegalRow
+	order []int
+}
+
+// NewLegalTable prepares rows for Judge.
+func NewLegalTable(rows []LegalRow) LegalTable {
+	order := make([]int, len(rows))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(a, b int) bool { return rows[order[a]].Temperature > rows[order[b]].Temperature })
+	return LegalTable{rows: rows, order: order}
+}
+
+// Judge is JudgeLegal on the prepared table; it does not allocate.
+func (t LegalTable) Judge(setpoint, minResidence, relTol float64) LegalVerdict {
+	v := LegalVerdict{RowIndex: -1}
+	for _, i := range t.order {
+		r := t.rows[i]
+		if !(r.Temperature <= setpoint+1e-9) {
+			continue
 		}
-	}
-	if len(idx) == 0 {
-		return LegalVerdict{RowIndex: -1}
-	}
-	sort.SliceStable(idx, func(a, b int) bool { return rows[idx[a]].Temperature > rows[idx[b]].Temperature })
-	v := LegalVerdict{Applicable: rows[idx[0]], Row: rows[idx[0]], RowIndex: idx[0]}
-	for _, i := range idx {
-		if rows[i].Time-minResidence <= relTol*rows[i].Time {
-			v.Met, v.Row, v.RowIndex = true, rows[i], i
+		if v.RowIndex < 0 {
+			v.Applicable, v.Row, v.RowIndex = r, r, i
+		}
+		if r.Time-minResidence <= relTol*r.Time {
+			v.Met, v.Row, v.RowIndex = true, r, i
 			break
 		}
+	}
+	if v.RowIndex < 0 {
+		return v
 	}
 	v.Margin = minResidence - v.Row.Time
 	v.MarginPct = v.Margin / v.Row.Time * 100

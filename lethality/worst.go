@@ -48,7 +48,13 @@ type WorstFlow struct {
 //
 // References: docs/METHOD.md §7.7 (Worst flow below the seal).
 func (t Tube) WorstFlow(seal Flow, r Rheology, override float64) WorstFlow {
-	atSeal := WorstFlow{Volumetric: seal.Volumetric, Hydraulics: t.Hydraulics(seal, r, override), AtSeal: true}
+	return t.WorstFlowFrom(seal, t.Hydraulics(seal, r, override), r, override)
+}
+
+// WorstFlowFrom is WorstFlow for a caller that has the seal's hydraulics
+// already (h = t.Hydraulics(seal, r, override)), so they are not computed twice.
+func (t Tube) WorstFlowFrom(seal Flow, h Hydraulics, r Rheology, override float64) WorstFlow {
+	atSeal := WorstFlow{Volumetric: seal.Volumetric, Hydraulics: h, AtSeal: true}
 	if override > 0 {
 		return atSeal
 	}

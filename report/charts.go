@@ -327,3 +327,52 @@ func (r *renderer) plot(p Plot) {
 	}
 	f.SetY(top + height + 15)
 }
+
+// barChart draws horizontal bars, one per label, from a common zero, with a
+// value axis below and each value at the end of its bar.
+func (r *renderer) barChart(c BarChart) {
+	f := r.f
+	const barH, gap = 4.2, 1.6
+	height := float64(len(c.Bars))*(barH+gap) + gap
+	top := r.figure(height+14, c.Caption)
+	defer f.SetAutoPageBreak(true, margin+4)
+	r.font("", smallSize)
+	labelW := 0.0
+	for _, b := range c.Bars {
+		labelW = math.Max(labelW, f.GetStringWidth(printable(b.Label)))
+	}
+	labelW = math.Min(labelW+2, r.w*0.45)
+	left := margin + labelW
+	width := r.w - labelW - 16
+	hi := 0.0
+	for _, b := range c.Bars {
+		hi = math.Max(hi, b.Value)
+	}
+	_, x1, step := axisRange(0, hi)
+	X := func(v float64) float64 { return left + v/x1*width }
+	f.SetLineWidth(0.1)
+	r.setDraw(colGrid)
+	for i := 0; float64(i)*step <= x1+step/2; i++ {
+		v := float64(i) * step
+		f.Line(X(v), top, X(v), top+height)
+		f.SetXY(X(v)-8, top+height+0.8)
+		f.CellFormat(16, 3.6, tick(v, step), "", 0, "C", false, 0, "")
+	}
+	f.SetFillColor(colProduct[0], colProduct[1], colProduct[2])
+	for i, b := range c.Bars {
+		y := top + gap + float64(i)*(barH+gap)
+		f.SetXY(margin, y+0.3)
+		f.CellFormat(labelW-2, barH-0.6, printable(b.Label), "", 0, "R", false, 0, "")
+		if b.Value > 0 {
+			f.Rect(left, y, X(b.Value)-left, barH, "F")
+		}
+		f.SetXY(X(b.Value)+1, y+0.3)
+		f.CellFormat(14, barH-0.6, printable(fmt.Sprintf("%.3g", b.Value)), "", 0, "L", false, 0, "")
+	}
+	f.SetDrawColor(0, 0, 0)
+	f.SetLineWidth(0.3)
+	f.Line(left, top, left, top+height)
+	f.SetXY(left, top+height+5)
+	f.CellFormat(width, 3.6, printable(c.Unit), "", 0, "C", false, 0, "")
+	f.SetY(top + height + 10)
+}

@@ -27,6 +27,8 @@ func sampleBlock(k BlockKind) Block {
 		return Plot{XLabel: "x", YLabel: "y", Series: []Series{{Name: "s", X: []float64{0, 1}, Y: []float64{0, 1}}}}
 	case SignOffBlock:
 		return SignOff{Roles: []string{"Prepared by"}}
+	case BarChartBlock:
+		return BarChart{Caption: "c", Unit: "s", Bars: []Bar{{Label: "a", Value: 1}, {Label: "b", Value: 0}}}
 	}
 	return nil
 }

@@ -73,11 +73,13 @@ const (
 	DiagramBlock
 	PlotBlock
 	SignOffBlock
+	BarChartBlock
 )
 
 // BlockKinds lists every kind (the renderer has a case for each; a test
 // renders one of each).
-var BlockKinds = []BlockKind{ParagraphBlock, BulletsBlock, KeyValuesBlock, TableBlock, DiagramBlock, PlotBlock, SignOffBlock}
+var BlockKinds = []BlockKind{ParagraphBlock, BulletsBlock, KeyValuesBlock, TableBlock, DiagramBlock, PlotBlock, SignOffBlock,
+	BarChartBlock}
 
 // Paragraph is running text.
 type Paragraph struct {
@@ -138,6 +140,20 @@ type Series struct {
 	X, Y []float64
 }
 
+// BarChart is a horizontal bar chart: one bar per label, in the order given,
+// its length the value (not negative) in Unit.
+type BarChart struct {
+	Caption string
+	Unit    string
+	Bars    []Bar
+}
+
+// Bar is one bar of a BarChart.
+type Bar struct {
+	Label string
+	Value float64
+}
+
 // SignOff is the block of signature lines.
 type SignOff struct{ Roles []string }
 
@@ -148,3 +164,4 @@ func (Table) Kind() BlockKind     { return TableBlock }
 func (Diagram) Kind() BlockKind   { return DiagramBlock }
 func (Plot) Kind() BlockKind      { return PlotBlock }
 func (SignOff) Kind() BlockKind   { return SignOffBlock }
+func (BarChart) Kind() BlockKind  { return BarChartBlock }

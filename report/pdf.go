@@ -233,6 +233,8 @@ func (r *renderer) section(s Section) {
 			r.diagram(v)
 		case Plot:
 			r.plot(v)
+		case BarChart:
+			r.barChart(v)
 		case SignOff:
 			r.signOff(v)
 		default:

@@ -67,6 +67,13 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 	if opts.compare {
 		assess.CompareArrangements(res)
 	}
+	if len(p.Uncertainty) > 0 {
+		// The default samples and seed, as the record uses: check stays quick
+		// and its line matches the record's margins page.
+		if res.Margins, err = assess.RunMargins(p, res, assess.MarginOptions{Samples: assess.DefaultSamples, Seed: assess.DefaultSeed}); err != nil {
+			return err
+		}
+	}
 	if opts.record != "" {
 		// Written first, so that a refusal (file exists) comes before any output.
 		if err := writeRecord(res, opts.record, date, opts.force, diag, nil); err != nil {
@@ -154,6 +161,9 @@ func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool
 	t.colour = colour
 	t.write(w)
 	fmt.Fprintf(w, "\nResult: %s\n", present.Overall(res))
+	if res.Margins != nil {
+		fmt.Fprintf(w, "Margins: %s\n", present.MarginsLine(res.Margins, d)) // one line; pasval margins has the tables
+	}
 }
 
 func writeComparison(w io.Writer, res *assess.Result, d present.Display) {

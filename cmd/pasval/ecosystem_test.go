@@ -21,13 +21,15 @@ func TestBadInputAcrossCommands(t *testing.T) {
 			{"report", path, "-o", rec},
 			{"plates", path, "--add", "10"},
 			{"check", "--compare-arrangements", path},
+			{"margins", "--samples", "100", path},
 		} {
 			var out, errb bytes.Buffer
 			code := run(args, &out, &errb)
 			first := strings.SplitN(errb.String(), "\n", 2)[0]
 			// A fault found only by computing (heating-starved) lets hold and plates
 			// refuse first for their own reason (no tube, a sized regenerator).
-			own := strings.Contains(first, "describes no holding tube") || strings.Contains(first, "needs the regenerator in rating mode")
+			own := strings.Contains(first, "describes no holding tube") || strings.Contains(first, "needs the regenerator in rating mode") ||
+				strings.Contains(first, "has no uncertainty block")
 			in := name
 			if other, ok := badCaseIn[name]; ok {
 				in = other // the error lies in the line file

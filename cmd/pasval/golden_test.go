@@ -94,6 +94,19 @@ func goldenCases() []goldenCase {
 			goldenCase{base + ".plates-passes", []string{"plates", plant, "--add", "10,20,40", "--layout", "passes"}},
 			goldenCase{base + ".plates-layout-json", []string{"plates", plant, "--add", "16", "--layout", "channels", "--json"}})
 	}
+	// Margins under uncertainty: the SI demo and its US twin (the same draws).
+	for _, plant := range []string{"testdata/demo/htst-milk-si.yaml", "testdata/equivalence/htst-milk-us.yaml"} {
+		base := strings.TrimSuffix(filepath.Base(plant), ".yaml")
+		if strings.HasPrefix(plant, "testdata/equivalence/") {
+			base = "equivalence-" + base
+		}
+		cases = append(cases,
+			goldenCase{base + ".margins", []string{"margins", plant}},
+			goldenCase{base + ".margins-json", []string{"margins", plant, "--json", "--samples", "20000", "--seed", "7"}})
+	}
+	for _, bad := range []string{"uncertainty-unknown-path", "uncertainty-crosses-bound", "uncertainty-not-varied"} {
+		cases = append(cases, goldenCase{"bad-" + bad, []string{"margins", "testdata/bad/" + bad + ".yaml"}})
+	}
 	cases = append(cases, goldenCase{"bad-layout-without-pack", []string{"plates", "testdata/demo/cider-us.yaml", "--add", "10", "--layout", "channels"}})
 	// The line demo: product files on a line file, the matrix, the demos' list.
 	const line = "testdata/demo/dairy-line-si/"
@@ -284,6 +297,11 @@ func dumpBlock(b *strings.Builder, blk report.Block) {
 				fmt.Fprintf(b, " (%.6g, %.6g)", s.X[i], s.Y[i])
 			}
 			b.WriteString("\n")
+		}
+	case report.BarChart:
+		fmt.Fprintf(b, "bar chart %q unit %q\n", v.Caption, v.Unit)
+		for _, bar := range v.Bars {
+			fmt.Fprintf(b, "  %s: %.6g\n", bar.Label, bar.Value)
 		}
 	case report.SignOff:
 		fmt.Fprintf(b, "sign-off %s\n", strings.Join(v.Roles, ", "))

@@ -64,13 +64,13 @@ authority and the local regulator.`,
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
-	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout),
-		newMatrixCmd(stdout))
+	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout),
+		newMarginsCmd(stdout), newMatrixCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
 	root.SetHelpCommand(newHelpCmd())
 	refuseUnknownShells(root)
 	for _, c := range root.Commands() {
 		switch c.Name() {
-		case "check", "hold", "report", "plates":
+		case "check", "hold", "report", "plates", "margins":
 			c.ValidArgsFunction = completePlantFile
 		case "matrix":
 			c.ValidArgsFunction = completePlantFiles

@@ -149,7 +149,11 @@ type Result struct {
 	Checks                []Check                 `json:"checks"`
 	Warnings              []Warning               `json:"warnings"`
 	Pass                  bool                    `json:"pass"`
-	Caution               string                  `json:"caution"`
+	// Margins are the holding tube's margins under the plant file's
+	// uncertainty block (RunMargins with the default samples and seed),
+	// filled by the commands that show them; absent without the block.
+	Margins *Margins `json:"margins,omitempty"`
+	Caution string   `json:"caution"`
 
 	Plant *plantfile.Plant `json:"-"`
 }

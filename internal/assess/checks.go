@@ -68,13 +68,28 @@ func CheckDefs() []CheckDef { return append([]CheckDef(nil), checkDefs...) }
 
 // DefOf is the definition of a check; an unknown id is a programming error.
 func DefOf(id CheckID) CheckDef {
-	for _, d := range checkDefs {
-		if d.ID == id {
-			return d
-		}
+	if i, ok := defIndex[id]; ok {
+		return checkDefs[i]
 	}
 	panic(fmt.Sprintf("%sno check definition for %q", panicPrefix, id))
 }
+
+// The holding tube's checks, found once.
+var (
+	defTubeSlope    = DefOf(TubeSlope)
+	defHoldingTime  = DefOf(HoldingTime)
+	defLogReduction = DefOf(LogReduction)
+)
+
+// defIndex finds a definition in the registry (NewCheck runs once per check
+// in each Monte Carlo sample of margins).
+var defIndex = func() map[CheckID]int {
+	m := map[CheckID]int{}
+	for i, d := range checkDefs {
+		m[d.ID] = i
+	}
+	return m
+}()
 
 const panicPrefix = "assess: "
 
@@ -92,7 +107,13 @@ const Tolerance = 1e-9
 //	margin = required − actual   (AtMost)
 //	pass   ⇔ margin ≥ −Tolerance·|required|
 func NewCheck(id CheckID, required, actual float64) Check {
-	def := DefOf(id)
+	return newCheck(DefOf(id), required, actual)
+}
+
+// newCheck is NewCheck with the definition found (the holding tube's judged
+// core finds its three once, for the many evaluations of margins).
+func newCheck(def CheckDef, required, actual float64) Check {
+	id := def.ID
 	c := Check{ID: id, Required: required, Actual: actual, Unit: def.Unit, MarginUnit: def.MarginUnit, Limit: def.Limit}
 	switch def.Limit {
 	case AtLeast:

@@ -23,7 +23,16 @@ import (
 type HoldingInputs struct {
 	MaxMassFlow float64 // kg/s at the sealed maximum: flow.max_rate (volumetric × product.density)
 	MassFlow    float64 // kg/s at the normal rate: flow.rate
-	Density     float64 // kg/m³ at the setpoint: product.density, or product.composition (Choi–Okos)
+	// The rates as entered, from which the mass flows follow (MassFlows): a
+	// volumetric rate (m³/s) times FlowDensity, a rate by mass (kg/s) as it
+	// is. Each is the other when only one is entered (flow.rate defaults to
+	// flow.max_rate and back). FlowDensity is product.density, or Choi–Okos
+	// at the raw inlet (docs/METHOD.md §2.3). A margin that varies a rate or
+	// the density moves the mass flows through these (docs/METHOD.md §14.1).
+	MaxRate, Rate             float64
+	MaxRateByMass, RateByMass bool
+	FlowDensity               float64
+	Density                   float64 // kg/m³ at the setpoint: product.density, or product.composition (Choi–Okos)
 	// SpecificHeat is J/(kg·K): product.specific_heat, or product.composition.
 	SpecificHeat float64
 
@@ -63,6 +72,7 @@ type HoldingInputs struct {
 func GatherHolding(p *plantfile.Plant, pp ProductProps) HoldingInputs {
 	h := p.HoldingTube
 	in := HoldingInputs{MaxMassFlow: pp.MaxMassFlow, MassFlow: pp.MassFlow, Density: holdDensity(p, pp), SpecificHeat: pp.SpecificHeat,
+		FlowDensity:   pp.Density,
 		InnerDiameter: h.Inner, OuterDiameter: h.Outer, Length: h.Length.SI, Rise: h.Rise.SI, RiseGiven: h.Rise.Set,
 		MinSlope: lethality.DefaultMinSlope, FastestToMean: h.FastestToMean, Setpoint: p.Process.HoldSetpoint.SI,
 		HeatLoss: h.OuterCoefficient.Set, Ambient: h.Ambient.SI, OuterCoefficient: h.OuterCoefficient.SI, PU: h.PU,
@@ -70,6 +80,14 @@ func GatherHolding(p *plantfile.Plant, pp ProductProps) HoldingInputs {
 	if h.MinSlopeSet {
 		in.MinSlope = h.MinSlope
 	}
+	rate, maxRate := p.Flow.Rate, p.Flow.MaxRate
+	if !rate.Set {
+		rate = maxRate
+	}
+	if !maxRate.Set {
+		maxRate = rate
+	}
+	in.MaxRate, in.MaxRateByMass, in.Rate, in.RateByMass = maxRate.SI, maxRate.ByMass, rate.SI, rate.ByMass
 	if a := p.Process.SensorAccuracy; a.Set {
 		in.SensorAccuracy = a.SI
 	}
@@ -88,6 +106,18 @@ func GatherHolding(p *plantfile.Plant, pp ProductProps) HoldingInputs {
 		in.Legal = append(in.Legal, lethality.LegalRow{Temperature: r.Temperature.SI, Time: r.Time.SI})
 	}
 	return in
+}
+
+// MassFlows sets MaxMassFlow and MassFlow from the rates as entered
+// (productProps converts them the same way for the line).
+func (in *HoldingInputs) MassFlows() {
+	in.MaxMassFlow, in.MassFlow = in.MaxRate, in.Rate
+	if !in.MaxRateByMass {
+		in.MaxMassFlow = in.MaxRate * in.FlowDensity
+	}
+	if !in.RateByMass {
+		in.MassFlow = in.Rate * in.FlowDensity
+	}
 }
 
 // HoldingEval is what the holding-tube model gives for one set of inputs.
@@ -113,10 +143,16 @@ type HoldingEval struct {
 
 	Legal        *lethality.LegalVerdict // at the judged temperature and the worst flow; nil without legal rows
 	LegalNominal *lethality.LegalVerdict // the same at the setpoint
-	Organisms    []OrganismEval          // per organism, in plant-file order
-	PU           float64                 // pasteurization units of the judged case, when asked for
-	Checks       []Check                 // tube-slope, holding-time, log-reduction, in print order
-	Warnings     []Warning
+	// legal and legalNominal are the verdicts as the judged core finds them
+	// (Legal and LegalNominal point to copies once the report is made).
+	legal, legalNominal lethality.LegalVerdict
+	// newtonian and powerLaw hold the value Rheology points to.
+	newtonian lethality.Newtonian
+	powerLaw  lethality.PowerLaw
+	Organisms []OrganismEval // per organism, in plant-file order
+	PU        float64        // pasteurization units of the judged case, when asked for
+	Checks    []Check        // tube-slope, holding-time, log-reduction, in print order
+	Warnings  []Warning
 }
 
 // OrganismEval is one organism's lethality: the judged value and the others
@@ -132,6 +168,7 @@ type OrganismEval struct {
 	FlowM3s   float64 // the flow at which the judged value is found
 	EquivTime float64 // s at the organism's D_temperature, judged case
 	Along     []lethality.ProfilePoint
+	at        passage // where the judged value is found
 }
 
 // passage is the fastest particle's way through the tube at one candidate flow.
@@ -141,18 +178,20 @@ type passage struct {
 }
 
 // passages are the candidate flows of docs/METHOD.md §7.7: the seal, then the
-// worst flow when it lies below the seal.
-func (ev *HoldingEval) passages(in HoldingInputs) []passage {
-	ps := []passage{{flow: ev.Flow.Volumetric, massFlow: in.MaxMassFlow, uMax: ev.Hyd.FastestToMean * ev.Hyd.MeanVelocity, atSeal: true}}
+// worst flow when it lies below the seal (n of them; an array, so that the
+// judged core does not allocate).
+func (ev *HoldingEval) passages(in *HoldingInputs) (ps [2]passage, n int) {
+	ps[0] = passage{flow: ev.Flow.Volumetric, massFlow: in.MaxMassFlow, uMax: ev.Hyd.FastestToMean * ev.Hyd.MeanVelocity, atSeal: true}
 	if w := ev.Worst; !w.AtSeal {
-		ps = append(ps, passage{flow: w.Volumetric, massFlow: w.Volumetric * in.Density, uMax: w.FastestToMean * w.MeanVelocity})
+		ps[1] = passage{flow: w.Volumetric, massFlow: w.Volumetric * in.Density, uMax: w.FastestToMean * w.MeanVelocity}
+		return ps, 2
 	}
-	return ps
+	return ps, 1
 }
 
 // lowest is the lowest log reduction over the passages with the outlet at
 // outlet °C: isothermal, or with the heat-loss profile when credit.
-func (in HoldingInputs) lowest(outlet float64, ps []passage, credit bool, org lethality.Organism) (float64, passage, lethality.Profile) {
+func (in *HoldingInputs) lowest(outlet float64, ps []passage, credit bool, org lethality.Organism) (float64, passage, lethality.Profile) {
 	best, bp, bprof := math.Inf(1), ps[0], lethality.Profile{}
 	for _, p := range ps {
 		prof := lethality.Isothermal(outlet, in.Length)
@@ -186,61 +225,132 @@ func (e *HeatLossError) Error() string {
 // table and each organism's log reduction at the judged temperature, and the
 // holding-tube checks. It reads nothing but in, formats nothing, and returns
 // a *HeatLossError for an impossible heat loss.
+//
+// It is the judged core (Judge: every value a verdict rests on) followed by
+// the report's extras (the values shown beside the judged ones, warnings,
+// equivalent times, the accumulated log reduction, PU). Margins under
+// uncertainty run the core alone, thousands of times.
 func EvaluateHolding(in HoldingInputs) (HoldingEval, error) {
-	ev := HoldingEval{Tube: lethality.Tube{InnerDiameter: in.InnerDiameter, OuterDiameter: in.OuterDiameter, Length: in.Length}}
+	var ev HoldingEval
+	tables, err := NewHoldingTables(&in)
+	if err != nil { // validation refuses such points, by the same rule
+		return ev, err
+	}
+	if err := ev.Judge(&in, tables); err != nil {
+		return ev, err
+	}
+	ev.report(&in)
+	return ev, nil
+}
+
+// HoldingTables are what the judged core prepares once and reads many times:
+// the viscosity curve and the legal table in the order the rule reads it.
+type HoldingTables struct {
+	Curve props.ViscosityCurve // of in.Viscosity; empty for a power-law product
+	Legal lethality.LegalTable
+}
+
+// NewHoldingTables prepares the tables of in; it refuses viscosity points
+// that are none, not positive or at one temperature.
+func NewHoldingTables(in *HoldingInputs) (*HoldingTables, error) {
+	t := &HoldingTables{Legal: lethality.NewLegalTable(in.Legal)}
+	if in.FlowIndex == 0 {
+		if err := t.Curve.Set(in.Viscosity); err != nil {
+			return nil, err
+		}
+	}
+	return t, nil
+}
+
+// Judge is the judged core of the holding-tube model (docs/METHOD.md §7–§10):
+// the tube, the hydraulics at the seal and at the worst flow, the judged
+// temperature, the heat-loss refusal, the holding-time verdict and each
+// organism's judged log reduction, and the checks (tube-slope, holding-time,
+// log-reduction) with what their notes need. It reuses ev's slices and does
+// not allocate once they have grown; t must be the tables of in (a caller
+// that varies the viscosity points sets t.Curve again).
+func (ev *HoldingEval) Judge(in *HoldingInputs, t *HoldingTables) error {
+	ev.Tube = lethality.Tube{InnerDiameter: in.InnerDiameter, OuterDiameter: in.OuterDiameter, Length: in.Length}
 	if in.RiseGiven {
 		ev.Tube.Rise = in.Rise
 	}
 	ev.Flow = lethality.Flow{Volumetric: in.MaxMassFlow / in.Density, Density: in.Density}
+	// The rheology is kept in ev and pointed to, so that a loop over Judge
+	// does not allocate an interface value each time.
 	if in.FlowIndex > 0 {
-		ev.Rheology = lethality.PowerLaw{N: in.FlowIndex, K: in.Consistency}
+		ev.powerLaw = lethality.PowerLaw{N: in.FlowIndex, K: in.Consistency}
+		ev.Rheology = &ev.powerLaw
 	} else {
-		curve, err := props.NewViscosityCurve(in.Viscosity)
-		if err != nil { // validation refuses such points, by the same rule
-			return ev, err
-		}
-		ev.Viscosity, ev.Extrapolated = curve.At(in.Setpoint)
-		ev.ViscosityLow, ev.ViscosityHigh = curve.Range()
-		ev.Rheology = lethality.Newtonian{Viscosity: ev.Viscosity}
-		if ev.Extrapolated {
-			ev.Warnings = append(ev.Warnings, Warning{Code: WarnViscosityExtrapolated, Field: "product.viscosity",
-				Values: map[string]float64{"setpoint_C": in.Setpoint, "lowest_C": ev.ViscosityLow, "highest_C": ev.ViscosityHigh}})
-		}
+		ev.Viscosity, ev.Extrapolated = t.Curve.At(in.Setpoint)
+		ev.ViscosityLow, ev.ViscosityHigh = t.Curve.Range()
+		ev.newtonian = lethality.Newtonian{Viscosity: ev.Viscosity}
+		ev.Rheology = &ev.newtonian
 	}
 	ev.Hyd = ev.Tube.Hydraulics(ev.Flow, ev.Rheology, in.FastestToMean)
-	ev.Worst = ev.Tube.WorstFlow(ev.Flow, ev.Rheology, in.FastestToMean)
+	ev.Worst = ev.Tube.WorstFlowFrom(ev.Flow, ev.Hyd, ev.Rheology, in.FastestToMean)
 	ev.JudgedC = in.Setpoint - in.SensorAccuracy
-	ev.Seal = in.profile(in.Setpoint, in.MaxMassFlow)
 	ev.AtRate = in.profile(in.Setpoint, in.MassFlow)
 	if loss := ev.AtRate.Inlet() - in.Setpoint; !(loss <= MaxTubeHeatLoss) {
-		return ev, &HeatLossError{Loss: loss}
+		return &HeatLossError{Loss: loss}
+	}
+	ev.Checks = ev.Checks[:0]
+	if in.RiseGiven {
+		ev.Checks = append(ev.Checks, newCheck(defTubeSlope, in.MinSlope, ev.Tube.Slope()))
+	}
+	if len(in.Legal) > 0 {
+		ev.judgeLegal(in, &t.Legal)
+	}
+	ev.judgeLethality(in)
+	return nil
+}
+
+// judgeLethality finds each organism's judged log reduction and its check.
+func (ev *HoldingEval) judgeLethality(in *HoldingInputs) {
+	arr, n := ev.passages(in)
+	ps := arr[:n]
+	credit := in.CreditHeatLoss && in.HeatLoss
+	ev.Organisms = ev.Organisms[:0]
+	for i, org := range in.Organisms {
+		o := OrganismEval{}
+		o.LogReduction, o.at, _ = in.lowest(ev.JudgedC, ps, credit, org)
+		o.FlowM3s = o.at.flow
+		ev.Organisms = append(ev.Organisms, o)
+		if in.Judged[i] {
+			ev.Checks = append(ev.Checks, newCheck(defLogReduction, org.RequiredLogReduction, o.LogReduction))
+			c := &ev.Checks[len(ev.Checks)-1]
+			c.Organism = org.Name
+			c.Detail = CheckDetail{DRefS: org.D, DTemperatureC: org.DTemperature, ZK: org.Z}
+			ev.judgedAt(in, &c.Detail, o.at.flow, o.at.atSeal)
+		}
+	}
+}
+
+// report adds what is shown beside the judged values: the legal verdicts as
+// pointers, the log reductions at the setpoint, at the seal, isothermal and
+// with the heat-loss credit, equivalent times, the accumulated log
+// reduction, PU, the profile at the seal, and the warnings.
+func (ev *HoldingEval) report(in *HoldingInputs) {
+	if len(in.Legal) > 0 {
+		v, nominal := ev.legal, ev.legalNominal
+		ev.Legal, ev.LegalNominal = &v, &nominal
+	}
+	ev.Seal = in.profile(in.Setpoint, in.MaxMassFlow)
+	if in.FlowIndex == 0 && ev.Extrapolated {
+		ev.Warnings = append(ev.Warnings, Warning{Code: WarnViscosityExtrapolated, Field: "product.viscosity",
+			Values: map[string]float64{"setpoint_C": in.Setpoint, "lowest_C": ev.ViscosityLow, "highest_C": ev.ViscosityHigh}})
 	}
 	if ev.Hyd.Regime != lethality.Turbulent {
 		ev.Warnings = append(ev.Warnings, Warning{Code: WarnLaminarFlow,
 			Values: map[string]float64{"reynolds": ev.Hyd.Reynolds, "fastest_to_mean": ev.Hyd.FastestToMean}})
 	}
-	if in.RiseGiven {
-		ev.Checks = append(ev.Checks, NewCheck(TubeSlope, in.MinSlope, ev.Tube.Slope()))
-	} else {
+	if !in.RiseGiven {
 		ev.Warnings = append(ev.Warnings, Warning{Code: WarnNoRise, Field: "holding_tube.rise"})
 	}
-	if len(in.Legal) > 0 {
-		ev.judgeLegal(in)
-	}
-	ev.lethality(in)
-	return ev, nil
-}
-
-// lethality fills each organism's log reductions, its check and the kinetics
-// warning, and the pasteurization units.
-func (ev *HoldingEval) lethality(in HoldingInputs) {
-	ps := ev.passages(in)
+	arr, n := ev.passages(in)
+	ps := arr[:n]
 	credit := in.CreditHeatLoss && in.HeatLoss
 	for i, org := range in.Organisms {
-		var o OrganismEval
-		var p passage
-		var prof lethality.Profile
-		o.LogReduction, p, prof = in.lowest(ev.JudgedC, ps, credit, org)
+		o := &ev.Organisms[i]
 		o.AtSetpoint, _, _ = in.lowest(in.Setpoint, ps, credit, org)
 		o.AtSeal, _, _ = in.lowest(ev.JudgedC, ps[:1], credit, org)
 		o.Isothermal, _, _ = in.lowest(ev.JudgedC, ps, false, org)
@@ -248,22 +358,30 @@ func (ev *HoldingEval) lethality(in HoldingInputs) {
 		if in.HeatLoss {
 			o.Credit, _, _ = in.lowest(ev.JudgedC, ps, true, org)
 		}
-		o.FlowM3s = p.flow
-		o.EquivTime = lethality.EquivalentTime(prof, p.uMax, org.DTemperature, org.Z)
-		o.Along = lethality.Accumulated(prof, p.uMax, org, AlongStations)
-		ev.Organisms = append(ev.Organisms, o)
+		prof := lethality.Isothermal(ev.JudgedC, in.Length)
+		if credit {
+			prof = in.profile(ev.JudgedC, o.at.massFlow)
+		}
+		o.EquivTime = lethality.EquivalentTime(prof, o.at.uMax, org.DTemperature, org.Z)
+		o.Along = lethality.Accumulated(prof, o.at.uMax, org, AlongStations)
 		if dist := math.Abs(ev.JudgedC - org.DTemperature); dist > KineticsRange {
 			ev.Warnings = append(ev.Warnings, Warning{Code: WarnKineticsExtrapolated, Field: fmt.Sprintf("organisms[%d].D_temperature", i),
 				Values: map[string]float64{"organism_index": float64(i), "distance_K": dist, "used_at_C": ev.JudgedC,
 					"D_temperature_C": org.DTemperature, "log_reduction": o.LogReduction}})
 		}
-		if in.Judged[i] {
-			c := NewCheck(LogReduction, org.RequiredLogReduction, o.LogReduction)
-			c.Organism = org.Name
-			c.Detail = CheckDetail{DRefS: org.D, DTemperatureC: org.DTemperature, ZK: org.Z}
-			ev.judgedAt(in, &c.Detail, p.flow, p.atSeal)
-			c.Detail.NominalValue = o.AtSetpoint
-			ev.Checks = append(ev.Checks, c)
+	}
+	// The log-reduction checks' notes give the value at the nominal setpoint.
+	k := 0
+	for i := range in.Organisms {
+		if !in.Judged[i] {
+			continue
+		}
+		for ; k < len(ev.Checks); k++ {
+			if ev.Checks[k].ID == LogReduction {
+				ev.Checks[k].Detail.NominalValue = ev.Organisms[i].AtSetpoint
+				k++
+				break
+			}
 		}
 	}
 	if in.PU {
@@ -279,7 +397,7 @@ func (ev *HoldingEval) lethality(in HoldingInputs) {
 }
 
 // judgedAt fills the part of a check's detail that says where it was judged.
-func (ev *HoldingEval) judgedAt(in HoldingInputs, x *CheckDetail, flow float64, atSeal bool) {
+func (ev *HoldingEval) judgedAt(in *HoldingInputs, x *CheckDetail, flow float64, atSeal bool) {
 	x.SetpointC, x.JudgedC, x.AccuracyK = in.Setpoint, ev.JudgedC, in.SensorAccuracy
 	x.FlowM3s, x.AtSeal = flow, atSeal
 	x.Regime = ev.Hyd.Regime.String()
@@ -291,7 +409,7 @@ func (ev *HoldingEval) judgedAt(in HoldingInputs, x *CheckDetail, flow float64, 
 
 // profile is the tube's temperature profile with the outlet at setpoint for a
 // mass flow (isothermal without heat loss).
-func (in HoldingInputs) profile(setpoint, massFlow float64) lethality.Profile {
+func (in *HoldingInputs) profile(setpoint, massFlow float64) lethality.Profile {
 	if !in.HeatLoss {
 		return lethality.Isothermal(setpoint, in.Length)
 	}
@@ -300,11 +418,11 @@ func (in HoldingInputs) profile(setpoint, massFlow float64) lethality.Profile {
 
 // judgeLegal adds the holding-time check: the fastest particle at the worst
 // flow against the table at the judged temperature (docs/METHOD.md §10.1).
-func (ev *HoldingEval) judgeLegal(in HoldingInputs) {
+func (ev *HoldingEval) judgeLegal(in *HoldingInputs, table *lethality.LegalTable) {
 	t := ev.Worst.MinResidence
-	v := lethality.JudgeLegal(in.Legal, ev.JudgedC, t, Tolerance)
-	nominal := lethality.JudgeLegal(in.Legal, in.Setpoint, t, Tolerance)
-	ev.Legal, ev.LegalNominal = &v, &nominal
+	v := table.Judge(ev.JudgedC, t, Tolerance)
+	nominal := table.Judge(in.Setpoint, t, Tolerance)
+	ev.legal, ev.legalNominal = v, nominal
 	var c Check
 	if v.RowIndex < 0 {
 		coolest := in.Legal[0]
@@ -313,11 +431,11 @@ func (ev *HoldingEval) judgeLegal(in HoldingInputs) {
 				coolest = r
 			}
 		}
-		c = NewCheck(HoldingTime, coolest.Time, t)
+		c = newCheck(defHoldingTime, coolest.Time, t)
 		c.Pass = false // no row applies at this temperature: the table is not met, whatever the time
 		c.Detail = CheckDetail{RowTemperatureC: coolest.Temperature, BelowEveryRow: true}
 	} else {
-		c = NewCheck(HoldingTime, v.Row.Time, t)
+		c = newCheck(defHoldingTime, v.Row.Time, t)
 		c.Detail = CheckDetail{RowTemperatureC: v.Row.Temperature, MarginPercent: v.MarginPct}
 	}
 	ev.judgedAt(in, &c.Detail, ev.Worst.Volumetric, ev.Worst.AtSeal)

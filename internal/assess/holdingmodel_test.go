@@ -65,3 +65,25 @@ func BenchmarkEvaluateHolding(b *testing.B) {
 		}
 	}
 }
+
+func BenchmarkJudgeHolding(b *testing.B) {
+	// The judged core alone, with its tables prepared once and its slices
+	// reused: what each Monte Carlo sample of margins costs (the SI demo).
+	p := load(&testing.T{}, string(mustReadB(b, "../../testdata/demo/htst-milk-si.yaml")))
+	res, err := Run(p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	in := GatherHolding(p, res.Product)
+	tables, err := NewHoldingTables(&in)
+	if err != nil {
+		b.Fatal(err)
+	}
+	var ev HoldingEval
+	b.ReportAllocs()
+	for b.Loop() {
+		if err := ev.Judge(&in, tables); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

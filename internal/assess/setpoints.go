@@ -53,7 +53,8 @@ func setpointTable(res *Result, offsets []float64) []SetpointRow {
 		return nil
 	}
 	in, ev := h.Model.Inputs, h.Model.Eval
-	ps := ev.passages(in)
+	arr, n := ev.passages(&in)
+	ps := arr[:n]
 	credit := in.CreditHeatLoss && in.HeatLoss
 	var out []SetpointRow
 	for _, off := range offsets {

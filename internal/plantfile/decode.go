@@ -81,7 +81,13 @@ func join(path, key string) string {
 // table's children of path) and unique. It returns nil (after recording an
 // error) when n is not a mapping.
 func (d *decoder) object(n *yaml.Node, path string) *object {
-	allowed := allowedKeys(tablePath(path))
+	return d.objectIn(n, path, tableOf(path))
+}
+
+// objectIn is object for a mapping whose table path is given (an entry of
+// the uncertainty block, whose key is a field path).
+func (d *decoder) objectIn(n *yaml.Node, path, table string) *object {
+	allowed := allowedKeys(strings.TrimSuffix(table, "[]"))
 	if len(allowed) == 0 {
 		panic(panicPrefix + "no fields in the table under " + path)
 	}
@@ -89,7 +95,7 @@ func (d *decoder) object(n *yaml.Node, path string) *object {
 		d.errorf(n, path, "expected a mapping of %s, found %s", strings.Join(allowed, ", "), describe(n))
 		return nil
 	}
-	o := &object{d: d, path: path, table: tableOf(path), node: n,
+	o := &object{d: d, path: path, table: table, node: n,
 		values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}, suggested: map[string]bool{}}
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, v := n.Content[i], n.Content[i+1]

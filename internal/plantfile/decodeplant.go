@@ -25,6 +25,7 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 			}
 		}
 	}
+	defer d.decodeUncertainty(p, top)
 	defer d.decodeEconomics(p, top)
 	defer d.decodeHolding(p, top)
 	if prod := top.sub("product"); prod != nil {
@@ -364,7 +365,7 @@ func orList(words []string) string {
 	case 2:
 		return words[0] + " or " + words[1]
 	}
-	return fmt.Sprint(words)
+	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
 }
 
 func joinKeys(keys []string) string {

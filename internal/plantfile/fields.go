@@ -2,7 +2,9 @@ package plantfile
 
 import (
 	"fmt"
+	"math"
 	"regexp"
+	"strconv"
 	"strings"
 
 	"pasval/internal/units"
@@ -24,6 +26,8 @@ const (
 	KindList                                // a list of mappings of the child fields ("path[].key")
 	KindWaterOrMapping                      // the word water, or a mapping of the child fields
 	KindNamed                               // a mapping of names the user chooses to values of the one child field NameKey
+	KindPathMapping                         // a mapping whose keys are field paths, each of the child fields ("path.<path>.key")
+	KindTolerance                           // "±X %" or "±X unit" of the varied field's dimension
 )
 
 // NameKey is the key of a KindNamed field's one child: it stands for any name
@@ -57,6 +61,10 @@ func (k ValueKind) String() string {
 		return "water or mapping"
 	case KindNamed:
 		return "named mapping"
+	case KindPathMapping:
+		return "mapping of field paths"
+	case KindTolerance:
+		return "tolerance"
 	}
 	panic(fmt.Sprintf("%sno name for value kind %d", panicPrefix, int(k)))
 }
@@ -95,6 +103,63 @@ type Field struct {
 	OneOf       []string
 	Description string
 	Example     string // one valid entry
+	// Vary is set on a field that may carry a tolerance in the uncertainty
+	// block (docs/METHOD.md §14.1): the physical range its varied value must
+	// stay in, and what else moves with it. nil: it may not.
+	Vary *Variation
+}
+
+// Variation says how a field may vary under uncertainty.
+type Variation struct {
+	Bound Bound
+	// Moves says, in words, what else the model moves with the value (for
+	// the README's list); "" when nothing does.
+	Moves string
+}
+
+// Bound is a physical range in SI (temperature points in °C); ±Inf for no end.
+type Bound struct {
+	Lo, Hi         float64
+	LoOpen, HiOpen bool // the end itself is outside the range
+}
+
+// Contains reports whether v lies in the range.
+func (b Bound) Contains(v float64) bool {
+	lo := v > b.Lo || !b.LoOpen && v == b.Lo
+	hi := v < b.Hi || !b.HiOpen && v == b.Hi
+	return lo && hi
+}
+
+// String is the range in words, SI units left to the caller.
+func (b Bound) String() string {
+	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	switch {
+	case math.IsInf(b.Lo, -1) && math.IsInf(b.Hi, 1):
+		return "any value"
+	case math.IsInf(b.Hi, 1) && b.LoOpen:
+		return "greater than " + g(b.Lo)
+	case math.IsInf(b.Hi, 1):
+		return "at least " + g(b.Lo)
+	case !b.LoOpen && !b.HiOpen:
+		return "from " + g(b.Lo) + " to " + g(b.Hi)
+	case b.LoOpen && !b.HiOpen:
+		return "above " + g(b.Lo) + " and at most " + g(b.Hi)
+	}
+	return fmt.Sprintf("between %s and %s", g(b.Lo), g(b.Hi))
+}
+
+var (
+	positive    = Bound{Lo: 0, Hi: math.Inf(1), LoOpen: true}
+	nonNegative = Bound{Lo: 0, Hi: math.Inf(1)}
+	anyValue    = Bound{Lo: math.Inf(-1), Hi: math.Inf(1)}
+)
+
+func closed(lo, hi float64) Bound { return Bound{Lo: lo, Hi: hi} }
+
+// varies lets a field carry a tolerance within bound; moves says what moves with it.
+func (f Field) varies(b Bound, moves string) Field {
+	f.Vary = &Variation{Bound: b, Moves: moves}
+	return f
 }
 
 // Key is the last element of the path.
@@ -111,7 +176,7 @@ func (f Field) Parent() string {
 
 // Container reports whether the field holds other fields.
 func (f Field) Container() bool {
-	return f.Value == KindMapping || f.Value == KindList || f.Value == KindWaterOrMapping || f.Value == KindNamed
+	return f.Value == KindMapping || f.Value == KindList || f.Value == KindWaterOrMapping || f.Value == KindNamed || f.Value == KindPathMapping
 }
 
 // Fields returns the table of plant-file keys in the order the documentation
@@ -125,9 +190,25 @@ var listIndex = regexp.MustCompile(`\[\d+\]`)
 // dropped, a user's name under a KindNamed field is NameKey) or of a table
 // path.
 func Lookup(path string) (Field, bool) {
+	if rest, ok := strings.CutPrefix(path, UncertaintyKey+"."); ok {
+		// uncertainty.<path>.tolerance: the key is any field path.
+		for _, k := range []string{"tolerance", "distribution"} {
+			if strings.HasSuffix(rest, "."+k) {
+				return byPath[uncertaintyEntry+"."+k], true
+			}
+		}
+		return byPath[uncertaintyEntry], true
+	}
 	f, ok := byPath[tableOf(path)]
 	return f, ok
 }
+
+// UncertaintyKey is the top-level key of the tolerances; uncertaintyEntry is
+// the table path of one of its entries, whose key is a field path.
+const (
+	UncertaintyKey   = "uncertainty"
+	uncertaintyEntry = UncertaintyKey + ".<path>"
+)
 
 // tableOf turns a concrete path into its table path: list indices become
 // "[]" and a name under a KindNamed field becomes NameKey
@@ -175,12 +256,6 @@ func init() {
 	}
 }
 
-// tablePath turns a concrete path into the table path of the mapping it
-// names: "cooling[1]" → "cooling", "cooling[1].medium" → "cooling[].medium".
-func tablePath(concrete string) string {
-	return strings.TrimSuffix(tableOf(concrete), "[]")
-}
-
 // allowedKeys are the keys of the mapping at a table path, in table order.
 func allowedKeys(path string) []string {
 	var keys []string
@@ -220,7 +295,8 @@ func (f Field) byDefault(d string) Field { f.Default = d; return f }
 
 func (f Field) exactlyOne(keys ...string) Field { f.OneOf = keys; return f }
 
-func (f Field) fraction() Field { f.Fraction = true; return f }
+func (f Field) withExample(e string) Field { f.Example = e; return f }
+func (f Field) fraction() Field            { f.Fraction = true; return f }
 
 // platePack is the plate-pack keys every heat-exchange section has.
 func platePack(section string) []Field {
@@ -291,26 +367,34 @@ func table() []Field {
 	}
 	add(mapping("product", "the liquid being pasteurized").required(),
 		text("product.name", "product name", "whole milk").required(),
-		q("product.density", units.Density, "density as entered (or give composition)", "1030 kg/m3"),
-		q("product.specific_heat", units.SpecificHeat, "specific heat (or give composition)", "3.93 kJ/(kg*K)"),
+		q("product.density", units.Density, "density as entered (or give composition)", "1030 kg/m3").
+			varies(positive, "the mass flow of each volumetric rate (ṁ = Q·ρ); the tube's volumetric flow of a rate entered by mass (Q = ṁ/ρ)"),
+		q("product.specific_heat", units.SpecificHeat, "specific heat (or give composition)", "3.93 kJ/(kg*K)").
+			varies(positive, "the heat-loss profile"),
 		q("product.conductivity", units.ThermalConductivity, "thermal conductivity, for plate packs (or give composition: Choi–Okos)", "0.6 W/(m*K)"),
 		mapping("product.composition", "mass fractions summing to 1, for Choi–Okos properties instead of density and specific heat"))
 	for _, c := range []string{"water", "protein", "fat", "carbohydrate", "fiber", "ash"} {
 		add(num("product.composition."+c, c+" mass fraction", "0.035").byDefault("0").fraction())
 	}
 	add(list("product.viscosity", "Newtonian viscosity points; ln μ is linear in T between them, the nearest end held outside (with a warning)"),
-		q("product.viscosity[].at", units.Temperature, "temperature of the measurement", "72 °C").required(),
-		q("product.viscosity[].value", units.Viscosity, "viscosity", "0.72 mPa*s").required(),
+		q("product.viscosity[].at", units.Temperature, "temperature of the measurement", "72 °C").required().
+			varies(anyValue, "the interpolated viscosity at the setpoint (the points must keep their order)"),
+		q("product.viscosity[].value", units.Viscosity, "viscosity", "0.72 mPa*s").required().
+			varies(positive, "the interpolated viscosity at the setpoint"),
 		mapping("product.power_law", "a power-law product at the holding temperature, instead of viscosity points"),
-		num("product.power_law.flow_index", "flow index n, 0 < n ≤ 1.5", "0.65").required(),
+		num("product.power_law.flow_index", "flow index n, 0 < n ≤ 1.5", "0.65").required().
+			varies(Bound{Lo: 0, Hi: 1.5, LoOpen: true}, "the Metzner–Reed Reynolds number and the laminar ratio (3n+1)/(n+1); K keeps its value in Pa·sⁿ"),
 		Field{Path: "product.power_law.consistency", Value: KindConsistency, Required: true,
-			Description: "consistency index K, in Pa·sⁿ with n the flow index", Example: "0.28 Pa*s^0.65"},
+			Description: "consistency index K, in Pa·sⁿ with n the flow index", Example: "0.28 Pa*s^0.65"}.varies(positive, ""),
 		mapping("flow", "product rates, each volumetric or by mass"),
-		flow("flow.rate", "normal rate: sizes and rates the sections", "10000 L/h").byDefault("max_rate"),
-		flow("flow.max_rate", "sealed maximum: sets the holding time", "11000 L/h").byDefault("rate"),
+		flow("flow.rate", "normal rate: sizes and rates the sections", "10000 L/h").byDefault("max_rate").
+			varies(positive, "the heat-loss profile the heater must match; the sealed maximum too when max_rate is not entered"),
+		flow("flow.max_rate", "sealed maximum: sets the holding time", "11000 L/h").byDefault("rate").
+			varies(positive, "the normal rate too when rate is not entered"),
 		mapping("process", "the schedule's temperatures").required(),
 		q("process.raw_inlet", units.Temperature, "raw product inlet", "5 °C").required(),
-		q("process.hold_setpoint", units.Temperature, "diversion setpoint at the holding-tube outlet", "72.5 °C").required(),
+		q("process.hold_setpoint", units.Temperature, "diversion setpoint at the holding-tube outlet", "72.5 °C").required().
+			varies(closed(30, 150), "the judged temperature (less process.sensor_accuracy), the viscosity at the setpoint, the legal row, the profile's outlet"),
 		q("process.outlet_target", units.Temperature, "product outlet target (required with cooling)", "4 °C"),
 		q("process.sensor_accuracy", units.TemperatureDifference,
 			"stated accuracy of the diversion sensor, a difference: the holding time, log reductions and legal row are judged at the setpoint less it", "0.5 °C"),
@@ -332,24 +416,28 @@ func table() []Field {
 	add(platePack("cooling[]")...)
 	add(mediumSide("cooling[]", "medium inlet")...)
 	add(mapping("holding_tube", "the holding tube").exactlyOne("inner_diameter", "sanitary_tube"),
-		q("holding_tube.inner_diameter", units.Length, "inner diameter (or sanitary_tube)", "47.5 mm"),
+		q("holding_tube.inner_diameter", units.Length, "inner diameter (or sanitary_tube)", "47.5 mm").varies(positive, ""),
 		q("holding_tube.sanitary_tube", units.Length,
-			"sanitary tube size, OD = nominal: 1.5, 2, 2.5, 3 in (0.065 in wall), 4 in (0.083 in), 6 in (0.109 in)", "2 in"),
-		q("holding_tube.outer_diameter", units.Length, "outer diameter, for heat loss (a sanitary size gives it)", "50.8 mm"),
-		q("holding_tube.length", units.Length, "length from the heater outlet to the diversion sensor", "34 m").required(),
-		q("holding_tube.rise", units.Length, "rise of the outlet above the inlet, for the tube-slope check", "0.8 m"),
+			"sanitary tube size, OD = nominal: 1.5, 2, 2.5, 3 in (0.065 in wall), 4 in (0.083 in), 6 in (0.109 in)", "2 in").
+			varies(positive, "varied, it is the outer diameter: the inner diameter moves with it, the listed wall kept"),
+		q("holding_tube.outer_diameter", units.Length, "outer diameter, for heat loss (a sanitary size gives it)", "50.8 mm").
+			varies(positive, ""),
+		q("holding_tube.length", units.Length, "length from the heater outlet to the diversion sensor", "34 m").required().
+			varies(positive, "the slope (rise/length)"),
+		q("holding_tube.rise", units.Length, "rise of the outlet above the inlet, for the tube-slope check", "0.8 m").varies(anyValue, ""),
 		num("holding_tube.min_slope", "minimum slope, rise/length; may be written 2.1 cm/m", "0.021").byDefault("0.25 in/ft").fraction(),
-		num("holding_tube.fastest_to_mean", "override of the fastest-to-mean velocity ratio, 1 to 3", "2"),
-		q("holding_tube.ambient", units.Temperature, "ambient air around the tube, for heat loss (with outer_coefficient)", "20 °C"),
+		num("holding_tube.fastest_to_mean", "override of the fastest-to-mean velocity ratio, 1 to 3", "2").varies(closed(1, 3), ""),
+		q("holding_tube.ambient", units.Temperature, "ambient air around the tube, for heat loss (with outer_coefficient)", "20 °C").
+			varies(anyValue, "the heat-loss profile (it must stay below the setpoint)"),
 		q("holding_tube.outer_coefficient", units.HeatTransferCoefficient, "outer heat-transfer coefficient, for heat loss (with ambient)",
-			"12 W/(m2*K)"),
+			"12 W/(m2*K)").varies(nonNegative, "the heat-loss profile"),
 		Field{Path: "holding_tube.pu", Value: KindBoolean, Default: "false",
 			Description: "also report brewing pasteurization units (60 °C, z = 7 °C)", Example: "true"},
 		list("organisms", "target organisms, with kinetics the process authority accepts"),
 		text("organisms[].name", "organism", "Listeria monocytogenes").required(),
-		q("organisms[].D", units.Time, "D-value at D_temperature", "0.9 s").required(),
-		q("organisms[].D_temperature", units.Temperature, "reference temperature of D", "71.7 °C").required(),
-		q("organisms[].z", units.TemperatureDifference, "z-value, a temperature difference", "6.3 °C").required(),
+		q("organisms[].D", units.Time, "D-value at D_temperature", "0.9 s").required().varies(positive, ""),
+		q("organisms[].D_temperature", units.Temperature, "reference temperature of D", "71.7 °C").required().varies(anyValue, ""),
+		q("organisms[].z", units.TemperatureDifference, "z-value, a temperature difference", "6.3 °C").required().varies(positive, ""),
 		num("organisms[].required_log_reduction", "required log reduction; without it the reduction is reported, not judged", "5"),
 		list("legal_minimums", "the legal time–temperature rows the regulator applies (never interpolated)"),
 		q("legal_minimums[].temperature", units.Temperature, "row temperature", "72 °C").required(),
@@ -371,5 +459,13 @@ func table() []Field {
 		q("legal_tables."+NameKey+"[].temperature", units.Temperature, "row temperature", "75 °C").required(),
 		q("legal_tables."+NameKey+"[].time", units.Time, "row time", "15 s").required(),
 		text("legal_table", "the product class whose rows of legal_tables apply (instead of legal_minimums)", "high-fat"))
+	add(Field{Path: UncertaintyKey, Value: KindPathMapping,
+		Description: "tolerances for pasval margins (docs/METHOD.md §14): each key a field path as errors print it, e.g. flow.max_rate or organisms[1].D"},
+		mapping(uncertaintyEntry, "one field's tolerance and distribution; the fields that may carry one are listed under Margins").withExample("flow.max_rate"),
+		Field{Path: uncertaintyEntry + ".tolerance", Value: KindTolerance, Required: true,
+			Description: "±X % of the nominal value, or ±X in a unit of the field's dimension (a temperature's is a difference); normal: the tolerance is 2σ",
+			Example:     "±2 %"},
+		Field{Path: uncertaintyEntry + ".distribution", Value: KindEnum, Values: []string{"uniform", "normal", "triangular"}, Required: true,
+			Description: "uniform on ±X, normal with σ = X/2 truncated at ±1.5X and at the physical bounds, or triangular on ±X", Example: "uniform"})
 	return t
 }

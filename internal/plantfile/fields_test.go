@@ -20,17 +20,24 @@ import (
 var update = flag.Bool("update", false, "rewrite the README's generated plant-file table")
 
 func TestReadmeReferenceTable(t *testing.T) {
+	readmeBlock(t, ReferenceBegin, ReferenceEnd, ReferenceTable())
+	readmeBlock(t, VariedBegin, VariedEnd, VariedTable())
+}
+
+// readmeBlock compares (or, with -update, rewrites) a generated README block.
+func readmeBlock(t *testing.T, begin, end, table string) {
+	t.Helper()
 	path := "../../README.md"
 	data, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
 	}
 	s := string(data)
-	i, j := strings.Index(s, ReferenceBegin), strings.Index(s, ReferenceEnd)
+	i, j := strings.Index(s, begin), strings.Index(s, end)
 	if i < 0 || j < i {
-		t.Fatalf("README lacks the markers %q … %q", ReferenceBegin, ReferenceEnd)
+		t.Fatalf("README lacks the markers %q … %q", begin, end)
 	}
-	want := s[:i+len(ReferenceBegin)] + "\n" + ReferenceTable() + s[j:]
+	want := s[:i+len(begin)] + "\n" + table + s[j:]
 	if want == s {
 		return
 	}
@@ -111,6 +118,12 @@ func exampleFile() string {
 				item := Children(f.Path)[0]
 				fmt.Fprintf(&b, "%s%s:\n%s  %s:\n%s    -\n", indent, key, indent, byPath["legal_table"].Example, indent)
 				write(item.Path, indent+"      ")
+			case KindPathMapping:
+				fmt.Fprintf(&b, "%s%s:\n", indent, key)
+				for _, e := range Children(f.Path) {
+					fmt.Fprintf(&b, "%s  %s:\n", indent, e.Example)
+					write(e.Path, indent+"    ")
+				}
 			default:
 				fmt.Fprintf(&b, "%s%s: %s\n", indent, key, f.Example)
 			}
@@ -201,6 +214,13 @@ func walkAgainstTable(t *testing.T, file string, n *yaml.Node, path string, notR
 			continue
 		}
 		switch {
+		case f.Value == KindPathMapping:
+			for j := 0; j+1 < len(v.Content); j += 2 {
+				if _, ok := Lookup(v.Content[j].Value); !ok {
+					t.Errorf("%s:%d: %s is not a field path", file, v.Content[j].Line, v.Content[j].Value)
+				}
+				walkAgainstTable(t, file, v.Content[j+1], uncertaintyEntry)
+			}
 		case f.Value == KindList:
 			if v.Kind != yaml.SequenceNode {
 				t.Errorf("%s: %s is not a list", file, fp)

@@ -75,6 +75,9 @@ type Plant struct {
 	// legal_table (its value) were written; Line 0 when absent.
 	LegalPos  struct{ Minimums, Tables, Table inputerr.Pos }
 	Economics *Economics
+	// Uncertainty holds the tolerances of the uncertainty block, in file
+	// order (docs/METHOD.md §14.1).
+	Uncertainty []Tolerance
 }
 
 // SourceFile is one file a plant was read from.

@@ -35,6 +35,31 @@ func ReferenceTable() string {
 	return b.String()
 }
 
+// Markers of the README's list of the fields that may carry a tolerance.
+const (
+	VariedBegin = "<!-- varied fields: generated from internal/plantfile/fields.go by " +
+		"'go test ./internal/plantfile/ -update'; do not edit by hand -->"
+	VariedEnd = "<!-- end of varied fields -->"
+)
+
+// VariedTable lists the fields that may carry a tolerance in the
+// uncertainty block, with their physical range and what moves with them.
+func VariedTable() string {
+	var b strings.Builder
+	b.WriteString("| field | physical range (SI; a range that crosses it is refused) | what moves with it |\n|---|---|---|\n")
+	for _, f := range fields {
+		if f.Vary == nil {
+			continue
+		}
+		unit := ""
+		if f.Value == KindQuantity && f.Vary.Bound.String() != "any value" {
+			unit = " " + f.Unit.SIUnit
+		}
+		fmt.Fprintf(&b, "| `%s` | %s%s | %s |\n", f.Path, f.Vary.Bound, unit, strings.ReplaceAll(f.Vary.Moves, "|", "\\|"))
+	}
+	return b.String()
+}
+
 // valueText says in words what a key holds.
 func valueText(f Field) string {
 	switch f.Value {
@@ -65,6 +90,10 @@ func valueText(f Field) string {
 		return "`" + strings.Join(f.Values, "` or `") + "`, or a mapping"
 	case KindNamed:
 		return "mapping of names (`" + NameKey + "` below stands for each)"
+	case KindPathMapping:
+		return "mapping of field paths"
+	case KindTolerance:
+		return "tolerance, e.g. `" + f.Example + "`"
 	}
 	panic(fmt.Sprintf("%sno reference text for value kind %d", panicPrefix, int(f.Value)))
 }

@@ -24,20 +24,38 @@ type ViscosityCurve struct {
 // two points at the same temperature (units.SameTemperature, the rule the
 // plant-file validation applies too).
 func NewViscosityCurve(pts []ViscosityPoint) (ViscosityCurve, error) {
+	var c ViscosityCurve
+	err := c.Set(pts)
+	return c, err
+}
+
+// Set makes c the curve of pts, as NewViscosityCurve does, reusing c's
+// storage: a loop that varies the points (margins under uncertainty) builds
+// its curve again without allocating. On error c is left empty.
+func (c *ViscosityCurve) Set(pts []ViscosityPoint) error {
 	if len(pts) == 0 {
-		return ViscosityCurve{}, fmt.Errorf("at least one viscosity point is needed")
+		c.points = c.points[:0]
+		return fmt.Errorf("at least one viscosity point is needed")
 	}
-	p := append([]ViscosityPoint(nil), pts...)
-	sort.Slice(p, func(i, j int) bool { return p[i].TempC < p[j].TempC })
+	p := append(c.points[:0], pts...)
+	// Insertion sort: a handful of points, stable, and no allocation.
+	for i := 1; i < len(p); i++ {
+		for j := i; j > 0 && p[j].TempC < p[j-1].TempC; j-- {
+			p[j], p[j-1] = p[j-1], p[j]
+		}
+	}
+	c.points = p
 	for i := range p {
 		if !(p[i].Viscosity > 0) {
-			return ViscosityCurve{}, fmt.Errorf("viscosity must be positive")
+			c.points = p[:0]
+			return fmt.Errorf("viscosity must be positive")
 		}
 		if i > 0 && units.SameTemperature(p[i].TempC, p[i-1].TempC) {
-			return ViscosityCurve{}, fmt.Errorf("two viscosity points at %.2f °C", p[i].TempC)
+			c.points = p[:0]
+			return fmt.Errorf("two viscosity points at %.2f °C", p[i].TempC)
 		}
 	}
-	return ViscosityCurve{points: p}, nil
+	return nil
 }
 
 // At returns μ(T) in Pa·s and whether T lies outside the measured points
@@ -58,7 +76,8 @@ func (c ViscosityCurve) At(tempC float64) (mu float64, extrapolated bool) {
 	i := sort.Search(len(p), func(i int) bool { return p[i].TempC >= tempC })
 	a, b := p[i-1], p[i]
 	f := (tempC - a.TempC) / (b.TempC - a.TempC)
-	return math.Exp(math.Log(a.Viscosity) + f*(math.Log(b.Viscosity)-math.Log(a.Viscosity))), false
+	la := math.Log(a.Viscosity)
+	return math.Exp(la + f*(math.Log(b.Viscosity)-la)), false
 }
 
 // Range is the span of the measured points, °C.

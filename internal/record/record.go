@@ -55,6 +55,16 @@ func Build(res *assess.Result, opts Options) (*report.Document, error) {
 			return nil, err
 		}
 	}
+	if p := res.Plant; len(p.Uncertainty) > 0 && res.Margins == nil {
+		// The default samples and seed: a record reproduces from its plant file alone.
+		m, err := assess.RunMargins(p, res, assess.MarginOptions{Samples: assess.DefaultSamples, Seed: assess.DefaultSeed})
+		if err != nil {
+			return nil, err
+		}
+		with := *res
+		with.Margins = m
+		res = &with
+	}
 	return build(res, opts, w), nil
 }
 
@@ -154,6 +164,9 @@ func build(res *assess.Result, opts Options, whatIf *assess.WhatIf) *report.Docu
 		doc.Sections = append(doc.Sections, holdingSection(res, d))
 	}
 	doc.Sections = append(doc.Sections, checksSection(res, d))
+	if res.Margins != nil {
+		doc.Sections = append(doc.Sections, marginsSection(res, d))
+	}
 	if whatIf != nil {
 		doc.Sections = append(doc.Sections, whatIfSection(whatIf, d))
 	}
@@ -459,4 +472,46 @@ func whatIfSection(w *assess.WhatIf, d present.Display) report.Section {
 	}
 	blocks = append(blocks, report.Bullets{Items: notes})
 	return report.Section{Heading: "What if: added regeneration plates", Blocks: blocks}
+}
+
+// marginsSection is the margins page: the tolerances, the worst case, the
+// Monte Carlo estimates and the sensitivity, with bar charts of the swings
+// (docs/METHOD.md §14).
+func marginsSection(res *assess.Result, d present.Display) report.Section {
+	m := res.Margins
+	mc := m.MonteCarlo
+	blocks := []report.Block{
+		report.Paragraph{Text: fmt.Sprintf("The holding tube judged as on the checks page, with the inputs of the plant file's uncertainty block "+
+			"varied within their tolerances (docs/METHOD.md §14): every check at the worst case of its inputs, %d Monte Carlo samples "+
+			"(seed %d; the same plant file gives the same figures), and each input swung alone. The figures are only as good as the "+
+			"tolerances entered.", mc.Samples, mc.Seed)},
+		tableFrom("Inputs varied: nominal value, tolerance as entered, distribution (normal: the tolerance is 2σ, draws within ±1.5 times it) and the ends of the tolerance.",
+			present.MarginInputs(m, res.Plant, d)),
+	}
+	if len(m.WorstCase.Checks) > 0 {
+		blocks = append(blocks, tableFrom("Worst case: each check with every input at the end of its tolerance that lowers its margin (found by evaluating both ends).",
+			present.WorstCase(m, d)))
+	}
+	blocks = append(blocks, report.Paragraph{Text: "Worst case: " + present.WorstCaseValues(m) + "."})
+	if len(mc.Checks) > 0 {
+		blocks = append(blocks, tableFrom("Monte Carlo: the probability that each check holds, with its standard error.", present.Probabilities(m)))
+	}
+	blocks = append(blocks,
+		tableFrom("Monte Carlo percentiles (nearest rank) beside the nominal and worst-case values.", present.MarginPercentiles(m)),
+		tableFrom("Sensitivity: each input alone at the two ends of its tolerance, the others nominal; ranked by the swing of the fastest particle's time.",
+			present.SensitivityTable(m)))
+	time := report.BarChart{Caption: "Sensitivity: swing of the fastest particle's time across each input's tolerance.", Unit: "swing of the fastest particle's time, s"}
+	for _, s := range m.Sensitivity {
+		time.Bars = append(time.Bars, report.Bar{Label: s.Field, Value: s.SwingS})
+	}
+	blocks = append(blocks, time)
+	for _, name := range m.Organisms {
+		lr := report.BarChart{Caption: "Sensitivity: swing of the log reduction of " + name + " across each input's tolerance.",
+			Unit: "swing of the log reduction of " + name}
+		for _, s := range m.Sensitivity {
+			lr.Bars = append(lr.Bars, report.Bar{Label: s.Field, Value: s.SwingLogReduction[name]})
+		}
+		blocks = append(blocks, lr)
+	}
+	return report.Section{Heading: "Margins under uncertainty", Blocks: blocks}
 }

@@ -72,6 +72,9 @@ func TestDocumentModel(t *testing.T) {
 				want = append(want, "Heat exchange")
 			}
 			want = append(want, "Holding tube and lethality", "Checks")
+			if len(res.Plant.Uncertainty) > 0 {
+				want = append(want, "Margins under uncertainty")
+			}
 			if WantsWhatIf(res.Plant) {
 				want = append(want, "What if: added regeneration plates")
 			}

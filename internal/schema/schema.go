@@ -33,6 +33,10 @@ var (
 	NumberPattern = `^\s*` + number + `\s*(?:%|[^\s0-9.,+-][^\n]*)?$`
 	// PlainNumberPattern is any other number written as a string: no unit.
 	PlainNumberPattern = `^\s*` + number + `\s*$`
+	// TolerancePattern is a tolerance of the uncertainty block: ±X with a
+	// unit or %; PathPattern a field path as its key.
+	TolerancePattern = `^\s*(?:±|\+-|\+/-)\s*` + number + `\s*[^\n]*$`
+	PathPattern      = `^[A-Za-z_][A-Za-z0-9_]*(?:\[[0-9]+\])?(?:\.[A-Za-z_][A-Za-z0-9_]*(?:\[[0-9]+\])?)*$`
 )
 
 type obj = map[string]any
@@ -99,6 +103,13 @@ func node(f plantfile.Field, path string) obj {
 			"propertyNames": obj{"pattern": plantfile.NamePattern}, "additionalProperties": node(item, item.Path)}
 	case plantfile.KindWaterOrMapping:
 		return obj{"description": desc, "oneOf": []any{obj{"enum": words(f.Values)}, object(f.Description, path, nil)}}
+	case plantfile.KindPathMapping:
+		// Its one child is the entry whose key is any field path.
+		entry := plantfile.Children(path)[0]
+		return obj{"type": "object", "description": desc, "propertyNames": obj{"pattern": PathPattern},
+			"additionalProperties": object(entry.Description, entry.Path, nil)}
+	case plantfile.KindTolerance:
+		return obj{"type": "string", "pattern": TolerancePattern, "description": desc + ", e.g. " + f.Example}
 	}
 	panic(fmt.Sprintf("schema: no schema for value kind %v of %s", f.Value, f.Path))
 }

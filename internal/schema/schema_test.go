@@ -89,6 +89,7 @@ var (
 		"holding-both-diameters", "economics-missing-plate-cost", "nan-value", "inf-value",
 		"plate-pack-missing-port",
 		"text-forged-verdict", "text-bidi-override", "log-reduction-percent", "plates-above-limit",
+		"uncertainty-no-sign", "uncertainty-bad-distribution", "uncertainty-missing-index",
 	}
 	semantic = []string{
 		// ratio or plates: a plate pack's passes also put a regenerator in
@@ -111,6 +112,10 @@ var (
 		"wrong-dimension-density", "wrong-dimension-flow", "wrong-dimension-u", "zero-flow", "zero-medium-flow",
 		"viscosity-same-temperature", "temperature-overflow", "temperature-beyond-range", "kinetics-non-finite",
 		"economics-price-huge", "rate-above-max-mixed-units", "organism-z-tiny",
+		// Uncertainty: a path of the right form that names no varied value, a
+		// tolerance of the wrong dimension or beyond the physical range.
+		"uncertainty-unknown-path", "uncertainty-not-scalar", "uncertainty-not-varied", "uncertainty-wrong-dimension",
+		"uncertainty-percent-temperature", "uncertainty-crosses-bound", "uncertainty-not-given", "uncertainty-index-out-of-range",
 	}
 	notYAML = []string{"anchor-alias", "broken-yaml", "comments-only", "duplicate-key", "empty", "not-utf8", "tab-indent", "two-documents",
 		"yaml-unclosed-bracket", "yaml-undefined-alias", "yaml-control-in-comment", "yaml-tag-binary", "yaml-tag-custom", "yaml-tag-map"}
