@@ -45,8 +45,19 @@ type Engine struct {
 // openEvent is an event still growing.
 type openEvent struct {
 	Event
-	gap, temp, flow, allMet bool
+	class              eventClass
+	temp, flow, allMet bool
 }
+
+// eventClass is what the samples of one event have in common: consecutive
+// samples of another class start a new event.
+type eventClass int
+
+const (
+	classLimit     eventClass = iota + 1 // forward below the setpoint or above the maximum flow
+	classGap                             // the held interval of the sample before a recording gap
+	classLethality                       // within both limits, but the parcel failed a row or a required log reduction
+)
 
 // A reading equal to a limit is not past it; these tolerances keep a value
 // written in other units (161.6 °F for 72 °C, gpm for L/h) on the same
@@ -242,17 +253,25 @@ func (e *Engine) close(s Sample, i int, d float64) {
 			reqMet = false
 		}
 	}
-	if !gap && !temp && !flow && legal && reqMet {
+	var class eventClass
+	switch {
+	case gap:
+		class = classGap
+	case temp || flow:
+		class = classLimit
+	case !legal || !reqMet:
+		class = classLethality
+	default:
 		e.closeEvent()
 		return
 	}
-	if e.open != nil && e.open.gap != gap {
+	if e.open != nil && e.open.class != class {
 		e.closeEvent()
 	}
 	if e.open == nil {
 		e.open = &openEvent{Event: Event{First: i, Start: s.Time, MinTemperature: math.Inf(1), MaxFlow: math.Inf(-1),
 			MinLogReduction: make([]float64, len(e.lastLR)), MinResidence: math.Inf(1), MinSampleResidence: math.Inf(1),
-			LegalRowMet: !gap, Drop: -1}, gap: gap, allMet: true}
+			LegalRowMet: !gap, Drop: -1}, class: class, allMet: true}
 		for k := range e.open.MinLogReduction {
 			e.open.MinLogReduction[k] = math.Inf(1)
 		}
@@ -322,9 +341,11 @@ func (e *Engine) closeEvent() {
 	}
 	e.open = nil
 	switch {
-	case ev.gap:
+	case ev.class == classGap:
 		ev.Kind, ev.Verdict = KindGap, NoRecord
 		e.sum.Gaps++
+	case ev.class == classLethality:
+		ev.Kind = KindLethality
 	case ev.temp && ev.flow:
 		ev.Kind = KindTemperatureFlow
 	case ev.temp:
@@ -332,9 +353,9 @@ func (e *Engine) closeEvent() {
 	case ev.flow:
 		ev.Kind = KindFlow
 	default:
-		ev.Kind = KindLethality
+		panic(panicPrefix + "an event of no class")
 	}
-	if !ev.gap {
+	if ev.class != classGap {
 		ev.Verdict = ProductAtRisk
 		if ev.allMet {
 			ev.Verdict = LimitsMet
