@@ -7,9 +7,9 @@ import (
 	"testing"
 	"time"
 
+	gen "pasval/internal/rungen"
 	"pasval/lethality"
 	"pasval/runs"
-	"pasval/runs/internal/gen"
 )
 
 // lh is one litre per hour in m³/s.

@@ -11,9 +11,9 @@ import (
 	"strings"
 	"testing"
 
+	gen "pasval/internal/rungen"
 	"pasval/internal/runlog"
 	"pasval/runs"
-	"pasval/runs/internal/gen"
 )
 
 // demoRun is the committed demo shift for the SI demo plant.

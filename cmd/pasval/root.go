@@ -63,13 +63,15 @@ authority and the local regulator.`,
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
-	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
+	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newLogsCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
 	for _, c := range root.Commands() {
 		switch c.Name() {
 		case "check", "hold", "report", "plates":
 			c.ValidArgsFunction = completePlantFile
 		case "verify":
 			c.ValidArgsFunction = completeRecord
+		case "logs":
+			c.ValidArgsFunction = completeRunFiles
 		case "init", "schema":
 			c.ValidArgsFunction = cobra.NoFileCompletions
 		}
@@ -118,6 +120,15 @@ func completePlantFile(cmd *cobra.Command, args []string, toComplete string) ([]
 		return nil, cobra.ShellCompDirectiveNoFileComp
 	}
 	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+}
+
+// completeRunFiles offers a plant file first, then recorded runs (files or
+// folders).
+func completeRunFiles(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
+	if len(args) == 0 {
+		return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+	}
+	return nil, cobra.ShellCompDirectiveDefault
 }
 
 // completeRecord offers a PDF first, then a plant file.

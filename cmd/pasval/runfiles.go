@@ -1,0 +1,303 @@
+package main
+
+import (
+	"encoding/hex"
+	"errors"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"sync"
+	"time"
+	_ "time/tzdata" // --timezone works on systems without a zone database
+
+	"github.com/schollz/progressbar/v3"
+	"github.com/spf13/cobra"
+	"golang.org/x/term"
+
+	"pasval/internal/assess"
+	"pasval/internal/inputerr"
+	"pasval/internal/plantfile"
+	"pasval/internal/runlog"
+	"pasval/runs"
+)
+
+// runFlags are the options of the commands that read recorded runs (logs,
+// and report with --log): how to read the files and how to judge them.
+type runFlags struct {
+	columns         map[string]string // key → the file's header name
+	separator       string
+	decimalComma    bool
+	temperatureUnit string
+	flowUnit        string
+	timezone        string
+	skipBadRows     int
+	gap             float64 // s; 0: 5 × the median interval
+	quiet           bool
+}
+
+func (f *runFlags) register(cmd *cobra.Command) {
+	fl := cmd.Flags()
+	fl.StringToStringVar(&f.columns, "columns", nil, "the file's header names for the columns, key=Header,… (keys: time, hold_outlet_temperature, flow_rate, forward)")
+	fl.StringVar(&f.separator, "separator", "", "the separator between columns: ',', ';' or tab (default: the one the header uses)")
+	fl.BoolVar(&f.decimalComma, "decimal-comma", false, "numbers are written with a decimal comma (72,5); not with the ',' separator")
+	fl.StringVar(&f.temperatureUnit, "temperature-unit", "", "unit of a temperature column whose header gives none (°C, °F, K)")
+	fl.StringVar(&f.flowUnit, "flow-unit", "", "unit of a flow column whose header gives none (L/h, gpm, m3/h, kg/h, lb/h, …)")
+	fl.StringVar(&f.timezone, "timezone", "", "time zone of clock times written without an offset, and of the times shown (IANA name such as Europe/Berlin; default UTC)")
+	fl.IntVar(&f.skipBadRows, "skip-bad-rows", 0, "skip up to N malformed rows (counted, the first listed) instead of stopping at the first")
+	fl.Float64Var(&f.gap, "gap", 0, "longest interval between samples, s, that is not a recording gap (default: 5 × the median interval)")
+	fl.BoolVar(&f.quiet, "quiet", false, "no progress bar")
+}
+
+// optionFlags names the command-line flag of each runlog option.
+var optionFlags = map[string]string{
+	"Separator":       "--separator",
+	"DecimalComma":    "--decimal-comma",
+	"Columns":         "--columns",
+	"TemperatureUnit": "--temperature-unit",
+	"FlowUnit":        "--flow-unit",
+	"SkipBadRows":     "--skip-bad-rows",
+}
+
+// readerOptions checks the flags and turns them into the reader's options
+// and the time zone; every refusal names its flag (exit 2).
+func (f runFlags) readerOptions() (runlog.Options, *time.Location, error) {
+	opt := runlog.Options{Columns: f.columns, DecimalComma: f.decimalComma, TemperatureUnit: f.temperatureUnit,
+		FlowUnit: f.flowUnit, SkipBadRows: f.skipBadRows, Hash: true}
+	switch f.separator {
+	case "":
+	case ",", ";":
+		opt.Separator = f.separator[0]
+	case "tab", "\t", `\t`:
+		opt.Separator = '\t'
+	default:
+		return opt, nil, usagef("--separator must be ',', ';' or tab, not %q", f.separator)
+	}
+	if !(f.gap >= 0) || f.gap > 1e9 {
+		return opt, nil, usagef("--gap must be a number of seconds above 0 (0 or absent: 5 × the median interval), not %g", f.gap)
+	}
+	loc := time.UTC
+	if f.timezone != "" {
+		l, err := time.LoadLocation(f.timezone)
+		if err != nil || strings.EqualFold(f.timezone, "local") {
+			return opt, nil, usagef("--timezone %q is not a time zone name: give an IANA name such as Europe/Berlin or America/Chicago, or UTC", f.timezone)
+		}
+		loc = l
+	}
+	opt.Location = loc
+	if err := opt.Validate(); err != nil {
+		return opt, nil, flagError(err)
+	}
+	return opt, loc, nil
+}
+
+// flagError turns a reader's option error into a usage error naming the flag.
+func flagError(err error) error {
+	var oe *runlog.OptionError
+	if !errors.As(err, &oe) {
+		return err
+	}
+	if name, ok := optionFlags[oe.Option]; ok {
+		return usagef("%s: %s", name, oe.Msg)
+	}
+	return usagef("%s", oe.Msg)
+}
+
+// runExtensions are the file names a folder's recorded runs are found by.
+var runExtensions = []string{".csv", ".csv.gz", ".tsv", ".tsv.gz", ".txt", ".txt.gz"}
+
+// runPaths expands the arguments: a folder stands for its recorded-run
+// files (by name, not descending into sub-folders), in name order.
+func runPaths(args []string) ([]string, error) {
+	var paths []string
+	for _, a := range args {
+		st, err := os.Stat(a)
+		if err != nil || !st.IsDir() {
+			paths = append(paths, a) // the reader names what is wrong with it
+			continue
+		}
+		entries, err := os.ReadDir(a)
+		if err != nil {
+			return nil, inputerr.List{inputerr.At(inputerr.Pos{File: a}, "", "cannot read the folder: %v", unwrapPath(err))}
+		}
+		var found []string
+		for _, e := range entries {
+			name := strings.ToLower(e.Name())
+			for _, ext := range runExtensions {
+				if strings.HasSuffix(name, ext) && !strings.HasPrefix(name, ".") && e.Type().IsRegular() {
+					found = append(found, filepath.Join(a, e.Name()))
+					break
+				}
+			}
+		}
+		if len(found) == 0 {
+			return nil, inputerr.List{inputerr.At(inputerr.Pos{File: a}, "", "the folder holds no recorded run (a file named *%s)", strings.Join(runExtensions, ", *"))}
+		}
+		sort.Strings(found)
+		paths = append(paths, found...)
+	}
+	return paths, nil
+}
+
+func unwrapPath(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// reviewRuns reads every file (each on its own core) and judges it against
+// the plant, then merges them into one review. Progress goes to diag when
+// it is a terminal and the files are large (see showProgress).
+func reviewRuns(p *plantfile.Plant, args []string, f runFlags, diag io.Writer) (*assess.RunReview, error) {
+	opt, loc, err := f.readerOptions()
+	if err != nil {
+		return nil, err
+	}
+	rm, err := assess.NewRunModel(p)
+	if err != nil {
+		return nil, err
+	}
+	paths, err := runPaths(args)
+	if err != nil {
+		return nil, err
+	}
+	prog := newProgress(paths, f.quiet, diag)
+	files, errs := runlog.Each(paths, opt, 0, func(r *runlog.Reader) (assess.RunFile, error) {
+		prog.add(r)
+		return judgeRun(r, rm, f.gap)
+	})
+	prog.done()
+	var all inputerr.List
+	for _, err := range errs {
+		if err == nil {
+			continue
+		}
+		var list inputerr.List
+		if !errors.As(err, &list) {
+			return nil, flagError(err)
+		}
+		all = append(all, list...)
+	}
+	if len(all) > 0 {
+		return nil, all
+	}
+	rev, err := assess.NewRunReview(p, rm, files, loc)
+	if err != nil {
+		return nil, usagef("%v", err)
+	}
+	return rev, nil
+}
+
+// judgeRun feeds one file's samples to the engine.
+func judgeRun(r *runlog.Reader, rm assess.RunModel, gap float64) (assess.RunFile, error) {
+	e, err := runs.NewEngine(rm.Model, runs.Options{GapThreshold: gap})
+	if err != nil {
+		return assess.RunFile{}, err // NewRunModel has checked the criteria
+	}
+	mass := r.FlowIsMass()
+	for r.Next() {
+		rec := r.Record()
+		s := runs.Sample{Time: rec.Time, Temperature: rec.Temperature, Flow: rm.TubeFlow(rec.Flow, mass), Forward: rec.Forward}
+		if err := e.Add(s); err != nil {
+			var se *runs.SampleError
+			field := ""
+			if errors.As(err, &se) {
+				field = map[string]string{"time": runlog.KeyTime, "temperature": runlog.KeyTemperature, "flow": runlog.KeyFlow}[se.Field]
+			}
+			return assess.RunFile{}, inputerr.List{inputerr.At(inputerr.Pos{File: r.Name(), Line: rec.Line}, field, "%v", err)}
+		}
+	}
+	if err := r.Err(); err != nil {
+		return assess.RunFile{}, err
+	}
+	bad, listed := r.Skipped()
+	return assess.RunFile{Path: r.Name(), SHA256: hex.EncodeToString(r.SHA256()), Rows: r.Rows(), BadRows: bad, Listed: listed,
+		Clock: r.ClockTimes(), Result: e.Finish()}, nil
+}
+
+// progressMinBytes is the input size from which a progress bar is shown.
+const progressMinBytes = 50_000_000
+
+// showProgress says whether to draw a progress bar: never with --quiet or
+// when diag is not a terminal (a pipe, a file, a test's buffer), and only
+// for inputs over 50 MB, where reading takes long enough to wonder.
+func showProgress(quiet, terminal bool, total int64) bool {
+	return !quiet && terminal && total > progressMinBytes
+}
+
+// progress draws the bytes read of every file against their total size.
+type progress struct {
+	bar     *progressbar.ProgressBar
+	mu      sync.Mutex
+	readers []*runlog.Reader
+	stop    chan struct{}
+	wg      sync.WaitGroup
+}
+
+func newProgress(paths []string, quiet bool, diag io.Writer) *progress {
+	pr := &progress{}
+	var total int64
+	for _, p := range paths {
+		if st, err := os.Stat(p); err == nil && st.Mode().IsRegular() {
+			total += st.Size()
+		}
+	}
+	f, ok := diag.(*os.File)
+	if !showProgress(quiet, ok && term.IsTerminal(int(f.Fd())), total) {
+		return pr
+	}
+	pr.bar = progressbar.NewOptions64(total, progressbar.OptionSetWriter(diag), progressbar.OptionSetDescription("reading"),
+		progressbar.OptionShowBytes(true), progressbar.OptionSetWidth(30), progressbar.OptionThrottle(100*time.Millisecond),
+		progressbar.OptionClearOnFinish(), progressbar.OptionSetPredictTime(true))
+	pr.stop = make(chan struct{})
+	pr.wg.Add(1)
+	go func() {
+		defer pr.wg.Done()
+		tick := time.NewTicker(200 * time.Millisecond)
+		defer tick.Stop()
+		for {
+			select {
+			case <-pr.stop:
+				return
+			case <-tick.C:
+				_ = pr.bar.Set64(pr.read())
+			}
+		}
+	}()
+	return pr
+}
+
+// add follows one more file's reader.
+func (pr *progress) add(r *runlog.Reader) {
+	if pr.bar == nil {
+		return
+	}
+	pr.mu.Lock()
+	pr.readers = append(pr.readers, r)
+	pr.mu.Unlock()
+}
+
+func (pr *progress) read() int64 {
+	pr.mu.Lock()
+	defer pr.mu.Unlock()
+	var n int64
+	for _, r := range pr.readers {
+		read, _ := r.Progress()
+		n += read
+	}
+	return n
+}
+
+// done removes the bar.
+func (pr *progress) done() {
+	if pr.bar == nil {
+		return
+	}
+	close(pr.stop)
+	pr.wg.Wait()
+	_ = pr.bar.Finish()
+	_ = pr.bar.Clear()
+}
