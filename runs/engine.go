@@ -31,6 +31,7 @@ type Engine struct {
 
 	temps    *tempCache
 	speeds   speedCache
+	rheos    rheologies
 	lastTemp *tempEntry // the cache entry of the last sample's temperature
 
 	sum    Summary
@@ -81,7 +82,8 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		panic(fmt.Sprintf("%sNewEngine: gap threshold %g s", panicPrefix, opt.GapThreshold))
 	}
 	no := len(m.Organisms)
-	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no)}
+	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no),
+		rheos: rheologies{ids: map[lethality.Rheology]uint32{}}}
 	e.tr.length = m.Tube.Length
 	e.required = make([]float64, no)
 	for i, o := range m.Organisms {
@@ -160,45 +162,67 @@ func (e *Engine) settle() {
 // take runs one sample through the analysis: it closes the previous sample's
 // held interval, then finds the parcel leaving now.
 func (e *Engine) take(s Sample) {
-	if e.n == 0 {
-		e.sum.Start = s.Time
-		e.tr.start(s.Time, e.speed(s.Flow, s.Temperature))
-	} else {
+	if e.n > 0 {
 		e.close(e.last, e.n-1, s.Time-e.last.Time)
 		e.tr.advance(e.lastU, s.Time)
 	}
+	e.lastTemp = e.temps.at(s.Temperature, e)
+	u := e.speed(s.Flow, e.lastTemp)
+	if e.n == 0 {
+		e.sum.Start = s.Time
+		e.tr.start(s.Time, u)
+	}
 	e.lastRes = e.tr.residence()
-	e.lastTemp = e.temps.at(s.Temperature, &e.m)
 	for i, d := range e.lastTemp.d {
 		e.lastLR[i] = e.lastRes / d
 	}
-	e.lastU = e.speed(s.Flow, s.Temperature)
+	e.lastU = u
 	e.last = s
 	e.n++
 }
 
-// speed is the fastest particle's speed r·v for flow q (m³/s) at temperature
-// temp (°C), by the same tube model as the design check
+// speed is the fastest particle's speed r·v for flow q (m³/s) in product
+// at the temperature of entry t, by the same tube model as the design check
 // (docs/METHOD.md §7 (holding tube)): v = Q/A, r from the interval's
 // Reynolds number (or the model's override). Zero for no flow.
-func (e *Engine) speed(q, temp float64) float64 {
+func (e *Engine) speed(q float64, t *tempEntry) float64 {
 	if !(q > 0) {
 		return 0
 	}
-	if e.m.RheologyAt == nil {
-		temp = 0 // the rheology does not depend on it
-	}
-	if u, ok := e.speeds.get(q, temp); ok {
+	if u, ok := e.speeds.get(q, t.rh); ok {
 		return u
 	}
 	rh := e.m.Rheology
 	if e.m.RheologyAt != nil {
-		rh = e.m.RheologyAt(temp)
+		rh = e.rheos.list[t.rh]
 	}
 	h := e.m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: e.m.Density}, rh, e.m.FastestToMean)
 	u := h.FastestToMean * h.MeanVelocity
-	e.speeds.put(q, temp, u)
+	e.speeds.put(q, t.rh, u)
 	return u
+}
+
+// rheologyID is the number of the product's rheology at temperature temp
+// (°C) when it depends on temperature: the speeds are cached by flow and
+// this number, so that every temperature with the same rheology (all those
+// beyond the last viscosity point, say) shares them. At most maxRheologies
+// are numbered; beyond, the numbers and every cache keyed by them start
+// afresh, so memory stays bounded.
+func (e *Engine) rheologyID(temp float64) uint32 {
+	rh := e.m.RheologyAt(temp)
+	if id, ok := e.rheos.ids[rh]; ok {
+		return id
+	}
+	if len(e.rheos.list) >= maxRheologies {
+		clear(e.rheos.ids)
+		e.rheos.list = e.rheos.list[:0]
+		e.speeds = speedCache{}
+		e.temps.gen++
+	}
+	id := uint32(len(e.rheos.list))
+	e.rheos.ids[rh] = id
+	e.rheos.list = append(e.rheos.list, rh)
+	return id
 }
 
 // close books sample s (index i) with its held interval d, s.

@@ -91,7 +91,9 @@ type Model struct {
 	Rheology lethality.Rheology
 	// RheologyAt, when set, gives the rheology at a recorded temperature
 	// (°C), so that each interval's Reynolds number is taken at its own
-	// temperature (a Newtonian viscosity curve, for instance).
+	// temperature (a Newtonian viscosity curve, for instance). Its values
+	// must be comparable (lethality.Newtonian and PowerLaw are): equal ones
+	// share cached speeds.
 	RheologyAt func(temperature float64) lethality.Rheology
 	Density    float64 // kg/m³ at the holding temperature, > 0
 	// FastestToMean overrides u_max/u_mean for every flow when > 0; 0 takes
