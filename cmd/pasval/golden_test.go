@@ -81,6 +81,8 @@ func goldenCases() []goldenCase {
 		goldenCase{"bad-folder", []string{"hold", "testdata/demo"}},
 		goldenCase{"schema", []string{"schema"}},
 		goldenCase{"bad-units-flag", []string{"check", "--units", "metric", "testdata/demo/cider-us.yaml"}},
+		goldenCase{"htst-milk-si.logs-us", []string{"logs", "--units", "us", "testdata/demo/htst-milk-si.yaml", "testdata/demo/runs/htst-milk-si-shift.csv"}},
+		goldenCase{"bad-run-time-backwards", []string{"logs", "testdata/demo/htst-milk-si.yaml", "testdata/bad-runs/time-backwards.csv"}},
 	)
 	return cases
 }

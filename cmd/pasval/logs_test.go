@@ -300,34 +300,38 @@ func TestLogsSameRunOtherForms(t *testing.T) {
 	}
 }
 
+// badRuns is the bad recorded-run corpus, testdata/bad-runs: for each file,
+// the line:column and a fragment of the message pasval must give.
+var badRuns = map[string]struct{ pos, msg string }{
+	"empty.csv":            {"1:1", "the file is empty"},
+	"header-only.csv":      {"2:1", "no data rows"},
+	"unknown-unit.csv":     {"1:6", "[°Q] is not a unit of temperature"},
+	"missing-column.csv":   {"1:1", `no column "flow_rate"`},
+	"text-in-a-number.csv": {"3:28", `expected a number, found "ten"`},
+	"time-backwards.csv":   {"3:1", "time goes backwards"},
+	// At the first ',' of a row in a ';' file.
+	"mixed-separators.csv": {"3:21", "mixed separators"},
+}
+
 // TestLogsBadFiles: each malformed file is refused, exit 2, naming the
-// file, the line and the column.
+// file, the line and the column, with nothing on standard output.
 func TestLogsBadFiles(t *testing.T) {
-	dir := t.TempDir()
-	hdr := rungen.Header + "\n"
-	row := "2026-03-14T06:00:00Z,73.00,10000.0,1\n"
-	cases := []struct {
-		name, text string
-		pos        string // line:column
-		msg        string
-	}{
-		{"empty", "", "1:1", "the file is empty"},
-		{"header only", hdr, "2:1", "no data rows"},
-		{"unknown unit", "time,hold_outlet_temperature [°Q],flow_rate [L/h],forward\n" + row, "1:6", "[°Q] is not a unit of temperature"},
-		{"missing column", "time,hold_outlet_temperature [°C],forward\n2026-03-14T06:00:00Z,73,1\n", "1:1", `no column "flow_rate"`},
-		{"text in a number", hdr + row + "2026-03-14T06:00:01Z,73.00,ten,1\n", "3:28", `expected a number, found "ten"`},
-		{"time backwards", hdr + "2026-03-14T06:00:05Z,73.00,10000.0,1\n" + row, "3:1", "time goes backwards"},
-		// The first ',' of a row in a ';' file.
-		{"mixed separators", strings.ReplaceAll(hdr, ",", ";") + strings.ReplaceAll(row, ",", ";") + "2026-03-14T06:00:01Z,73.00,10000.0,1\n", "3:21", "mixed separators"},
+	dir := "../../testdata/bad-runs"
+	files, err := filepath.Glob(filepath.Join(dir, "*"))
+	if err != nil || len(files) == 0 {
+		t.Fatalf("no bad runs in %s: %v", dir, err)
 	}
-	for _, c := range cases {
-		t.Run(c.name, func(t *testing.T) {
-			path := filepath.Join(dir, strings.ReplaceAll(c.name, " ", "-")+".csv")
-			writeFile(t, path, c.text)
+	for _, path := range files {
+		name := filepath.Base(path)
+		t.Run(name, func(t *testing.T) {
+			want, ok := badRuns[name]
+			if !ok {
+				t.Fatalf("%s has no expectation in badRuns", name)
+			}
 			out, errs, code := runBinary(t, "logs", demoPlant, path)
-			want := "pasval: " + path + ":" + c.pos + ": "
-			if code != exitInput || !strings.HasPrefix(errs, want) || !strings.Contains(errs, c.msg) || out != "" {
-				t.Errorf("exit %d, stderr %q, stdout %q; want 2, %q…%q and no output", code, errs, out, want, c.msg)
+			prefix := "pasval: " + path + ":" + want.pos + ": "
+			if code != exitInput || !strings.HasPrefix(errs, prefix) || !strings.Contains(errs, want.msg) || out != "" {
+				t.Errorf("exit %d, stderr %q, stdout %q; want 2, %q…%q and no output", code, errs, out, prefix, want.msg)
 			}
 		})
 	}

@@ -26,7 +26,7 @@ func TestScripts(t *testing.T) {
 		Dir: scriptDir,
 		Setup: func(env *testscript.Env) error {
 			// The demos and the bad-input corpus, where the README's commands expect them.
-			for _, d := range []string{"demo", "bad", "equivalence"} {
+			for _, d := range []string{"demo", "bad", "bad-runs", "equivalence"} {
 				if err := os.CopyFS(filepath.Join(env.WorkDir, "testdata", d), os.DirFS(filepath.Join(root, "testdata", d))); err != nil {
 					return err
 				}

@@ -324,8 +324,8 @@ func KindMeanings() [][2]string {
 	return [][2]string{
 		{string(runs.KindTemperature), "forward flow below the diversion setpoint"},
 		{string(runs.KindFlow), "flow above the sealed maximum"},
-		{string(runs.KindTemperatureFlow), "both, in consecutive samples"},
-		{string(runs.KindLethality), "forward flow within both limits whose product was still held too short (a row or a required log reduction failed): product that was in the tube during a surge, or a flow under the seal but below Re 4000"},
+		{string(runs.KindTemperatureFlow), "both deviations within one event"},
+		{string(runs.KindLethality), "forward flow within both limits, but the product leaving was held too short (no legal row met, or a required log reduction missed): it was in the tube during a surge, or the flow was under the seal but below Re 4000"},
 		{string(runs.KindGap), "no record for longer than the gap limit during forward flow: no proof either way"},
 	}
 }
