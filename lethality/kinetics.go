@@ -194,38 +194,3 @@ func JudgeLegal(rows []LegalRow, setpoint, minResidence, relTol float64) LegalVe
 	v.MarginPct = v.Margin / v.Row.Time * 100
 	return v
 }
-
-// MaxFlowFor is the largest volumetric flow (m³/s) up to which every flow
-// gives the fastest particle at least time seconds in the tube. Flow is
-// scanned upward on a log scale from hi/10⁶, then bisected; the scan
-// matters because the fastest-to-mean ratio drops at the turbulent limit,
-// which can make a faster flow hold longer than a slower one. density is at
-// the holding temperature. It returns hi when every flow up to hi meets it.
-func (t Tube) MaxFlowFor(time float64, density float64, r Rheology, override, hi float64) float64 {
-	meets := func(q float64) bool {
-		return t.Hydraulics(Flow{Volumetric: q, Density: density}, r, override).MinResidence >= time
-	}
-	const steps, decades = 600, 6.0
-	lo := hi / math.Pow(10, decades)
-	if !meets(lo) {
-		return 0
-	}
-	prev := lo
-	for i := 1; i <= steps; i++ {
-		q := lo * math.Pow(10, decades*float64(i)/steps)
-		if !meets(q) {
-			a, b := prev, q
-			for range 100 {
-				m := (a + b) / 2
-				if meets(m) {
-					a = m
-				} else {
-					b = m
-				}
-			}
-			return a
-		}
-		prev = q
-	}
-	return hi
-}

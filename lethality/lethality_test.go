@@ -186,3 +186,92 @@ func TestMaxFlowAndRequiredLength(t *testing.T) {
 		t.Errorf("required length %g", h.RequiredLength(15))
 	}
 }
+
+func TestWorstFlowBelowTheSeal(t *testing.T) {
+	// docs/METHOD.md §7.7 worked example (computed by hand from the formulas):
+	// ρ 1030 kg/m³, μ 5 mPa·s, 2 in sanitary tube (D = 1.870 in = 0.047498 m),
+	// L = 20 m, seal 3000 L/h: v = 0.4703 m/s, Re = 4602, turbulent, r = 1.3184,
+	// t_min = 32.25 s; v₄₀₀₀ = 4000·0.005/(1030·0.047498) = 0.40882 m/s,
+	// Q₄₀₀₀ = 2608 L/h < 3000 L/h, so t_worst = 20/(2·0.40882) = 24.46 s.
+	const d, rho, mu = 0.047498, 1030.0, 5e-3
+	tube := Tube{InnerDiameter: d, Length: 20}
+	nw := Newtonian{Viscosity: mu}
+	v4 := 4000 * mu / (rho * d)
+	tests := []struct {
+		name     string
+		seal     float64 // m³/s
+		rheology Rheology
+		override float64
+		atSeal   bool
+		time     float64 // s
+		flow     float64 // m³/s
+		regime   Regime
+	}{
+		{"turbulent seal: just below Re 4000", 3000 / 3.6e6, nw, 0, false, 20 / (2 * v4), v4 * tube.CrossSection(), Transitional},
+		// Laminar at the seal (Re 2608/3000·4000 < 4000 when sealed at 2000 L/h):
+		// t = L/(2v) falls with the flow, so the seal is the worst.
+		{"laminar seal", 2000 / 3.6e6, nw, 0, true, 20 / (2 * (2000 / 3.6e6) / tube.CrossSection()), 2000 / 3.6e6, Transitional},
+		// With an entered ratio the ratio is constant: the seal, t = L/(r_o v).
+		{"entered ratio", 3000 / 3.6e6, nw, 2, true, 20 / (2 * (3000 / 3.6e6) / tube.CrossSection()), 3000 / 3.6e6, Turbulent},
+		// Far above Re 4000 the seal's ratio (≈1.2) beats the laminar jump:
+		// at 20 000 L/h t_seal = 20/(r·3.135) ≈ 5.3 s < L/(2 v₄₀₀₀) = 24.46 s.
+		{"fast seal", 20000 / 3.6e6, nw, 0, true, 20 / (TurbulentFastestToMean(rho*(20000/3.6e6/tube.CrossSection())*d/mu) * 20000 / 3.6e6 / tube.CrossSection()),
+			20000 / 3.6e6, Turbulent},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			w := tube.WorstFlow(Flow{Volumetric: tc.seal, Density: rho}, tc.rheology, tc.override)
+			if w.AtSeal != tc.atSeal || w.Regime != tc.regime || !near(w.MinResidence, tc.time, 1e-12) || !near(w.Volumetric, tc.flow, 1e-12) {
+				t.Errorf("worst %+v; want at seal %v, %v, t %.6g s at %.6g m³/s", w, tc.atSeal, tc.regime, tc.time, tc.flow)
+			}
+		})
+	}
+	// The worked example's numbers, to four digits.
+	w := tube.WorstFlow(Flow{Volumetric: 3000 / 3.6e6, Density: rho}, nw, 0)
+	if !near(w.MinResidence, 24.46, 0.0005) || !near(w.Volumetric*3.6e6, 2608, 0.0005) {
+		t.Errorf("worked example: %.4g s at %.4g L/h", w.MinResidence, w.Volumetric*3.6e6)
+	}
+	// A power-law product: v₄₀₀₀ from the inverted Metzner–Reed number gives Re_MR = 4000.
+	pl := PowerLaw{N: 0.65, K: 0.02}
+	if re := pl.Reynolds(rho, pl.VelocityAt(4000, rho, d), d); !near(re, 4000, 1e-12) {
+		t.Errorf("power law: Re at v₄₀₀₀ = %.15g", re)
+	}
+	// Its worst flow (docs/METHOD.md §7.7, hand formula): n = 0.65, K = 0.02 Pa·s^0.65,
+	// v₄₀₀₀ = [4000 K 8^(n−1) ((3n+1)/(4n))ⁿ / (ρ Dⁿ)]^(1/(2−n)), r_lam = 2.95/1.65,
+	// t_worst = L/(r_lam v₄₀₀₀) = L/(1.788 v₄₀₀₀), for a seal of 1.2 v₄₀₀₀ (Re_MR = 4000·1.2^1.35 = 5119,
+	// turbulent, r ≈ 1.31: t_seal = L/(1.57 v₄₀₀₀), longer).
+	n := 0.65
+	v4pl := math.Pow(4000*0.02*math.Pow(8, n-1)*math.Pow((3*n+1)/(4*n), n)/(rho*math.Pow(d, n)), 1/(2-n))
+	w = tube.WorstFlow(Flow{Volumetric: 1.2 * v4pl * tube.CrossSection(), Density: rho}, pl, 0)
+	if w.AtSeal || !near(w.MinResidence, 20/(2.95/1.65*v4pl), 1e-12) || !near(w.Volumetric, v4pl*tube.CrossSection(), 1e-12) {
+		t.Errorf("power law worst flow %+v; want t %.6g s", w, 20/(2.95/1.65*v4pl))
+	}
+}
+
+func TestMaxFlowOverTheTurbulentJump(t *testing.T) {
+	// 20 m of 2 in tube, μ 5 mPa·s, ρ 1030, a 24.71 s row. Laminar flows meet it
+	// up to Q_a = V/(2·24.71) = 2581.5 L/h; Q₄₀₀₀ = 2608 L/h; between them the
+	// fastest particle has less than 24.71 s, so the answer is Q_a (a scan on a
+	// grid stepped over this band and gave 3958 L/h).
+	tube := Tube{InnerDiameter: 0.047498, Length: 20}
+	nw := Newtonian{Viscosity: 5e-3}
+	qa := tube.Volume() / (2 * 24.71)
+	if q := tube.MaxFlowFor(24.71, 1030, nw, 0, 0.1); !near(q, qa, 1e-12) || !near(q*3.6e6, 2581.5, 1e-4) {
+		t.Errorf("max flow %.6g L/h, want %.6g L/h", q*3.6e6, qa*3.6e6)
+	}
+	// A shorter row is met by every laminar flow and up to the turbulent root of
+	// t_min(Q) = 20 s, found to 1e-12 relative: t_min there is 20 s.
+	q := tube.MaxFlowFor(20, 1030, nw, 0, 0.1)
+	h := tube.Hydraulics(Flow{Volumetric: q, Density: 1030}, nw, 0)
+	if q <= tube.TurbulentOnsetFlow(1030, nw) || h.Regime != Turbulent || !near(h.MinResidence, 20, 1e-11) {
+		t.Errorf("turbulent root: %.6g L/h, %v, t %.15g", q*3.6e6, h.Regime, h.MinResidence)
+	}
+	// With an entered ratio: V/(r_o t).
+	if q := tube.MaxFlowFor(20, 1030, nw, 1.5, 0.1); !near(q, tube.Volume()/30, 1e-12) {
+		t.Errorf("entered ratio: %g", q)
+	}
+	// Capped at hi when every flow up to it meets the row.
+	if q := tube.MaxFlowFor(0.01, 1030, nw, 0, 0.001); !near(q, 0.001, 1e-15) {
+		t.Errorf("capped: %g", q)
+	}
+}

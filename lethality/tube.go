@@ -56,6 +56,9 @@ type Rheology interface {
 	// Reynolds is the (generalized) Reynolds number for density rho, mean
 	// velocity v and diameter d.
 	Reynolds(rho, v, d float64) float64
+	// VelocityAt is the mean velocity at which the Reynolds number equals
+	// re: the inverse of Reynolds in v.
+	VelocityAt(re, rho, d float64) float64
 }
 
 // Newtonian is a fluid of constant viscosity.
@@ -67,6 +70,9 @@ func (Newtonian) FlowIndex() float64 { return 1 }
 
 // Reynolds is Re = ρ v D / μ.
 func (n Newtonian) Reynolds(rho, v, d float64) float64 { return rho * v * d / n.Viscosity }
+
+// VelocityAt is v = Re μ / (ρ D).
+func (n Newtonian) VelocityAt(re, rho, d float64) float64 { return re * n.Viscosity / (rho * d) }
 
 // PowerLaw is a fluid with τ = K γ̇ⁿ.
 type PowerLaw struct {
@@ -83,7 +89,20 @@ func (p PowerLaw) FlowIndex() float64 { return p.N }
 // which reduces to ρvD/μ at n = 1, K = μ. References: Metzner and Reed (1955).
 func (p PowerLaw) Reynolds(rho, v, d float64) float64 {
 	n := p.N
-	return rho * math.Pow(v, 2-n) * math.Pow(d, n) / (p.K * math.Pow(8, n-1) * math.Pow((3*n+1)/(4*n), n))
+	return rho * math.Pow(v, 2-n) * math.Pow(d, n) / (p.metznerReedScale())
+}
+
+// metznerReedScale is K 8^(n−1) ((3n+1)/(4n))ⁿ, Pa·sⁿ.
+func (p PowerLaw) metznerReedScale() float64 {
+	n := p.N
+	return p.K * math.Pow(8, n-1) * math.Pow((3*n+1)/(4*n), n)
+}
+
+// VelocityAt inverts the Metzner–Reed number for n < 2:
+//
+//	v = [ Re K 8^(n−1) ((3n+1)/(4n))ⁿ / (ρ Dⁿ) ]^(1/(2−n))
+func (p PowerLaw) VelocityAt(re, rho, d float64) float64 {
+	return math.Pow(re*p.metznerReedScale()/(rho*math.Pow(d, p.N)), 1/(2-p.N))
 }
 
 // Regime is the flow regime in the tube.

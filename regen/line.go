@@ -34,7 +34,10 @@ type LineResult struct {
 //  2. heating: product T_r → HeatingOutlet
 //  3. cooling stages: product T_p → … → OutletTarget (or what rated stages reach)
 //
-// Without regeneration, T_r = RawInlet and T_p = Setpoint.
+// Without regeneration, T_r = RawInlet and T_p = Setpoint. A section with a
+// plate pack (its spec's Pack) takes U from the pack, or keeps an entered U
+// and rates the pack beside it (SectionPack); its Section.Pack holds the
+// pack's rating.
 func Line(in LineInput) (LineResult, error) {
 	if !(in.ProductCapacity > 0) {
 		panic(fmt.Sprintf("%sLine: product capacity %g must be positive", panicPrefix, in.ProductCapacity))
@@ -45,7 +48,11 @@ func Line(in LineInput) (LineResult, error) {
 	}
 	rawOut, pastOut := in.RawInlet, in.Setpoint
 	if in.Regeneration != nil {
-		sec, err := Regeneration(*in.Regeneration, in.ProductCapacity, in.RawInlet, in.Setpoint)
+		spec := *in.Regeneration
+		sec, err := withPack("regeneration", spec.Pack, spec.Surface, func(s Surface) (Section, error) {
+			spec.Surface = s
+			return Regeneration(spec, in.ProductCapacity, in.RawInlet, in.Setpoint)
+		})
 		if err != nil {
 			return res, err
 		}
@@ -54,7 +61,11 @@ func Line(in LineInput) (LineResult, error) {
 		rawOut, pastOut = sec.ProductOut, sec.OtherOut
 	}
 	if in.Heating != nil {
-		sec, err := Heating(*in.Heating, in.ProductCapacity, rawOut, in.HeatingOutlet)
+		spec := *in.Heating
+		sec, err := withPack("heating", spec.Pack, spec.Surface, func(s Surface) (Section, error) {
+			spec.Surface = s
+			return Heating(spec, in.ProductCapacity, rawOut, in.HeatingOutlet)
+		})
 		if err != nil {
 			return res, err
 		}
@@ -66,7 +77,10 @@ func Line(in LineInput) (LineResult, error) {
 		if i == len(in.Cooling)-1 && st.Mode() == Sizing && math.IsNaN(st.ProductOut) {
 			st.ProductOut = in.OutletTarget
 		}
-		sec, err := Cooling(st, in.ProductCapacity, t)
+		sec, err := withPack(label("cooling", st.Stage), st.Pack, st.Surface, func(s Surface) (Section, error) {
+			st.Surface = s
+			return Cooling(st, in.ProductCapacity, t)
+		})
 		if err != nil {
 			return res, err
 		}

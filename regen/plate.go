@@ -163,7 +163,7 @@ type PackValueError struct {
 func (e *PackValueError) Error() string {
 	v := fmt.Sprintf("%g", e.Value)
 	if e.Field == FieldChevronAngle {
-		v = fmt.Sprintf("%g° (%g rad)", e.Value*180/math.Pi, e.Value)
+		v = fmt.Sprintf("%.4g° (%.4g rad)", e.Value*180/math.Pi, e.Value)
 	}
 	return fmt.Sprintf("plate pack: the %s is %s; it must be %s", e.Field, v, packLimits[e.Field].what)
 }

@@ -56,6 +56,8 @@ type Section struct {
 	OtherCapacity         float64 // W/K
 	MediumMassFlow        float64 // kg/s; 0 for regeneration
 	MediumSpecificHeat    float64 // J/(kg·K) at the mean medium temperature; 0 for regeneration
+
+	Pack *PackResult // the section's plate pack (LineInput's SectionPack); nil without one
 }
 
 // Area is the area the section reports: the required area when sizing, the
@@ -126,7 +128,8 @@ func rate(s Surface, area, cHot, cCold, hotIn, coldIn float64) float64 {
 // (in Surface) in rating mode.
 type RegenSpec struct {
 	Surface
-	Ratio float64 // sizing: the regeneration ratio, 0 < ratio < 1 (co-current: < 0.5)
+	Ratio float64      // sizing: the regeneration ratio, 0 < ratio < 1 (co-current: < 0.5)
+	Pack  *SectionPack // Line: U and pressure drops from a plate pack; nil without one (Regeneration ignores it)
 }
 
 // Regeneration computes the product-to-product section. Raw product enters
@@ -166,7 +169,8 @@ type MediumSpec struct {
 	Surface
 	Medium Medium
 	Flow   Flow
-	Inlet  float64 // °C: the medium inlet (heating in rating mode: the hottest available)
+	Inlet  float64      // °C: the medium inlet (heating in rating mode: the hottest available)
+	Pack   *SectionPack // Line: U and pressure drops from a plate pack; nil without one (Heating and Cooling ignore it)
 }
 
 // Heating computes the heating section, which brings product of capacity c

@@ -120,16 +120,10 @@ func (r *renderer) diagram(dg Diagram) {
 		f.Line(x1, top, x1, top+height)
 		// other stream
 		if s.Other != "" {
-			col := colCold
-			switch {
-			case s.OtherIsHot:
-				col = colHot
-			case s.OtherIsProduct:
-				col = colRegen
-			}
+			col, dash := otherStyle(s)
 			r.setDraw(col)
 			f.SetLineWidth(0.5)
-			f.SetDashPattern([]float64{2, 1.2}, 0)
+			f.SetDashPattern(dash, 0)
 			f.Line(x0+2, Y(s.OtherAtLeft), x1-2, Y(s.OtherAtRight))
 			f.SetDashPattern(nil, 0)
 			r.arrow(x0+2, Y(s.OtherAtLeft), x1-2, Y(s.OtherAtRight), s.OtherLeftward, col)
@@ -192,15 +186,39 @@ func (r *renderer) diagram(dg Diagram) {
 	f.Rect(left, top, width, height, "D")
 	// legend
 	ly := top + height + 10
-	r.legend(left, ly, []legendItem{{"product", colProduct, false}, {"heating medium / pasteurized product", colHot, true},
-		{"cooling medium", colCold, true}, {"raw product (regenerator)", colRegen, true}})
+	r.legend(left, ly, []legendItem{{"product", colProduct, nil}, {"heating medium", colHot, dashHeating},
+		{"pasteurized (regenerator)", colPasteurized, dashPasteurized}, {"cooling medium", colCold, dashCooling},
+		{"raw (regenerator)", colRegen, dashRaw}})
 	f.SetY(ly + 6)
 }
 
 type legendItem struct {
-	name   string
-	col    [3]int
-	dashed bool
+	name string
+	col  [3]int
+	dash []float64 // nil: solid
+}
+
+// The other stream of each kind has its own colour and dash pattern, so that
+// the heating medium and the pasteurized product are told apart in print.
+var (
+	colPasteurized  = [3]int{200, 110, 0}
+	dashHeating     = []float64{2, 1.2}
+	dashPasteurized = []float64{0.6, 0.9}
+	dashCooling     = []float64{2, 1.2}
+	dashRaw         = []float64{3, 1, 0.6, 1}
+)
+
+// otherStyle is the colour and dash pattern of a segment's other stream.
+func otherStyle(s Segment) ([3]int, []float64) {
+	switch {
+	case s.OtherIsProduct && s.OtherIsHot:
+		return colPasteurized, dashPasteurized
+	case s.OtherIsProduct:
+		return colRegen, dashRaw
+	case s.OtherIsHot:
+		return colHot, dashHeating
+	}
+	return colCold, dashCooling
 }
 
 func (r *renderer) legend(x, y float64, items []legendItem) {
@@ -209,15 +227,15 @@ func (r *renderer) legend(x, y float64, items []legendItem) {
 	for _, it := range items {
 		r.setDraw(it.col)
 		f.SetLineWidth(0.6)
-		if it.dashed {
-			f.SetDashPattern([]float64{2, 1.2}, 0)
+		if it.dash != nil {
+			f.SetDashPattern(it.dash, 0)
 		}
 		f.Line(x, y+1.8, x+8, y+1.8)
 		f.SetDashPattern(nil, 0)
 		f.SetXY(x+9, y)
 		wd := f.GetStringWidth(it.name) + 2
 		f.CellFormat(wd, 3.6, printable(it.name), "", 0, "L", false, 0, "")
-		x += wd + 13
+		x += wd + 8
 	}
 }
 
@@ -294,7 +312,7 @@ func (r *renderer) plot(p Plot) {
 	f.CellFormat(60, 3.6, printable(p.YLabel), "", 0, "L", false, 0, "")
 	items := make([]legendItem, len(p.Series))
 	for i, s := range p.Series {
-		items[i] = legendItem{s.Name, seriesCols[i%len(seriesCols)], false}
+		items[i] = legendItem{s.Name, seriesCols[i%len(seriesCols)], nil}
 	}
 	r.legend(left, top+height+9, items)
 	// points, so that a short series still reads

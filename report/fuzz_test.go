@@ -27,7 +27,7 @@ func FuzzVerify(f *testing.F) {
 		blocks = append(blocks, sampleBlock(k))
 	}
 	doc := &Document{Title: "record", PageSize: "A4", Date: time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC), SHA256: hash,
-		ShortHash: hash[:12], PlantBytes: plant, PlantName: "demo.yaml", Sections: []Section{{Heading: "All", Blocks: blocks}}}
+		ShortHash: hash[:12], Attachments: []Attachment{{Name: "demo.yaml", Content: plant}}, Sections: []Section{{Heading: "All", Blocks: blocks}}}
 	pdf, _, err := Render(doc)
 	if err != nil {
 		f.Fatal(err)

@@ -41,7 +41,7 @@ func TestEveryBlockKindRenders(t *testing.T) {
 		blocks = append(blocks, b)
 	}
 	doc := &Document{Title: "t", PageSize: "A4", Date: time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC), SHA256: strings.Repeat("0", 64),
-		ShortHash: strings.Repeat("0", 12), PlantBytes: []byte("x"), PlantName: "x.yaml", Sections: []Section{{Heading: "All", Blocks: blocks}}}
+		ShortHash: strings.Repeat("0", 12), Attachments: []Attachment{{Name: "x.yaml", Content: []byte("x")}}, Sections: []Section{{Heading: "All", Blocks: blocks}}}
 	if _, pages, err := Render(doc); err != nil || pages < 1 {
 		t.Fatalf("render: %d pages, %v", pages, err)
 	}

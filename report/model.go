@@ -4,7 +4,7 @@
 // verification of a PDF against that file later (Verify).
 //
 //	pdf, pages, err := report.Render(doc)
-//	v, err := report.Verify(pdf, nil)    // attachment against the recorded hash
+//	st, err := report.Read(pdf)          // metadata and attached files, for verify
 //
 // The model knows nothing of pasteurizers' results: pasval fills it from its
 // results in internal/record, so this package exposes no internal type and
@@ -16,17 +16,18 @@ import "time"
 
 // Document is the record's content, in reading order.
 type Document struct {
-	Title      string
-	Header     string // site · line, on every page
-	ShortHash  string // first 12 hex digits of the plant file's SHA-256, in every footer
-	SHA256     string
-	Date       time.Time
-	Version    string
-	PageSize   string // "A4" (SI plants) or "Letter" (US plants)
-	PlantName  string
-	PlantBytes []byte
-	Cover      Cover
-	Sections   []Section
+	Title     string
+	Header    string // site · line, on every page
+	ShortHash string // first 12 hex digits of the plant file's SHA-256, in every footer
+	SHA256    string
+	Date      time.Time
+	Version   string
+	PageSize  string // "A4" (SI plants) or "Letter" (US plants)
+	// Attachments are the input files the record carries, the plant file
+	// first; verify re-renders the record from all of them.
+	Attachments []Attachment
+	Cover       Cover
+	Sections    []Section
 }
 
 // Cover is the first page's identification and verdict box.

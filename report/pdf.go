@@ -68,15 +68,18 @@ func Render(doc *Document) (pdf []byte, pages int, err error) {
 	f.AddUTF8FontFromBytes(monoFamily, "", bytes.Clone(gomono.TTF))
 	f.SetTitle(doc.Title+" — "+doc.Header, true)
 	f.SetSubject("pasval validation record; plant file SHA-256 "+doc.SHA256, true)
-	f.SetKeywords(KeywordPrefix+doc.SHA256, false)
+	f.SetKeywords(keywords(doc), false)
 	f.SetCreator("pasval "+doc.Version, true)
 	f.SetAuthor("pasval "+doc.Version, true)
 	f.SetMargins(margin, margin+6, margin)
 	f.SetCellMargin(0) // tables pad their cells themselves (cellPad)
 	f.SetAutoPageBreak(true, margin+4)
 	f.AliasNbPages("{nb}")
-	f.SetAttachments([]fpdf.Attachment{{Content: doc.PlantBytes, Filename: doc.PlantName,
-		Description: "plant file, SHA-256 " + doc.SHA256}})
+	var atts []fpdf.Attachment
+	for _, a := range doc.Attachments {
+		atts = append(atts, fpdf.Attachment{Content: a.Content, Filename: a.Name, Description: a.Description})
+	}
+	f.SetAttachments(atts)
 	pw, _ := f.GetPageSize()
 	r := &renderer{f: f, doc: doc, w: pw - 2*margin}
 	f.SetHeaderFunc(r.header)
@@ -242,6 +245,8 @@ func (r *renderer) bullets(items []string) {
 	f := r.f
 	r.font("", bodySize)
 	for _, it := range items {
+		// An item is never split across pages.
+		r.ensure(float64(len(f.SplitText(printable(it), r.w-6)))*lineH + 0.6)
 		f.SetX(margin + 2)
 		f.CellFormat(4, lineH, printable("•"), "", 0, "L", false, 0, "")
 		f.MultiCell(r.w-6, lineH, printable(it), "", "L", false)
@@ -261,9 +266,13 @@ func (r *renderer) keyValues(pairs [][2]string, labelW float64) {
 		labelW = math.Min(labelW, r.w*0.4)
 	}
 	for _, p := range pairs {
+		// A labelled line is never split across pages: room for the taller of
+		// its label and its value.
 		r.font("", bodySize)
-		r.ensure(float64(len(f.SplitText(printable(p[1]), r.w-labelW)))*lineH + 1)
+		lines := len(f.SplitText(printable(p[1]), r.w-labelW))
 		r.font("B", bodySize)
+		lines = max(lines, len(f.SplitText(printable(p[0]), labelW)))
+		r.ensure(float64(lines)*lineH + 1)
 		y := f.GetY()
 		f.MultiCell(labelW, lineH, printable(p[0]), "", "L", false)
 		y2 := f.GetY()

@@ -2,14 +2,19 @@ package report
 
 import (
 	"bytes"
-	"compress/zlib"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
+	"net/url"
 	"regexp"
-	"strconv"
+	"sort"
+	"strings"
+	"time"
+
+	"github.com/pdfcpu/pdfcpu/pkg/api"
+	"github.com/pdfcpu/pdfcpu/pkg/pdfcpu/model"
 )
 
 // ErrUnreadable is wrapped by Verify's errors when the bytes are not a
@@ -67,6 +72,206 @@ func readAtMost(r io.Reader, limit int64, what string) ([]byte, error) {
 	return data, nil
 }
 
+// Attachment is an input file a record carries (the plant file first).
+type Attachment struct {
+	Name        string // file name
+	Description string
+	Content     []byte
+}
+
+// Keyword tokens of the record's metadata (the PDF Info Keywords entry),
+// separated by spaces; names and verdict labels are query-escaped.
+const (
+	versionToken = "pasval-version:"
+	dateToken    = "pasval-date:"
+	resultToken  = "pasval-result:"
+	verdictToken = "pasval-verdict:" // label=pass|fail, in the cover's order
+	fileToken    = "pasval-file:"    // name=sha256, in attachment order
+)
+
+// keywords is the Keywords entry of a document: the plant file's hash (the
+// token verify has always read), the tool version, the record date, the
+// overall result, each verdict and each attached file's hash.
+func keywords(doc *Document) string {
+	kw := []string{KeywordPrefix + doc.SHA256, versionToken + url.QueryEscape(doc.Version), dateToken + doc.Date.Format("2006-01-02"),
+		resultToken + passWord(doc.Cover.Pass)}
+	for _, v := range doc.Cover.Verdicts {
+		kw = append(kw, verdictToken+url.QueryEscape(v.Check)+"="+passWord(v.Pass))
+	}
+	for _, a := range doc.Attachments {
+		sum := sha256.Sum256(a.Content)
+		kw = append(kw, fileToken+url.QueryEscape(a.Name)+"="+hex.EncodeToString(sum[:]))
+	}
+	return strings.Join(kw, " ")
+}
+
+func passWord(pass bool) string {
+	if pass {
+		return "pass"
+	}
+	return "fail"
+}
+
+// Stored is what a record says about itself: its metadata and its attached
+// files, as read by a PDF library (so a record re-saved by another program is
+// read too).
+type Stored struct {
+	RecordedSHA256 string // the plant file's hash in the metadata
+	// Version, Date, Pass and Verdicts are empty (HasVerdicts false) in a
+	// record that does not carry them.
+	Version     string
+	Date        time.Time
+	Pass        bool
+	Verdicts    []Verdict
+	HasVerdicts bool
+	Attachments []Attachment // in the order the record lists them; the plant file first
+	Pages       int
+}
+
+var (
+	errNoHash   = fmt.Errorf("no plant-file hash in the document metadata: %w", ErrUnreadable)
+	errNoAttach = fmt.Errorf("no attached plant file: %w", ErrUnreadable)
+	hashRe      = regexp.MustCompile(`^[0-9a-f]{64}$`)
+)
+
+// readContext parses a PDF with pdfcpu, turning its failures (and any panic
+// on hostile bytes) into errors wrapping ErrUnreadable. pdfcpu's
+// configuration folder is disabled: nothing is read or written on disk.
+func readContext(pdf []byte) (ctx *model.Context, err error) {
+	if len(pdf) > MaxRecordSize {
+		return nil, &SizeError{What: "pasval record", Limit: MaxRecordSize}
+	}
+	if !bytes.HasPrefix(pdf, []byte("%PDF-")) {
+		return nil, fmt.Errorf("not a PDF file: %w", ErrUnreadable)
+	}
+	defer func() {
+		if r := recover(); r != nil {
+			ctx, err = nil, fmt.Errorf("the PDF cannot be parsed (%v): %w", r, ErrUnreadable)
+		}
+	}()
+	api.DisableConfigDir()
+	conf := model.NewDefaultConfiguration()
+	conf.ValidationMode = model.ValidationRelaxed
+	ctx, err = api.ReadAndValidate(bytes.NewReader(pdf), conf)
+	if err != nil {
+		return nil, fmt.Errorf("the PDF cannot be parsed (%v): %w", err, ErrUnreadable)
+	}
+	return ctx, nil
+}
+
+// Read reads a record's metadata and attached files.
+func Read(pdf []byte) (st *Stored, err error) {
+	ctx, err := readContext(pdf)
+	if err != nil {
+		return nil, err
+	}
+	defer func() {
+		if r := recover(); r != nil {
+			st, err = nil, fmt.Errorf("the PDF cannot be parsed (%v): %w", r, ErrUnreadable)
+		}
+	}()
+	st = &Stored{Pages: ctx.PageCount}
+	var order []string
+	for _, tok := range strings.Fields(ctx.XRefTable.Keywords) {
+		switch {
+		case strings.HasPrefix(tok, KeywordPrefix):
+			if h := strings.TrimPrefix(tok, KeywordPrefix); hashRe.MatchString(h) {
+				st.RecordedSHA256 = h
+			}
+		case strings.HasPrefix(tok, versionToken):
+			st.Version, _ = url.QueryUnescape(strings.TrimPrefix(tok, versionToken))
+		case strings.HasPrefix(tok, dateToken):
+			st.Date, _ = time.Parse("2006-01-02", strings.TrimPrefix(tok, dateToken))
+		case strings.HasPrefix(tok, resultToken):
+			st.Pass = strings.TrimPrefix(tok, resultToken) == "pass"
+			st.HasVerdicts = true
+		case strings.HasPrefix(tok, verdictToken):
+			label, word, _ := strings.Cut(strings.TrimPrefix(tok, verdictToken), "=")
+			label, _ = url.QueryUnescape(label)
+			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass"})
+		case strings.HasPrefix(tok, fileToken):
+			name, _, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
+			name, _ = url.QueryUnescape(name)
+			order = append(order, name)
+		}
+	}
+	if st.RecordedSHA256 == "" {
+		return nil, errNoHash
+	}
+	aa, err := ctx.ExtractAttachments(nil)
+	if err != nil {
+		return nil, fmt.Errorf("the attached files cannot be read (%v): %w", err, ErrUnreadable)
+	}
+	for _, a := range aa {
+		if a.Reader == nil {
+			continue
+		}
+		content, err := io.ReadAll(io.LimitReader(a.Reader, maxAttachment+1))
+		if err != nil || len(content) > maxAttachment {
+			return nil, fmt.Errorf("the attached file %q is damaged or too large: %w", a.FileName, ErrUnreadable)
+		}
+		st.Attachments = append(st.Attachments, Attachment{Name: a.FileName, Description: a.Desc, Content: content})
+	}
+	if len(st.Attachments) == 0 {
+		return nil, errNoAttach
+	}
+	rank := func(name string) int {
+		for i, n := range order {
+			if n == name {
+				return i
+			}
+		}
+		return len(order)
+	}
+	sort.SliceStable(st.Attachments, func(i, j int) bool { return rank(st.Attachments[i].Name) < rank(st.Attachments[j].Name) })
+	return st, nil
+}
+
+// PageContents are the decoded content streams of each page of a PDF.
+func PageContents(pdf []byte) (pages [][]byte, err error) {
+	ctx, err := readContext(pdf)
+	if err != nil {
+		return nil, err
+	}
+	defer func() {
+		if r := recover(); r != nil {
+			pages, err = nil, fmt.Errorf("the pages cannot be read (%v): %w", r, ErrUnreadable)
+		}
+	}()
+	for p := 1; p <= ctx.PageCount; p++ {
+		d, _, _, err := ctx.PageDict(p, false)
+		if err != nil || d == nil {
+			return nil, fmt.Errorf("page %d cannot be read: %w", p, ErrUnreadable)
+		}
+		c, err := ctx.PageContent(d, p)
+		if err != nil && !errors.Is(err, model.ErrNoContent) {
+			return nil, fmt.Errorf("page %d cannot be read (%v): %w", p, err, ErrUnreadable)
+		}
+		pages = append(pages, c)
+	}
+	return pages, nil
+}
+
+// FirstDifferentPage compares two PDFs page by page: the first page (from 1)
+// whose content differs, or whose presence differs; 0 when every page's
+// content is the same.
+func FirstDifferentPage(a, b []byte) (int, error) {
+	pa, err := PageContents(a)
+	if err != nil {
+		return 0, err
+	}
+	pb, err := PageContents(b)
+	if err != nil {
+		return 0, err
+	}
+	for i := range max(len(pa), len(pb)) {
+		if i >= len(pa) || i >= len(pb) || !bytes.Equal(pa[i], pb[i]) {
+			return i + 1, nil
+		}
+	}
+	return 0, nil
+}
+
 // Verification is what Verify found.
 type Verification struct {
 	RecordedSHA256   string // from the document metadata
@@ -77,35 +282,18 @@ type Verification struct {
 	Match bool
 }
 
-var (
-	keywordsRe   = regexp.MustCompile(`/Keywords \(` + regexp.QuoteMeta(KeywordPrefix) + `([0-9a-f]{64})\)`)
-	embeddedRe   = regexp.MustCompile(`/Type /EmbeddedFile /Length (\d{1,9}) /Filter /FlateDecode /Params << /CheckSum <[0-9a-f]*> /Size (\d{1,9}) >> >>\n{1,2}stream\n`)
-	errNoHash    = fmt.Errorf("no plant-file hash in the document metadata: %w", ErrUnreadable)
-	errNoAttach  = fmt.Errorf("no attached plant file: %w", ErrUnreadable)
-	errBadStream = fmt.Errorf("the attached plant file is damaged: %w", ErrUnreadable)
-)
-
-// Verify checks a record: that its attached plant file matches the SHA-256
-// recorded in its metadata and, when plant is not nil, that plant matches too.
-// A record that cannot be read returns an error wrapping ErrUnreadable.
+// Verify checks a record's hashes: that its attached plant file matches the
+// SHA-256 recorded in its metadata and, when plant is not nil, that plant
+// matches too. A record that cannot be read returns an error wrapping
+// ErrUnreadable. (pasval verify also re-renders the record: cmd/pasval.)
 func Verify(pdf []byte, plant []byte) (Verification, error) {
 	var v Verification
-	if len(pdf) > MaxRecordSize {
-		return v, &SizeError{What: "pasval record", Limit: MaxRecordSize}
-	}
-	if !bytes.HasPrefix(pdf, []byte("%PDF-")) {
-		return v, fmt.Errorf("not a PDF file: %w", ErrUnreadable)
-	}
-	m := keywordsRe.FindSubmatch(pdf)
-	if m == nil {
-		return v, errNoHash
-	}
-	v.RecordedSHA256 = string(m[1])
-	content, err := attachment(pdf)
+	st, err := Read(pdf)
 	if err != nil {
 		return v, err
 	}
-	sum := sha256.Sum256(content)
+	v.RecordedSHA256 = st.RecordedSHA256
+	sum := sha256.Sum256(st.Attachments[0].Content)
 	v.AttachmentSHA256 = hex.EncodeToString(sum[:])
 	v.Match = v.AttachmentSHA256 == v.RecordedSHA256
 	if plant != nil {
@@ -114,30 +302,4 @@ func Verify(pdf []byte, plant []byte) (Verification, error) {
 		v.Match = v.Match && v.FileSHA256 == v.RecordedSHA256
 	}
 	return v, nil
-}
-
-// Attachment returns the plant file attached to a record.
-func Attachment(pdf []byte) ([]byte, error) { return attachment(pdf) }
-
-func attachment(pdf []byte) ([]byte, error) {
-	loc := embeddedRe.FindSubmatchIndex(pdf)
-	if loc == nil {
-		return nil, errNoAttach
-	}
-	n, err1 := strconv.Atoi(string(pdf[loc[2]:loc[3]]))
-	size, err2 := strconv.Atoi(string(pdf[loc[4]:loc[5]]))
-	start := loc[1]
-	if err1 != nil || err2 != nil || n < 0 || start+n > len(pdf) || size > maxAttachment {
-		return nil, errBadStream
-	}
-	zr, err := zlib.NewReader(bytes.NewReader(pdf[start : start+n]))
-	if err != nil {
-		return nil, errBadStream
-	}
-	defer zr.Close()
-	content, err := io.ReadAll(io.LimitReader(zr, maxAttachment+1))
-	if err != nil || len(content) > maxAttachment || len(content) != size {
-		return nil, errBadStream
-	}
-	return content, nil
 }

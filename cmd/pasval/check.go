@@ -69,7 +69,7 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 	}
 	if opts.record != "" {
 		// Written first, so that a refusal (file exists) comes before any output.
-		if err := writeRecord(res, opts.record, date, opts.force, diag); err != nil {
+		if err := writeRecord(res, opts.record, date, opts.force, diag, nil); err != nil {
 			return err
 		}
 	}
@@ -123,6 +123,7 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 	}
 	writeChecks(w, res, d, colour)
 	writeWarnings(w, present.Warnings(res, d))
+	writeNotes(w, present.Notes(res, d))
 	fmt.Fprint(w, "\n"+wrap(res.Caution, "Caution:", 88))
 }
 
@@ -131,6 +132,12 @@ func writeSections(w io.Writer, res *assess.Result, d present.Display) {
 	tableOf(present.Sections(res, d)).write(w)
 	fmt.Fprintf(w, "\nTemperatures (%s)\n", d.Unit(units.Temperature))
 	tableOf(present.Temperatures(res, d)).write(w)
+	if g := present.PackSides(res, d); len(g.Rows) > 0 {
+		fmt.Fprintf(w, "\nPlate packs (normal rate; Martin's correlation, docs/METHOD.md §12)\n")
+		tableOf(g).write(w)
+		fmt.Fprintln(w)
+		tableOf(present.PackU(res, d)).write(w)
+	}
 	if res.RegenerationRatio != nil {
 		fmt.Fprintf(w, "\nRegeneration ratio  %.1f %%\n", *res.RegenerationRatio*100)
 	}
@@ -166,6 +173,15 @@ func writeComparison(w io.Writer, res *assess.Result, d present.Display) {
 		t.add(label, c.Arrangement, d.Num(c.AreaM2, units.Area, 2), c.Other, other, ratio, note)
 	}
 	t.write(w)
+}
+
+func writeNotes(w io.Writer, notes []string) {
+	if len(notes) > 0 {
+		fmt.Fprintln(w, "\nNotes")
+		for _, m := range notes {
+			fmt.Fprint(w, wrap(m, "  i", 88))
+		}
+	}
 }
 
 func writeWarnings(w io.Writer, warnings []string) {

@@ -84,6 +84,19 @@ func goldenCases() []goldenCase {
 		goldenCase{"htst-milk-si.logs-us", []string{"logs", "--units", "us", "testdata/demo/htst-milk-si.yaml", "testdata/demo/runs/htst-milk-si-shift.csv"}},
 		goldenCase{"bad-run-time-backwards", []string{"logs", "testdata/demo/htst-milk-si.yaml", "testdata/bad-runs/time-backwards.csv"}},
 	)
+	// The SI demo's regenerator has a plate pack: plates added as channels
+	// per pass or as whole passes, and --layout where it does not apply.
+	for _, plant := range []string{"testdata/demo/htst-milk-si.yaml", "testdata/equivalence/htst-milk-us.yaml"} {
+		base := strings.TrimSuffix(filepath.Base(plant), ".yaml")
+		if strings.HasPrefix(plant, "testdata/equivalence/") {
+			base = "equivalence-" + base
+		}
+		cases = append(cases,
+			goldenCase{base + ".plates-channels", []string{"plates", plant, "--add", "16,32,48", "--layout", "channels"}},
+			goldenCase{base + ".plates-passes", []string{"plates", plant, "--add", "10,20,40", "--layout", "passes"}},
+			goldenCase{base + ".plates-layout-json", []string{"plates", plant, "--add", "16", "--layout", "channels", "--json"}})
+	}
+	cases = append(cases, goldenCase{"bad-layout-without-pack", []string{"plates", "testdata/demo/cider-us.yaml", "--add", "10", "--layout", "channels"}})
 	return cases
 }
 

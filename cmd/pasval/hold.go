@@ -22,11 +22,15 @@ func newHoldCmd(stdout io.Writer) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "hold PLANT.yaml",
 		Short: "Show the holding tube in detail: hydraulics, residence, legal rows, lethality",
-		Long: `hold prints the holding tube alone, judged at the sealed maximum flow: mean
+		Long: `hold prints the holding tube alone: at the sealed maximum flow the mean
 velocity, Reynolds number and regime, the fastest-to-mean velocity ratio,
-fastest-particle and mean residence times, the tube length and the largest flow
-that would meet each legal row, and a table of each organism's log reduction
-for diversion setpoints from 1 K below to 2 K above the entered one.
+fastest-particle and mean residence times; the worst flow up to the seal
+(just below Re 4000 when the seal is turbulent and that is shorter), where
+the holding time and log reductions are judged, at the setpoint less the
+sensor's stated accuracy; the tube length and the largest flow that would
+meet each legal row; and a table of each organism's log reduction and the
+legal table for diversion setpoints from 1 K below to 2 K above the entered
+one (whole °F in US units).
 
 Only the holding-tube checks (holding-time, log-reduction, tube-slope) decide
 the exit status here; 'pasval check' judges the whole line.`,
@@ -71,11 +75,18 @@ func runHold(opts holdOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
-	worded := present.ForJSON(res)
-	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
-		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res), Checks: []assess.Check{}, Warnings: worded.Warnings,
-		Pass: true, Caution: res.Caution}
+	// A heat-exchange section's warnings (its plate pack) are check's, not hold's.
 	only := *res
+	only.Warnings = []assess.Warning{}
+	for _, w := range res.Warnings {
+		if w.Section == "" {
+			only.Warnings = append(only.Warnings, w)
+		}
+	}
+	worded := present.ForJSON(&only)
+	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
+		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res, setpointOffsets(d)), Checks: []assess.Check{}, Warnings: worded.Warnings,
+		Pass: true, Caution: res.Caution}
 	only.Checks = []assess.Check{}
 	for i, c := range res.Checks {
 		if c.IsHolding() {
@@ -93,7 +104,8 @@ func runHold(opts holdOptions, out io.Writer) error {
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
 		writeChecks(out, &only, d, useColour(out))
-		writeWarnings(out, present.Warnings(res, d))
+		writeWarnings(out, present.Warnings(&only, d))
+		writeNotes(out, present.Notes(res, d))
 		fmt.Fprint(out, "\n"+wrap(res.Caution, "Caution:", 88))
 	}
 	if !rep.Pass {
@@ -102,11 +114,30 @@ func runHold(opts holdOptions, out io.Writer) error {
 	return nil
 }
 
+// setpointOffsets are the setpoint steps of the table: half kelvins in SI,
+// whole degrees Fahrenheit in US units.
+func setpointOffsets(d present.Display) []float64 {
+	if d.Sys == units.US {
+		return assess.SetpointOffsetsUS
+	}
+	return assess.SetpointOffsets
+}
+
 func writeSetpointTable(w io.Writer, res *assess.Result, rows []assess.SetpointRow, d present.Display) {
 	if len(rows) == 0 || (len(res.Lethality) == 0 && rows[0].LegalMet == nil) {
 		return
 	}
-	fmt.Fprintln(w, "\n  Log reduction of the fastest particle versus diversion setpoint (tube and flow unchanged)")
+	title := "Log reduction of the fastest particle"
+	if len(res.Lethality) == 0 {
+		title = "Legal table"
+	} else if rows[0].LegalMet != nil {
+		title += " and the legal table"
+	}
+	title += " versus diversion setpoint (tube and flow unchanged"
+	if res.HoldingTube.SensorAccuracyK > 0 {
+		title += fmt.Sprintf("; each judged %s below its setpoint", d.With(res.HoldingTube.SensorAccuracyK, units.TemperatureDifference, 2))
+	}
+	fmt.Fprintln(w, "\n  "+title+")")
 	headers := []string{"setpoint"}
 	for _, l := range res.Lethality {
 		headers = append(headers, ">"+l.Organism)
@@ -120,11 +151,15 @@ func writeSetpointTable(w io.Writer, res *assess.Result, rows []assess.SetpointR
 		if r.OffsetK == 0 {
 			label += " (entered)"
 		} else {
-			label += fmt.Sprintf(" (%s)", present.Signed(d.Num(r.OffsetK, units.TemperatureDifference, 1))+" "+d.Unit(units.TemperatureDifference))
+			prec := 1
+			if d.Sys == units.US {
+				prec = 0
+			}
+			label += fmt.Sprintf(" (%s)", present.Signed(d.Num(r.OffsetK, units.TemperatureDifference, prec))+" "+d.Unit(units.TemperatureDifference))
 		}
 		cells := []string{label}
 		for _, lr := range r.LogReductions {
-			cells = append(cells, fmt.Sprintf("%.2f", lr))
+			cells = append(cells, present.LogText(lr))
 		}
 		if r.LegalMet != nil {
 			cells = append(cells, map[bool]string{true: "met", false: "not met"}[*r.LegalMet])

@@ -6,13 +6,12 @@ import (
 
 	"pasval/internal/assess"
 	"pasval/internal/present"
-	"pasval/internal/units"
 )
 
 // writeHolding prints the holding tube and lethality blocks shared by check and hold.
 func writeHolding(w io.Writer, res *assess.Result, d present.Display) {
 	h := res.HoldingTube
-	fmt.Fprintf(w, "\nHolding tube (judged at the sealed maximum, %s)\n", d.With(h.MaxFlowM3s, units.VolumeFlow, 0))
+	fmt.Fprintf(w, "\nHolding tube (%s)\n", present.HoldingHeading(res, d))
 	kv := newTable("", "")
 	for _, p := range present.HoldingFacts(res, d) {
 		kv.add(p[0], p[1])
@@ -24,6 +23,6 @@ func writeHolding(w io.Writer, res *assess.Result, d present.Display) {
 	}
 	if len(res.Lethality) > 0 {
 		fmt.Fprintln(w, "\n  Lethality (fastest particle)")
-		tableOf(present.Lethality(res)).write(w)
+		tableOf(present.Lethality(res, d)).write(w)
 	}
 }

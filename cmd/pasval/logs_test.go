@@ -60,22 +60,23 @@ func scriptedShiftCSV(t *testing.T) string {
 // TestLogsScriptedShift runs the noise-free demo shift through the command
 // and checks each event against values worked by hand from the plant file
 // (docs/METHOD.md §7, §13): the demo tube (2 in sanitary, ID 47.498 mm,
-// A = 1.77190e-3 m², L = 34 m), milk of 1031 kg/m³ and 0.72 mPa·s at and
-// above the setpoint. Speeds u = r·Q/A with Petukhov's ratio (computed with
-// python3 from the formulas of docs/METHOD.md §7.4): 10 000 L/h → Re 106 625,
-// r 1.208718, L/u = 17.9431 s; 12 500 L/h → 14.4140 s; 12 800 L/h → 14.0822 s;
-// 11 500 L/h → 15.6435 s. Below the setpoint the viscosity is ln-interpolated
-// between the plant's 40 °C and 72.5 °C points (docs/METHOD.md §4): 0.72279
-// mPa·s at 72.30 °C gives L/u = 17.94176 s at 10 000 L/h; 0.72840 at 71.9 °C,
-// 17.93913 s; 0.72112 at 72.42 °C and 11 500 L/h, 15.64303 s.
+// A = 1.77190e-3 m², L = 34 m), milk of 1031 kg/m³ whose viscosity is
+// ln-interpolated between the plant's points (docs/METHOD.md §4): 0.71437
+// mPa·s at 73 °C (between 0.72 at 72.5 °C and 0.64 at 80 °C), 0.72279 at
+// 72.30 °C, 0.72840 at 71.9 °C, 0.72112 at 72.42 °C. Fastest-particle times
+// L/(r·Q/A) with Petukhov's ratio (computed with python3 from the formulas of
+// docs/METHOD.md §7.4): at 73 °C, 10 000 L/h → Re 107 465, r 1.208538,
+// 17.945745 s; 12 500 L/h → 14.415999 s; 12 800 L/h → 14.084155 s; 10 000 L/h
+// at 72.30 °C → 17.941761 s, at 71.9 °C → 17.939128 s; 11 500 L/h at 72.42 °C
+// → 15.643030 s.
 func TestLogsScriptedShift(t *testing.T) {
 	v, code := logsJSON(t, demoPlant, scriptedShiftCSV(t))
 	if code != exitFail {
 		t.Errorf("exit %d, want 1 (events found)", code)
 	}
-	un := 34 / 17.943077 // m/s at 10 000 L/h
-	us := 34 / 14.413949 // at 12 500 L/h
-	uc := 34 / 15.643478 // at 11 500 L/h
+	un := 34 / 17.945745 // m/s at 10 000 L/h, 73 °C
+	us := 34 / 14.415999 // at 12 500 L/h, 73 °C
+	uc := 34 / 15.643030 // at 11 500 L/h, 72.42 °C
 	lh := func(q float64) float64 { return q / 3600 }
 	// Listeria: D(T) = 0.9 s · 10^((71.7 − T)/6.3).
 	dL := func(temp float64) float64 { return 0.9 * math.Pow(10, (71.7-temp)/6.3) }
@@ -86,22 +87,23 @@ func TestLogsScriptedShift(t *testing.T) {
 		atRisk                  float64
 		divert                  any // nil or seconds
 	}
-	steady := 17.943077
-	shortMin := 7 + (34-7*us)/un    // 16.2292 s: 7 s of surge, the rest at the normal rate
-	combinedMin := 7 + (34-7*uc)/un // 16.9141 s
+	steady := 17.945745
+	shortMin := 7 + (34-7*us)/un    // 16.2318 s: 7 s of surge, the rest at the normal rate
+	combinedMin := 7 + (34-7*uc)/un // 16.9153 s
 	wants := []want{
 		// A 20 s dip to 72.30 °C, above the 72 °C row: limits met, not diverted.
-		{"temperature", "2026-03-14T06:25:00Z", "limits met", 20, 20 * lh(10000), 72.30, 10000, steady, 17.941762, 0, nil},
+		// Longer than the residence: its last parcels crossed the tube at 72.30 °C.
+		{"temperature", "2026-03-14T06:25:00Z", "limits met", 20, 20 * lh(10000), 72.30, 10000, 17.941761, 17.941761, 0, nil},
 		// 72.4 then 71.9 °C (below every row: at risk), diverted at the third sample below.
 		{"temperature", "2026-03-14T06:50:01Z", "product at risk", 2, 2 * lh(10000), 71.9, 10000, steady, 17.939128, lh(10000), 2.0},
 		// 8 s at 12 500 L/h: per parcel 16.23 s meets 15 s; per sample 14.41 s would not.
-		{"flow", "2026-03-14T07:15:00Z", "limits met", 8, 8 * lh(12500), 73, 12500, shortMin, 14.413949, 0, nil},
+		{"flow", "2026-03-14T07:15:00Z", "limits met", 8, 8 * lh(12500), 73, 12500, shortMin, 14.415999, 0, nil},
 		// 45 s at 12 800 L/h: the tube fills with surge product, 14.08 s.
 		// At risk: the parcels leaving from +k s with k + (34 − k·u_l)/u_n < 15
 		// (k ≥ 11, worked with python3): 34 samples × 12 800 L/h × 1 s.
-		{"flow", "2026-03-14T07:35:00Z", "product at risk", 45, 45 * lh(12800), 73, 12800, 14.082161, 14.082161, 34 * lh(12800), nil},
+		{"flow", "2026-03-14T07:35:00Z", "product at risk", 45, 45 * lh(12800), 73, 12800, 14.084155, 14.084155, 34 * lh(12800), nil},
 		// Then 5 parcels leave within both limits but under-held: j + (34 − j·u_n)/u_l < 15 for j = 0…4.
-		{"lethality", "2026-03-14T07:35:45Z", "product at risk", 5, 5 * lh(10000), 73, 10000, 14.082161, steady, 5 * lh(10000), nil},
+		{"lethality", "2026-03-14T07:35:45Z", "product at risk", 5, 5 * lh(10000), 73, 10000, 14.084155, steady, 5 * lh(10000), nil},
 		// The recorder's 40 s hole in forward flow.
 		{"gap", "2026-03-14T07:50:00Z", "no record", 40, 40 * lh(10000), 73, 10000, steady, steady, 40 * lh(10000), nil},
 		{"temperature+flow", "2026-03-14T07:55:00Z", "limits met", 8, 8 * lh(11500), 72.42, 11500, combinedMin, 15.643030, 0, nil},
@@ -129,10 +131,9 @@ func TestLogsScriptedShift(t *testing.T) {
 			}{
 				{"duration_s", w.duration, 1e-9}, {"volume_L", w.volume, 1e-9}, {"min_temperature_C", w.minT, 1e-9},
 				{"max_flow_L_h", w.maxQ, 1e-9}, {"at_risk_volume_L", w.atRisk, 1e-9},
-				// The per-parcel hand values take every interval at 73 °C
-				// (0.72 mPa·s), where the dips' few seconds were a little more
-				// viscous (a change under 1e-4); the speeds are rounded to 7
-				// digits.
+				// The per-parcel hand values take every interval at 73 °C,
+				// where the dips' few seconds were a little more viscous (a
+				// change under 1e-4); the speeds are rounded to 7 digits.
 				{"min_residence_s", w.minRes, 1e-4}, {"min_sample_residence_s", w.sampleRes, 1e-6},
 			} {
 				if got := num(e, c.key); math.Abs(got-c.want) > c.tol*math.Max(1, math.Abs(c.want)) {
@@ -384,7 +385,7 @@ func TestLogsPlantWithoutCriteria(t *testing.T) {
 	for _, c := range []struct{ name, text, msg string }{
 		{"no-tube.yaml", noTube, ":1:1: holding_tube: the plant file describes no holding tube"},
 		// At the holding tube, whose run cannot be judged.
-		{"no-criteria.yaml", noCriteria, ":48:3: legal_minimums: neither a legal time–temperature row nor a required log reduction"},
+		{"no-criteria.yaml", noCriteria, ":72:3: legal_minimums: neither a legal time–temperature row nor a required log reduction"},
 	} {
 		path := filepath.Join(dir, c.name)
 		writeFile(t, path, c.text)

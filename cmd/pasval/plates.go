@@ -16,10 +16,11 @@ import (
 
 type platesOptions struct {
 	outputFlags
-	file  string
-	add   string // "10,20,40"
-	sweep string // "FROM:TO:STEP"
-	knee  float64
+	file   string
+	add    string // "10,20,40"
+	sweep  string // "FROM:TO:STEP"
+	knee   float64
+	layout string // passes or channels, for a regenerator with a plate pack
 }
 
 func newPlatesCmd(stdout io.Writer) *cobra.Command {
@@ -39,8 +40,16 @@ savings. With an economics block the savings are priced:
   payback = added plates · plate cost / annual cost saved
 
 --sweep also marks the knee: beyond it each further 10 plates save less than
---knee-fraction of what the first 10 saved.`,
+--knee-fraction of what the first 10 saved.
+
+A regenerator with a plate pack (plate, product_side, other_side) needs
+--layout: passes adds whole passes to both sides (the channel velocity and U
+stay, the pressure drop grows), channels adds channels per pass to both sides
+(the velocity falls, and with it U and the pressure drop). Each option is
+rounded to whole steps of the layout, U and the pressure drops are computed
+for it, and the table gains U and the product-side pressure drop.`,
 		Example: `  pasval plates testdata/demo/cider-us.yaml --add 10,20,40
+  pasval plates testdata/demo/htst-milk-si.yaml --add 10,20,40 --layout channels
   pasval plates line2.yaml --sweep 5:60:5
   pasval plates line2.yaml --add 20 --json`,
 		Args: argsFile,
@@ -53,6 +62,7 @@ savings. With an economics block the savings are priced:
 	cmd.Flags().StringVar(&opts.add, "add", "", "plates to add, comma-separated (e.g. 10,20,40)")
 	cmd.Flags().StringVar(&opts.sweep, "sweep", "", "a range of added plates FROM:TO:STEP (e.g. 5:60:5)")
 	cmd.Flags().Float64Var(&opts.knee, "knee-fraction", assess.DefaultKneeFraction, "knee: where 10 more plates save less than this fraction of the first 10")
+	cmd.Flags().StringVar(&opts.layout, "layout", "", "with a plate pack: add plates as whole passes or as channels per pass (passes|channels)")
 	opts.register(cmd)
 	return cmd
 }
@@ -104,11 +114,15 @@ func runPlates(opts platesOptions, out io.Writer) error {
 	if !(opts.knee > 0 && opts.knee < 1) {
 		return usagef("--knee-fraction must be between 0 and 1, not %g", opts.knee)
 	}
+	layout := assess.Layout(opts.layout)
+	if layout != assess.LayoutNone && layout != assess.LayoutPasses && layout != assess.LayoutChannels {
+		return usagef("--layout must be passes or channels, not %q", opts.layout)
+	}
 	p, d, err := opts.load(opts.file)
 	if err != nil {
 		return err
 	}
-	w, err := assess.AddPlates(p, added, opts.knee)
+	w, err := assess.AddPlates(p, added, opts.knee, layout)
 	if err != nil {
 		return err
 	}
@@ -142,6 +156,10 @@ func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.D
 		return ""
 	}
 	fmt.Fprintf(w, "\nLine with added plates (normal rate)\n")
+	if wi.Layout != assess.LayoutNone {
+		tableOf(present.PlatesLayout(wi, d)).write(w)
+		fmt.Fprintln(w)
+	}
 	t := newTable(">added", ">plates", ">ratio", ">raw out "+tu, ">pasteurized out "+tu, ">heating "+duty, ">cooling "+duty,
 		">medium needed "+tu, ">cooling outlet "+tu, "checks", "")
 	for _, o := range all {
@@ -156,6 +174,12 @@ func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.D
 			d.Num(o.PasteurizedOutC, units.Temperature, 1), d.Power(o.HeatingDutyKW*1e3), d.Power(o.CoolingDutyKW*1e3), med, cool, present.ChecksText(o), kneeMark(o))
 	}
 	t.write(w)
+	if notes := present.LayoutNotes(wi); len(notes) > 0 {
+		fmt.Fprintln(w)
+		for _, note := range notes {
+			fmt.Fprint(w, wrap(note, "  ", 88))
+		}
+	}
 
 	fmt.Fprintf(w, "\nSavings against the baseline\n")
 	cur := wi.Currency

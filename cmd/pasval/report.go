@@ -1,6 +1,8 @@
 package main
 
 import (
+	"crypto"
+	"crypto/x509"
 	"fmt"
 	"io"
 	"os"
@@ -21,6 +23,9 @@ type reportOptions struct {
 	output string
 	date   string // YYYY-MM-DD; empty: today
 	force  bool
+	// signKey and signCert are PEM files: the record is signed with a
+	// standard PDF signature when both are given.
+	signKey, signCert string
 }
 
 func newReportCmd(stdout io.Writer) *cobra.Command {
@@ -37,7 +42,12 @@ SHA-256 is in the document metadata; 'pasval verify' checks them later.
 
 The record is written to a temporary file beside the target and renamed, so a
 failure never leaves a partial record; an existing file is kept unless --force.
-With --date the same plant file gives the same PDF bytes.`,
+With --date the same plant file gives the same PDF bytes.
+
+With --sign KEY.pem --cert CERT.pem the record carries a standard PDF
+signature (PKCS#7, SHA-256), appended after the record so that 'pasval
+verify' still compares the record with its re-render and checks the
+signature too.`,
 		Example: `  pasval report testdata/demo/htst-milk-si.yaml -o line2-record.pdf
   pasval report line2.yaml -o line2.pdf --date 2026-12-01 --force`,
 		Args: argsFile,
@@ -50,6 +60,8 @@ With --date the same plant file gives the same PDF bytes.`,
 	cmd.Flags().StringVarP(&opts.output, "output", "o", "", "the record to write (required)")
 	cmd.Flags().StringVar(&opts.date, "date", "", "record date YYYY-MM-DD (default: today); fixes the PDF bytes")
 	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the record if it exists")
+	cmd.Flags().StringVar(&opts.signKey, "sign", "", "sign the record with this private key (PEM: PKCS#8, PKCS#1 RSA or EC)")
+	cmd.Flags().StringVar(&opts.signCert, "cert", "", "the signer's certificate (PEM; its chain may follow), with --sign")
 	return cmd
 }
 
@@ -74,6 +86,10 @@ func runReport(opts reportOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
+	sg, err := loadSigner(opts.signKey, opts.signCert)
+	if err != nil {
+		return err
+	}
 	p, err := plantfile.Load(opts.file)
 	if err != nil {
 		return err
@@ -82,7 +98,7 @@ func runReport(opts reportOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if err := writeRecord(res, opts.output, date, opts.force, out); err != nil {
+	if err := writeRecord(res, opts.output, date, opts.force, out, sg); err != nil {
 		return err
 	}
 	if !res.Pass {
@@ -91,8 +107,47 @@ func runReport(opts reportOptions, out io.Writer) error {
 	return nil
 }
 
-// writeRecord renders and writes the record atomically.
-func writeRecord(res *assess.Result, path string, date time.Time, force bool, out io.Writer) error {
+// recordSigner is a key and certificate chain to sign records with.
+type recordSigner struct {
+	key   crypto.Signer
+	chain []*x509.Certificate
+}
+
+// maxKeyFile bounds a key or certificate file (a few kilobytes).
+const maxKeyFile = 1 << 20
+
+// loadSigner reads --sign and --cert (both or neither).
+func loadSigner(keyPath, certPath string) (*recordSigner, error) {
+	if keyPath == "" && certPath == "" {
+		return nil, nil
+	}
+	if keyPath == "" || certPath == "" {
+		return nil, usagef("--sign and --cert go together: the private key and the signer's certificate")
+	}
+	read := func(r io.Reader) ([]byte, error) {
+		b, err := io.ReadAll(io.LimitReader(r, maxKeyFile+1))
+		if err == nil && len(b) > maxKeyFile {
+			err = fmt.Errorf("larger than %d MiB", maxKeyFile>>20)
+		}
+		return b, err
+	}
+	keyPEM, err := readRegular(keyPath, "key", read)
+	if err != nil {
+		return nil, err
+	}
+	certPEM, err := readRegular(certPath, "certificate", read)
+	if err != nil {
+		return nil, err
+	}
+	key, chain, err := report.ParseSigner(keyPEM, certPEM)
+	if err != nil {
+		return nil, usagef("%s, %s: %v", keyPath, certPath, err)
+	}
+	return &recordSigner{key: key, chain: chain}, nil
+}
+
+// writeRecord renders (and signs, with sg) and writes the record atomically.
+func writeRecord(res *assess.Result, path string, date time.Time, force bool, out io.Writer, sg *recordSigner) error {
 	if same, _ := sameFile(path, res.Plant.File); same {
 		return usagef("the record %s would overwrite the plant file", path)
 	}
@@ -104,6 +159,15 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if err != nil {
 		return err
 	}
+	signed := ""
+	if sg != nil {
+		name := sg.chain[0].Subject.CommonName
+		if pdf, err = report.Sign(pdf, sg.key, sg.chain, report.SignInfo{Name: name, Reason: "pasval validation record",
+			Time: time.Now().UTC()}); err != nil {
+			return err
+		}
+		signed = ", signed by " + name
+	}
 	if err := fileout.Write(path, pdf, force); err != nil {
 		return usagef("%v", err)
 	}
@@ -111,7 +175,7 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if !res.Pass {
 		verdict = "FAIL"
 	}
-	fmt.Fprintf(out, "wrote %s: %d pages, %s, plant file sha256 %s\n", path, pages, verdict, res.InputSHA256)
+	fmt.Fprintf(out, "wrote %s: %d pages, %s, plant file sha256 %s%s\n", path, pages, verdict, res.InputSHA256, signed)
 	return nil
 }
 

@@ -24,9 +24,13 @@ func TestScripts(t *testing.T) {
 	}
 	testscript.Run(t, testscript.Params{
 		Dir: scriptDir,
+		// -update rewrites the compared outputs inside the scripts (review
+		// the diff); TestReadmeCommandsAreScripts then carries them into the
+		// README.
+		UpdateScripts: *update,
 		Setup: func(env *testscript.Env) error {
 			// The demos and the bad-input corpus, where the README's commands expect them.
-			for _, d := range []string{"demo", "bad", "bad-runs", "equivalence"} {
+			for _, d := range []string{"demo", "bad", "bad-runs", "equivalence", "judging"} {
 				if err := os.CopyFS(filepath.Join(env.WorkDir, "testdata", d), os.DirFS(filepath.Join(root, "testdata", d))); err != nil {
 					return err
 				}
@@ -118,6 +122,9 @@ func scriptCommands(t *testing.T) map[string]scriptCommand {
 
 func TestReadmeCommandsAreScripts(t *testing.T) {
 	scripts := scriptCommands(t)
+	if *update {
+		syncReadme(t, scripts)
+	}
 	shown := readmeCommands(t)
 	if len(shown) < 10 {
 		t.Fatalf("only %d commands found in the README", len(shown))
@@ -169,4 +176,57 @@ func shownIn(shown, full []string) bool {
 		j, gap = j+1, false
 	}
 	return true
+}
+
+// syncReadme rewrites, with -update, the output the README shows under a
+// "$ pasval …" line when it no longer matches what its script expects,
+// with the script's whole output (a block with a "..." gap is left for a
+// person to edit, and the test then says whether it still matches).
+func syncReadme(t *testing.T, scripts map[string]scriptCommand) {
+	const path = "../../README.md"
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(string(data), "\n")
+	var out []string
+	in := false
+	for i := 0; i < len(lines); i++ {
+		l := lines[i]
+		out = append(out, l)
+		if strings.HasPrefix(l, "```") {
+			in = !in
+			continue
+		}
+		if !in || !strings.HasPrefix(l, "$ pasval ") {
+			continue
+		}
+		end := i + 1
+		for end < len(lines) && !strings.HasPrefix(lines[end], "```") && !strings.HasPrefix(lines[end], "$ pasval ") {
+			end++
+		}
+		shown := lines[i+1 : end]
+		sc, ok := scripts[normalize(l[2:])]
+		if !ok || len(shown) == 0 || sc.compared == "" || contains(shown, "...") {
+			continue
+		}
+		for _, f := range sc.archive.Files {
+			if f.Name == sc.compared && !shownIn(shown, strings.Split(string(f.Data), "\n")) {
+				out = append(out, strings.Split(strings.TrimRight(string(f.Data), "\n"), "\n")...)
+				i = end - 1
+			}
+		}
+	}
+	if err := os.WriteFile(path, []byte(strings.Join(out, "\n")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
 }

@@ -1,14 +1,21 @@
 package main
 
 import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
 	"os"
+	"reflect"
+	"strings"
 
 	"github.com/spf13/cobra"
 
 	"pasval/internal/fileout"
+	"pasval/internal/record"
+	"pasval/internal/version"
 	"pasval/report"
 )
 
@@ -18,12 +25,20 @@ var errMismatch = fmt.Errorf("the record does not match: %w", errChecksFailed)
 func newVerifyCmd(stdout io.Writer) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "verify RECORD.pdf [PLANT.yaml]",
-		Short: "Check that a record matches its plant file",
-		Long: `verify reads a record written by 'pasval report'. Without a plant file it
-checks that the plant file attached to the record matches the SHA-256 in the
-record's metadata; with one, that the given file matches it too. ` + fmt.Sprintf(`Both are
-read only from regular files, a record of at most %d MiB (one is about 70 KB)
-and a plant file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20),
+		Short: "Check that a record is exactly what its plant file gives",
+		Long: `verify reads a record written by 'pasval report'. It checks that the plant
+file attached to the record matches the SHA-256 in the record's metadata (and,
+given one, that PLANT.yaml matches it too), computes the attached plant file
+again, and re-renders the record with the record date and tool version stored
+in its metadata: the whole file must be identical, byte for byte, so an edited
+page, verdict or attachment is found (the first page that differs is named).
+A record made by another version of pasval cannot be re-rendered identically:
+then the verdicts stored in its metadata are compared with the recomputed ones,
+and verify says plainly that the pages were not byte-checked. The record is
+read with a PDF library, so a record re-saved by another program is read (and
+reported as differing from the re-rendered one). ` + fmt.Sprintf(`Both files are read only from
+regular files, a record of at most %d MiB (one is about 70 KB) and a plant
+file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20),
 		Example: `  pasval verify line2-record.pdf
   pasval verify line2-record.pdf line2.yaml`,
 		Args: func(cmd *cobra.Command, args []string) error {
@@ -43,10 +58,17 @@ and a plant file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantF
 	cmd.Long += `
 
 Exit status:
-  0  the record matches
-  1  the record does not match (altered record or plant file)
+  0  the record is identical to the one its plant file gives (or, made by
+     another version, its plant file and verdicts agree; pages not byte-checked)
+  1  anything differs: the attachment, the plant file given, a verdict, a page,
+     or any other byte of the file
   2  the record or plant file cannot be read`
 	return cmd
+}
+
+func sha256Hex(b []byte) string {
+	s := sha256.Sum256(b)
+	return hex.EncodeToString(s[:])
 }
 
 func runVerify(recordPath, plantPath string, out io.Writer) error {
@@ -60,24 +82,139 @@ func runVerify(recordPath, plantPath string, out io.Writer) error {
 			return err
 		}
 	}
-	v, err := report.Verify(pdf, plant)
+	st, err := report.Read(pdf)
 	if err != nil {
 		if errors.Is(err, report.ErrUnreadable) {
 			return usagef("%s: %v", recordPath, err)
 		}
 		return err
 	}
-	fmt.Fprintf(out, "recorded plant-file sha256  %s\n", v.RecordedSHA256)
-	fmt.Fprintf(out, "attached plant-file sha256  %s  %s\n", v.AttachmentSHA256, okWord(v.AttachmentSHA256 == v.RecordedSHA256))
+	att := st.Attachments[0]
+	attSum := sha256Hex(att.Content)
+	ok := attSum == st.RecordedSHA256
+	fmt.Fprintf(out, "recorded plant-file sha256  %s\n", st.RecordedSHA256)
+	fmt.Fprintf(out, "attached plant-file sha256  %s  %s\n", attSum, okWord(attSum == st.RecordedSHA256))
 	if plantPath != "" {
-		fmt.Fprintf(out, "%-27s %s  %s\n", plantPath, v.FileSHA256, okWord(v.FileSHA256 == v.RecordedSHA256))
+		fileSum := sha256Hex(plant)
+		fmt.Fprintf(out, "%-27s %s  %s\n", plantPath, fileSum, okWord(fileSum == st.RecordedSHA256))
+		ok = ok && fileSum == st.RecordedSHA256
 	}
-	if !v.Match {
-		fmt.Fprintln(out, "MISMATCH: the record and the plant file differ; do not rely on this record for this plant file")
+	ok = verifyContent(st, pdf, out) && ok
+	if !ok {
+		fmt.Fprintln(out, "MISMATCH: the record is not what its plant file gives; do not rely on it")
 		return errMismatch
 	}
 	fmt.Fprintln(out, "MATCH")
 	return nil
+}
+
+// verifyContent recomputes the attached plant file, compares the verdicts
+// and, for a record of this version, the whole file with its re-render.
+func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
+	rep, err := record.Reproduce(st)
+	if err != nil {
+		fmt.Fprintf(out, "recomputed                  the attached plant file does not compute: %s\n", strings.ReplaceAll(err.Error(), "\n", "; "))
+		return false
+	}
+	cover := rep.Doc.Cover
+	ok := true
+	switch {
+	case !st.HasVerdicts:
+		fmt.Fprintf(out, "verdicts                    recomputed %s; the record stores none to compare\n", passWord(cover.Pass))
+	case st.Pass == cover.Pass && reflect.DeepEqual(st.Verdicts, cover.Verdicts):
+		fmt.Fprintf(out, "verdicts                    stored %s, recomputed %s (%d checks)  match\n", passWord(st.Pass), passWord(cover.Pass), len(cover.Verdicts))
+	default:
+		fmt.Fprintf(out, "verdicts                    stored %s (%s), recomputed %s (%s)  DIFFER\n", passWord(st.Pass), verdictList(st.Verdicts),
+			passWord(cover.Pass), verdictList(cover.Verdicts))
+		ok = false
+	}
+	signed := report.Signed(pdf)
+	if signed {
+		ok = verifySignatures(pdf, out) && ok
+	}
+	made := st.Version
+	if made == "" {
+		made = "an unstated version"
+	} else {
+		made = "pasval " + made
+	}
+	if st.Version != version.Version || rep.PDF == nil {
+		fmt.Fprintf(out, "pages                       NOT byte-checked: the record was made by %s, this is pasval %s; only its plant file and verdicts were checked\n",
+			made, version.Version)
+		return ok
+	}
+	if bytes.Equal(pdf, rep.PDF) {
+		fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from its plant file (pasval %s, %s)\n",
+			st.Version, st.Date.Format("2006-01-02"))
+		return ok
+	}
+	if signed && bytes.HasPrefix(pdf, rep.PDF) {
+		// A signature is appended after the record: the record itself must
+		// be the re-render, byte for byte, and the signing must change no page.
+		if page, err := report.FirstDifferentPage(pdf, rep.PDF); err == nil && page == 0 {
+			fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from its plant file (pasval %s, %s), "+
+				"followed by its signatures\n", st.Version, st.Date.Format("2006-01-02"))
+			return ok
+		}
+	}
+	page, err := report.FirstDifferentPage(pdf, rep.PDF)
+	switch {
+	case err != nil:
+		fmt.Fprintf(out, "pages                       DIFFER from the re-rendered record; the pages cannot be compared one by one (%v)\n", err)
+	case page > 0:
+		fmt.Fprintf(out, "pages                       DIFFER from the record re-rendered from its plant file: page %d differs first\n", page)
+	default:
+		fmt.Fprintln(out, "pages                       every page's content matches the re-rendered record, but the file DIFFERS elsewhere "+
+			"(metadata, attachment or structure: edited, or re-saved by another program)")
+	}
+	return false
+}
+
+// verifySignatures checks a signed record's signatures: each valid, the last
+// covering the whole file, and no annotation but the signature fields.
+func verifySignatures(pdf []byte, out io.Writer) bool {
+	sigs, err := report.ReadSignatures(pdf)
+	if err != nil {
+		fmt.Fprintf(out, "signatures                  DIFFER: %v\n", err)
+		return false
+	}
+	ok := sigs.Whole
+	for _, sg := range sigs.List {
+		state := "valid"
+		if !sg.Valid {
+			state = "INVALID"
+		}
+		trust := "its certificate does not chain to a root this system trusts: check who the signer is"
+		if sg.Trusted {
+			trust = "its certificate chains to a root this system trusts"
+		}
+		fmt.Fprintf(out, "signature                   %s (%s): %s; %s\n", sg.Name, sg.Subject, state, trust)
+	}
+	if !sigs.Whole {
+		fmt.Fprintf(out, "signatures                  DIFFER: %d found, %d check out, or bytes were added after the last signature\n",
+			sigs.Found, len(sigs.List))
+	}
+	only, page, err := report.OnlySignatureAnnotations(pdf)
+	if err != nil || !only {
+		fmt.Fprintf(out, "annotations                 DIFFER: page %d carries an annotation that is not a signature field\n", page)
+		ok = false
+	}
+	return ok
+}
+
+func passWord(pass bool) string {
+	if pass {
+		return "PASS"
+	}
+	return "FAIL"
+}
+
+func verdictList(vs []report.Verdict) string {
+	var s []string
+	for _, v := range vs {
+		s = append(s, v.Check+" "+passWord(v.Pass))
+	}
+	return strings.Join(s, ", ")
 }
 
 // readRegular reads a file named on the command line through read, which

@@ -2,9 +2,11 @@ package main
 
 // Source of the expected values: the project's reading rules for verify
 // (regular files only; a record at most report.MaxRecordSize bytes, a plant
-// file at most report.MaxPlantFileSize); no outside reference applies.
+// file at most report.MaxPlantFileSize; exit 0 only for a record identical to
+// its re-render); no outside reference applies.
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"os"
@@ -15,6 +17,11 @@ import (
 	"testing"
 	"time"
 
+	"github.com/pdfcpu/pdfcpu/pkg/api"
+	"github.com/pdfcpu/pdfcpu/pkg/pdfcpu/model"
+	"github.com/pdfcpu/pdfcpu/pkg/pdfcpu/types"
+
+	"pasval/internal/version"
 	"pasval/report"
 )
 
@@ -52,7 +59,9 @@ func TestVerifyRecordSizeCap(t *testing.T) {
 	if err := os.Truncate(rec, report.MaxRecordSize); err != nil { // zeros after %%EOF
 		t.Fatal(err)
 	}
-	if out, errs, code := runBinaryGuarded(t, "verify", rec); code != 0 || !strings.Contains(out, "MATCH") {
+	// Read whole (not refused for its size); the zeros after %%EOF make it
+	// differ from the re-rendered record outside its pages: exit 1.
+	if out, errs, code := runBinaryGuarded(t, "verify", rec); code != 1 || !strings.Contains(out, "DIFFERS elsewhere") {
 		t.Errorf("record of exactly %d bytes: exit %d %q %q", report.MaxRecordSize, code, out, errs)
 	}
 	if err := os.Truncate(rec, report.MaxRecordSize+1); err != nil {
@@ -124,4 +133,109 @@ func makeFIFO(t *testing.T, dir string) (string, bool) {
 		t.Fatalf("mkfifo: %v %s", err, out)
 	}
 	return p, true
+}
+
+// pdfcpuConf is a pdfcpu configuration that reads and writes no
+// configuration folder.
+func pdfcpuConf() *model.Configuration {
+	api.DisableConfigDir()
+	return model.NewDefaultConfiguration()
+}
+
+// failingRecord writes the failing frozen-dessert demo's record into dir.
+func failingRecord(t *testing.T, dir string) (string, []byte) {
+	t.Helper()
+	rec := filepath.Join(dir, "record.pdf")
+	if _, errs, code := runBinary(t, "report", filepath.Join(demoDir, "frozen-dessert-si.yaml"), "-o", rec, "--date", "2026-12-01"); code != 1 {
+		t.Fatalf("report: exit %d %s", code, errs)
+	}
+	pdf, err := os.ReadFile(rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rec, pdf
+}
+
+func TestVerifyFindsAForgedPage(t *testing.T) {
+	dir := t.TempDir()
+	rec, pdf := failingRecord(t, dir)
+	if out, _, code := runBinary(t, "verify", rec); code != 0 || !strings.Contains(out, "identical, byte for byte") {
+		t.Fatalf("untouched record: exit %d\n%s", code, out)
+	}
+	// Text drawn over page 1 of the failing record, attachment and metadata
+	// untouched: the verdict box now "says" PASS.
+	wm, err := api.TextWatermark("Result: PASS, all 2 checks pass", "font:Helvetica, points:24, pos:c, rot:0, fillcolor:#008000", true, false, types.POINTS)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var forged bytes.Buffer
+	if err := api.AddWatermarks(bytes.NewReader(pdf), &forged, []string{"1"}, wm, pdfcpuConf()); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(dir, "forged.pdf")
+	if err := os.WriteFile(path, forged.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := runBinary(t, "verify", path)
+	if code != 1 || !strings.Contains(out, "page 1 differs first") || !strings.Contains(out, "MISMATCH") {
+		t.Errorf("forged page: exit %d\n%s%s", code, out, errs)
+	}
+}
+
+func TestVerifyReadsARecordResavedByAnotherProgram(t *testing.T) {
+	dir := t.TempDir()
+	_, pdf := failingRecord(t, dir)
+	// Re-saved, untouched, by another PDF program (pdfcpu's optimizer rewrites
+	// the whole file): read, not refused; its verdicts agree, its pages have the
+	// same content, but the file is not byte-identical: exit 1, saying so.
+	var resaved bytes.Buffer
+	if err := api.Optimize(bytes.NewReader(pdf), &resaved, pdfcpuConf()); err != nil {
+		t.Fatal(err)
+	}
+	if bytes.Equal(resaved.Bytes(), pdf) {
+		t.Fatal("the re-save changed nothing")
+	}
+	path := filepath.Join(dir, "resaved.pdf")
+	if err := os.WriteFile(path, resaved.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := runBinary(t, "verify", path)
+	for _, want := range []string{"attached plant-file sha256", "matches", "stored FAIL, recomputed FAIL (2 checks)  match",
+		"every page's content matches the re-rendered record, but the file DIFFERS elsewhere"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("re-saved record: output lacks %q", want)
+		}
+	}
+	if code != 1 {
+		t.Errorf("re-saved record: exit %d, want 1 (not byte-identical)\n%s%s", code, out, errs)
+	}
+}
+
+func TestVerifyRecordOfAnotherVersion(t *testing.T) {
+	dir := t.TempDir()
+	_, pdf := failingRecord(t, dir)
+	// The version in the metadata is another (an edit of the same length keeps
+	// the file's offsets): the pages cannot be byte-checked, the verdicts are
+	// recomputed and compared, and they agree: exit 0, saying so plainly.
+	other := bytes.Replace(pdf, []byte("pasval-version:"+version.Version), []byte("pasval-version:"+strings.Repeat("9", len(version.Version))), 1)
+	if bytes.Equal(other, pdf) {
+		t.Fatal("no version in the metadata")
+	}
+	path := filepath.Join(dir, "other.pdf")
+	if err := os.WriteFile(path, other, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, _, code := runBinary(t, "verify", path)
+	if code != 0 || !strings.Contains(out, "NOT byte-checked") || !strings.Contains(out, "stored FAIL, recomputed FAIL") {
+		t.Errorf("other version: exit %d\n%s", code, out)
+	}
+	// The stored result edited to pass: the recomputed verdicts disagree, exit 1.
+	forged := bytes.Replace(other, []byte("pasval-result:fail"), []byte("pasval-result:pass"), 1)
+	if err := os.WriteFile(path, forged, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, _, code = runBinary(t, "verify", path)
+	if code != 1 || !strings.Contains(out, "DIFFER") {
+		t.Errorf("other version, verdict edited: exit %d\n%s", code, out)
+	}
 }

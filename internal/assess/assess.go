@@ -21,10 +21,14 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
+	"strconv"
+	"strings"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
+	"pasval/internal/units"
 	"pasval/internal/version"
 	"pasval/regen"
 )
@@ -38,6 +42,7 @@ const Caution = "This result supports, and never replaces, the regulatory accept
 type Check struct {
 	ID         CheckID `json:"id"`
 	Organism   string  `json:"organism,omitempty"`
+	Section    string  `json:"section,omitempty"` // the section judged, as regen labels it (pressure-drop)
 	Pass       bool    `json:"pass"`
 	Required   float64 `json:"required"`
 	Actual     float64 `json:"actual"`
@@ -60,8 +65,26 @@ type CheckDetail struct {
 	// the coolest row.
 	RowTemperatureC float64
 	BelowEveryRow   bool
-	SetpointC       float64
 	MarginPercent   float64 // of the row time
+	// holding-time and log-reduction: where they were judged
+	// (docs/METHOD.md §7.7, §9.4): the setpoint, the judged temperature
+	// (setpoint − sensor accuracy), the flow and its regime, and whether the
+	// heat-loss credit was taken.
+	SetpointC, JudgedC, AccuracyK float64
+	FlowM3s                       float64
+	AtSeal                        bool
+	Regime                        string
+	CreditHeatLoss                bool
+	// SealValue is the holding time at the sealed maximum; NominalValue the
+	// judged quantity at the nominal setpoint (holding-time: the worst time).
+	SealValue, NominalValue float64
+	// holding-time at the nominal setpoint: the row judged there (NaN when
+	// none applies) and whether it is met.
+	NominalRowC float64
+	NominalMet  bool
+	// holding-time, failing: the coolest row above the judged temperature
+	// whose time the tube holds, and the setpoint rise that reaches it (NaN: none).
+	RowToMeetC, RiseToMeetK float64
 	// heating-medium: the installed plates.
 	Plates int
 	// log-reduction: the organism's kinetics as entered.
@@ -91,6 +114,9 @@ type Section struct {
 	OtherOutC         float64           `json:"other_out_C"`
 	MediumAvailableC  *float64          `json:"medium_available_in_C,omitempty"`
 	MediumMassFlowKgS float64           `json:"medium_mass_flow_kg_s,omitempty"`
+	// PackFigures are the plate pack's results (docs/METHOD.md §12), absent
+	// without one; u_W_m2K above stays the U the section used.
+	*PackFigures
 
 	raw regen.Section
 }
@@ -204,8 +230,8 @@ func choiOkos(c *plantfile.Composition) props.Composition {
 }
 
 func surface(pl plantfile.Plates) regen.Surface {
-	u := pl.UValue.SI
-	if pl.Fouling.Set && pl.Fouling.SI > 0 {
+	u := pl.UValue.SI // 0 with a plate pack and no u_value: the pack sets U
+	if pl.Fouling.Set && pl.Fouling.SI > 0 && u > 0 {
 		u = 1 / (1/u + pl.Fouling.SI)
 	}
 	s := regen.Surface{U: u, PlateArea: pl.PlateArea.SI, Plates: pl.Plates}
@@ -248,6 +274,9 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 		}
 		in.Cooling = append(in.Cooling, cs)
 	}
+	if err := linePacks(p, res.Product, &in); err != nil {
+		return err
+	}
 	line, err := regen.Line(in)
 	if err != nil {
 		return sectionError(p, err)
@@ -259,7 +288,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 			AreaM2: s.Area(), RequiredAreaM2: s.RequiredArea, InstalledAreaM2: s.InstalledArea,
 			Plates: s.Plates, PlateAreaM2: s.PlateArea, UWm2K: s.U,
 			ProductInC: s.ProductIn, ProductOutC: s.ProductOut, OtherInC: s.OtherIn, OtherOutC: s.OtherOut,
-			MediumMassFlowKgS: s.MediumMassFlow, raw: s,
+			MediumMassFlowKgS: s.MediumMassFlow, PackFigures: packFigures(s.Pack), raw: s,
 		}
 		if s.Kind == regen.HeatingSection && s.Mode == regen.Rating {
 			avail := line.HeatingMediumAvailable
@@ -269,6 +298,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 			res.Checks = append(res.Checks, c)
 		}
 		res.Sections = append(res.Sections, out)
+		packResults(p, res, out)
 	}
 	if !math.IsNaN(line.RegenerationRatio) {
 		r := line.RegenerationRatio
@@ -277,6 +307,7 @@ func runLine(p *plantfile.Plant, res *Result, heatingOutlet float64) error {
 	if n := len(p.Cooling); n > 0 && anyRated(p.Cooling) {
 		res.Checks = append(res.Checks, NewCheck(CoolingOutlet, p.Process.OutletTarget.SI, line.FinalProductOut))
 	}
+	lineWarnings(p, res, line)
 	return nil
 }
 
@@ -294,9 +325,17 @@ func sectionError(p *plantfile.Plant, err error) error {
 	name, msg := "", err.Error()
 	var ce *regen.CrossError
 	var se *regen.SectionError
+	var pe *regen.PackError
 	switch {
 	case errors.As(err, &ce):
 		name, msg = ce.Section, ce.Detail()
+	case errors.As(err, &pe):
+		if field, pl := sectionPlates(p, pe.Section); pl != nil {
+			if e := packInputError(field, *pl, pe.Err); e != nil {
+				return e
+			}
+		}
+		name, msg = pe.Section, pe.Err.Error()
 	case errors.As(err, &se):
 		name, msg = se.Section, se.Err.Error()
 	}
@@ -316,5 +355,51 @@ func sectionError(p *plantfile.Plant, err error) error {
 	if field == "process" {
 		msg = err.Error()
 	}
+	if p.System == units.US {
+		msg = inUSUnits(msg)
+	}
 	return inputerr.List{{Pos: pos, Field: field, Msg: msg}}
+}
+
+var (
+	celsiusRe = regexp.MustCompile(`(-?\d+(?:\.\d+)?) °C`)
+	arrowRe   = regexp.MustCompile(`(-?\d+(?:\.\d+)?) → (-?\d+(?:\.\d+)?) °C`)
+	kelvinRe  = regexp.MustCompile(`(-?\d+(?:\.\d+)?) K\b`)
+)
+
+// inUSUnits rewrites the temperatures of an engine's message for a plant
+// written in °F: the engines word their errors in SI ("72.00 °C", "3.50 K"),
+// and a user of a °F file reads them in °F (points and differences).
+func inUSUnits(msg string) string {
+	conv := func(re *regexp.Regexp, s string, f func(float64) float64) string {
+		return re.ReplaceAllStringFunc(s, func(m string) string {
+			num := re.FindStringSubmatch(m)[1]
+			v, err := strconv.ParseFloat(num, 64)
+			if err != nil {
+				return m
+			}
+			return fmt.Sprintf("%.*f °F", decimals(num), f(v))
+		})
+	}
+	toF := func(c float64) float64 { return c*9/5 + 32 }
+	// "A → B °C": the unit follows the second of a pair.
+	msg = arrowRe.ReplaceAllStringFunc(msg, func(m string) string {
+		g := arrowRe.FindStringSubmatch(m)
+		a, err1 := strconv.ParseFloat(g[1], 64)
+		b, err2 := strconv.ParseFloat(g[2], 64)
+		if err1 != nil || err2 != nil {
+			return m
+		}
+		return fmt.Sprintf("%.*f → %.*f °F", decimals(g[1]), toF(a), decimals(g[2]), toF(b))
+	})
+	msg = conv(celsiusRe, msg, toF)
+	return conv(kelvinRe, msg, func(k float64) float64 { return k * 9 / 5 })
+}
+
+// decimals is the number of digits after the point in a formatted number.
+func decimals(num string) int {
+	if i := strings.IndexByte(num, '.'); i >= 0 {
+		return len(num) - i - 1
+	}
+	return 0
 }

@@ -16,6 +16,7 @@ const (
 	RegeneratorPressure CheckID = "regenerator-pressure"
 	HeatingMedium       CheckID = "heating-medium"
 	CoolingOutlet       CheckID = "cooling-outlet"
+	PressureDrop        CheckID = "pressure-drop"
 )
 
 // Limit says how a check's actual value is judged against the required one.
@@ -57,6 +58,9 @@ var checkDefs = []CheckDef{
 		"product leaving the last cooling stage, against the outlet target"},
 	{RegeneratorPressure, false, AtLeast, "Pa", "Pa", "(pressure entered) pasteurized minimum − raw maximum ≥ required margin",
 		"pasteurized-side minimum pressure above raw-side maximum in the regenerator"},
+	{PressureDrop, false, AtMost, "Pa", "Pa",
+		"(per section with a plate pack and `product_side.max_pressure_drop`) product-side pressure drop through the pack ≤ the maximum",
+		"product-side pressure drop through the plate pack (channels and ports, elevation ignored) against the pumps' allowance"},
 }
 
 // CheckDefs returns the registry, in print order.

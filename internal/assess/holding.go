@@ -24,64 +24,84 @@ type LegalOut struct {
 type RowOut struct {
 	TemperatureC    float64 `json:"temperature_C"`
 	TimeS           float64 `json:"time_s"`
-	Applies         bool    `json:"applies"` // row temperature ≤ setpoint
-	RequiredLengthM float64 `json:"required_length_m"`
-	MaxFlowM3s      float64 `json:"max_flow_m3_s"`   // largest flow up to which every flow meets the row
-	MaxFlowCapped   bool    `json:"max_flow_capped"` // the search stopped at 20× the sealed maximum: at least this
+	Applies         bool    `json:"applies"`             // row temperature ≤ judged temperature
+	AppliesAtSet    bool    `json:"applies_at_setpoint"` // row temperature ≤ setpoint
+	RequiredLengthM float64 `json:"required_length_m"`   // at the worst flow
+	MaxFlowM3s      float64 `json:"max_flow_m3_s"`       // largest flow up to which every flow meets the row
+	MaxFlowCapped   bool    `json:"max_flow_capped"`     // the search stopped at 20× the sealed maximum: at least this
 }
 
-// HoldingTube is the holding tube in the JSON contract.
+// HoldingTube is the holding tube in the JSON contract. The hydraulics are
+// at the sealed maximum; the worst_* keys are at the worst flow in (0, seal]
+// (docs/METHOD.md §7.7), where the holding-time and log-reduction checks are
+// judged, at judged_temperature_C (docs/METHOD.md §9.4).
 type HoldingTube struct {
-	InnerDiameterM          float64    `json:"inner_diameter_m"`
-	OuterDiameterM          float64    `json:"outer_diameter_m,omitempty"`
-	LengthM                 float64    `json:"length_m"`
-	VolumeL                 float64    `json:"volume_L"`
-	MaxFlowM3s              float64    `json:"max_flow_m3_s"`
-	DensityKgM3             float64    `json:"density_at_hold_kg_m3"`
-	ViscosityPas            float64    `json:"viscosity_at_hold_Pa_s,omitempty"`
-	FlowIndex               float64    `json:"flow_index"`
-	MeanVelocity            float64    `json:"mean_velocity_m_s"`
-	Reynolds                float64    `json:"reynolds"`
-	Regime                  string     `json:"regime"`
-	FastestToMean           float64    `json:"fastest_to_mean"`
-	FastestToMeanOverridden bool       `json:"fastest_to_mean_overridden"`
-	MinResidenceS           float64    `json:"min_residence_s"`
-	MeanResidenceS          float64    `json:"mean_residence_s"`
-	RequiredLengthM         float64    `json:"required_length_m"` // for the applicable legal row; 0 without one
-	InletTemperatureC       float64    `json:"inlet_temperature_C"`
-	HeatingOutletC          float64    `json:"heating_outlet_C"` // tube inlet at the normal rate
-	OutletTemperatureC      float64    `json:"outlet_temperature_C"`
-	Slope                   *float64   `json:"slope"`
-	MinSlope                float64    `json:"min_slope"`
-	PasteurizationUnits     *float64   `json:"pasteurization_units,omitempty"`
-	Legal                   *LegalOut  `json:"legal,omitempty"`
-	Rows                    []RowOut   `json:"rows"`
-	Model                   *TubeModel `json:"-"`
+	InnerDiameterM          float64  `json:"inner_diameter_m"`
+	OuterDiameterM          float64  `json:"outer_diameter_m,omitempty"`
+	LengthM                 float64  `json:"length_m"`
+	VolumeL                 float64  `json:"volume_L"`
+	MaxFlowM3s              float64  `json:"max_flow_m3_s"`
+	DensityKgM3             float64  `json:"density_at_hold_kg_m3"`
+	ViscosityPas            float64  `json:"viscosity_at_hold_Pa_s,omitempty"`
+	FlowIndex               float64  `json:"flow_index"`
+	MeanVelocity            float64  `json:"mean_velocity_m_s"`
+	Reynolds                float64  `json:"reynolds"`
+	Regime                  string   `json:"regime"`
+	FastestToMean           float64  `json:"fastest_to_mean"`
+	FastestToMeanOverridden bool     `json:"fastest_to_mean_overridden"`
+	MinResidenceS           float64  `json:"min_residence_s"`
+	MeanResidenceS          float64  `json:"mean_residence_s"`
+	WorstFlowM3s            float64  `json:"worst_flow_m3_s"`
+	WorstFlowRegime         string   `json:"worst_flow_regime"`
+	WorstFlowAtSeal         bool     `json:"worst_flow_at_seal"`
+	WorstReynolds           float64  `json:"worst_flow_reynolds"`
+	WorstFastestToMean      float64  `json:"worst_flow_fastest_to_mean"`
+	WorstMinResidenceS      float64  `json:"worst_min_residence_s"`
+	SetpointC               float64  `json:"setpoint_C"`
+	SensorAccuracyK         float64  `json:"sensor_accuracy_K"`
+	JudgedTemperatureC      float64  `json:"judged_temperature_C"`
+	CreditHeatLoss          bool     `json:"credit_heat_loss"`
+	RequiredLengthM         float64  `json:"required_length_m"` // for the applicable legal row, at the worst flow; 0 without one
+	InletTemperatureC       float64  `json:"inlet_temperature_C"`
+	HeatingOutletC          float64  `json:"heating_outlet_C"` // tube inlet at the normal rate
+	OutletTemperatureC      float64  `json:"outlet_temperature_C"`
+	Slope                   *float64 `json:"slope"`
+	MinSlope                float64  `json:"min_slope"`
+	PasteurizationUnits     *float64 `json:"pasteurization_units,omitempty"`
+	// Legal is judged at the judged temperature; LegalAtSetpoint is the same
+	// table at the nominal setpoint (both at the worst flow).
+	Legal           *LegalOut  `json:"legal,omitempty"`
+	LegalAtSetpoint *LegalOut  `json:"legal_at_setpoint,omitempty"`
+	Rows            []RowOut   `json:"rows"`
+	Model           *TubeModel `json:"-"`
 }
 
 // TubeModel is what the hold command needs to recompute at other setpoints.
 type TubeModel struct {
-	Tube      lethality.Tube
-	Rheology  lethality.Rheology
-	Flow      lethality.Flow
-	Hyd       lethality.Hydraulics
-	Profile   lethality.Profile // at the sealed maximum (the judged case)
-	Organisms []lethality.Organism
-	Override  float64
-	// ProfileAt rebuilds the judged profile with the outlet at another setpoint.
-	ProfileAt func(setpoint float64) lethality.Profile
+	Inputs HoldingInputs
+	Eval   HoldingEval
 }
 
 // Lethality is one organism's result, in plant-file order.
 type Lethality struct {
-	Organism             string  `json:"organism"`
+	Organism string `json:"organism"`
+	// LogReduction is the judged value: at the judged temperature and the
+	// worst flow, the tube isothermal unless the heat-loss credit is taken.
 	LogReduction         float64 `json:"log_reduction"`
 	RequiredLogReduction float64 `json:"required_log_reduction"`
-	EquivalentTimeS      float64 `json:"equivalent_time_s"` // at the organism's D_temperature
-	DAtSetpointS         float64 `json:"D_at_setpoint_s"`
-	Pass                 bool    `json:"pass"`
-	// Along is the accumulated log reduction at AlongStations+1 stations from
-	// the tube inlet to its outlet, for the record's plot.
+	LogReductionAtSet    float64 `json:"log_reduction_at_setpoint"`
+	LogReductionAtSeal   float64 `json:"log_reduction_at_seal"`
+	LogReductionIso      float64 `json:"log_reduction_isothermal"`
+	// LogReductionCredit is with the heat-loss profile; absent without heat loss.
+	LogReductionCredit *float64 `json:"log_reduction_with_heat_loss_credit,omitempty"`
+	FlowM3s            float64  `json:"judged_flow_m3_s"`
+	EquivalentTimeS    float64  `json:"equivalent_time_s"` // at the organism's D_temperature, judged case
+	DAtSetpointS       float64  `json:"D_at_setpoint_s"`
+	DAtJudgedS         float64  `json:"D_at_judged_temperature_s"`
+	Pass               bool     `json:"pass"`
+	// Along is the accumulated log reduction of the judged case at
+	// AlongStations+1 stations from the tube inlet to its outlet, for the
+	// record's plot.
 	Along []lethality.ProfilePoint `json:"-"`
 }
 
@@ -110,16 +130,24 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	in := GatherHolding(p, res.Product)
 	ev, err := EvaluateHolding(in)
 	if err != nil {
-		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%v", err)}
+		msg := err.Error()
+		if p.System == units.US {
+			msg = inUSUnits(msg)
+		}
+		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%s", msg)}
 	}
-	tube, hyd := ev.Tube, ev.Hyd
+	tube, hyd, worst := ev.Tube, ev.Hyd, ev.Worst
 	out := &HoldingTube{InnerDiameterM: tube.InnerDiameter, OuterDiameterM: tube.OuterDiameter, LengthM: tube.Length,
 		VolumeL: tube.Volume() * 1e3, MaxFlowM3s: ev.Flow.Volumetric, DensityKgM3: in.Density, OutletTemperatureC: in.Setpoint,
 		ViscosityPas: ev.Viscosity, FlowIndex: ev.Rheology.FlowIndex(), Rows: []RowOut{}, MinSlope: in.MinSlope,
 		MeanVelocity: hyd.MeanVelocity, Reynolds: hyd.Reynolds, Regime: hyd.Regime.String(),
 		FastestToMean: hyd.FastestToMean, FastestToMeanOverridden: hyd.Overridden,
 		MinResidenceS: hyd.MinResidence, MeanResidenceS: hyd.MeanResidence,
-		InletTemperatureC: ev.Judged.Inlet(), HeatingOutletC: ev.AtRate.Inlet()}
+		WorstFlowM3s: worst.Volumetric, WorstFlowRegime: worst.Regime.String(), WorstFlowAtSeal: worst.AtSeal,
+		WorstReynolds: worst.Reynolds, WorstFastestToMean: worst.FastestToMean, WorstMinResidenceS: worst.MinResidence,
+		SetpointC: in.Setpoint, SensorAccuracyK: in.SensorAccuracy, JudgedTemperatureC: ev.JudgedC,
+		CreditHeatLoss:    in.CreditHeatLoss && in.HeatLoss,
+		InletTemperatureC: ev.Seal.Inlet(), HeatingOutletC: ev.AtRate.Inlet()}
 	if in.RiseGiven {
 		s := tube.Slope()
 		out.Slope = &s
@@ -127,25 +155,35 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	for _, r := range in.Legal {
 		limit := 20 * ev.Flow.Volumetric
 		q := tube.MaxFlowFor(r.Time, in.Density, ev.Rheology, in.FastestToMean, limit)
-		out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= in.Setpoint+1e-9,
-			RequiredLengthM: hyd.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= limit})
+		out.Rows = append(out.Rows, RowOut{TemperatureC: r.Temperature, TimeS: r.Time, Applies: r.Temperature <= ev.JudgedC+1e-9,
+			AppliesAtSet:    r.Temperature <= in.Setpoint+1e-9,
+			RequiredLengthM: worst.RequiredLength(r.Time), MaxFlowM3s: q, MaxFlowCapped: q >= limit})
 	}
 	if v := ev.Legal; v != nil {
-		if v.RowIndex < 0 {
-			c, _ := ev.Check(HoldingTime)
-			out.Legal = &LegalOut{RowIndex: -1, TemperatureC: c.Detail.RowTemperatureC, TimeS: c.Required, MarginS: c.Margin,
-				MarginPct: c.Margin / c.Required * 100}
-		} else {
-			out.Legal = &LegalOut{Met: v.Met, RowIndex: v.RowIndex, TemperatureC: v.Row.Temperature, TimeS: v.Row.Time,
-				MarginS: v.Margin, MarginPct: v.MarginPct}
-			out.RequiredLengthM = hyd.RequiredLength(v.Applicable.Time)
+		c, _ := ev.Check(HoldingTime)
+		out.Legal = legalOut(*v, c)
+		if v.RowIndex >= 0 {
+			out.RequiredLengthM = worst.RequiredLength(v.Applicable.Time)
+		}
+		if in.SensorAccuracy > 0 {
+			nc := NewCheck(HoldingTime, c.Required, c.Actual)
+			if ev.LegalNominal.RowIndex >= 0 {
+				nc = NewCheck(HoldingTime, ev.LegalNominal.Row.Time, c.Actual)
+			}
+			out.LegalAtSetpoint = legalOut(*ev.LegalNominal, nc)
 		}
 	}
 	for i, org := range in.Organisms {
-		res.Lethality = append(res.Lethality, Lethality{Organism: org.Name, LogReduction: ev.LogRed[i],
-			RequiredLogReduction: org.RequiredLogReduction, EquivalentTimeS: ev.EquivTime[i], DAtSetpointS: org.DAt(in.Setpoint),
-			Pass:  NewCheck(LogReduction, org.RequiredLogReduction, ev.LogRed[i]).Pass,
-			Along: lethality.Accumulated(ev.Judged, ev.FastestPath, org, AlongStations)})
+		o := ev.Organisms[i]
+		l := Lethality{Organism: org.Name, LogReduction: o.LogReduction, RequiredLogReduction: org.RequiredLogReduction,
+			LogReductionAtSet: o.AtSetpoint, LogReductionAtSeal: o.AtSeal, LogReductionIso: o.Isothermal, FlowM3s: o.FlowM3s,
+			EquivalentTimeS: o.EquivTime, DAtSetpointS: org.DAt(in.Setpoint), DAtJudgedS: org.DAt(ev.JudgedC),
+			Pass: NewCheck(LogReduction, org.RequiredLogReduction, o.LogReduction).Pass, Along: o.Along}
+		if !math.IsNaN(o.Credit) {
+			c := o.Credit
+			l.LogReductionCredit = &c
+		}
+		res.Lethality = append(res.Lethality, l)
 	}
 	if in.PU {
 		pu := ev.PU
@@ -153,10 +191,20 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	}
 	res.Checks = append(res.Checks, ev.Checks...)
 	res.Warnings = append(res.Warnings, ev.Warnings...)
-	out.Model = &TubeModel{Tube: tube, Rheology: ev.Rheology, Flow: ev.Flow, Hyd: hyd, Profile: ev.Judged, Override: in.FastestToMean,
-		Organisms: in.Organisms, ProfileAt: func(sp float64) lethality.Profile { return in.profile(sp, in.MaxMassFlow) }}
+	out.Model = &TubeModel{Inputs: in, Eval: ev}
 	res.HoldingTube = out
 	return out.HeatingOutletC, nil
+}
+
+// legalOut is a verdict of the legal table in the JSON contract; c is the
+// holding-time check it gave.
+func legalOut(v lethality.LegalVerdict, c Check) *LegalOut {
+	if v.RowIndex < 0 {
+		return &LegalOut{RowIndex: -1, TemperatureC: c.Detail.RowTemperatureC, TimeS: c.Required, MarginS: c.Margin,
+			MarginPct: c.Margin / c.Required * 100}
+	}
+	return &LegalOut{Met: v.Met, RowIndex: v.RowIndex, TemperatureC: v.Row.Temperature, TimeS: v.Row.Time,
+		MarginS: v.Margin, MarginPct: v.MarginPct}
 }
 
 // regeneratorPressure adds the regenerator-pressure check: the pasteurized side

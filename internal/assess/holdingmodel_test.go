@@ -31,7 +31,7 @@ func TestEvaluateHoldingByHand(t *testing.T) {
 		what      string
 		got, want float64
 	}{
-		{"Re", ev.Hyd.Reynolds, 250}, {"ratio", ev.Hyd.FastestToMean, 2}, {"t_min", ev.Hyd.MinResidence, 10}, {"LR", ev.LogRed[0], 10},
+		{"Re", ev.Hyd.Reynolds, 250}, {"ratio", ev.Hyd.FastestToMean, 2}, {"t_min", ev.Hyd.MinResidence, 10}, {"LR", ev.Organisms[0].LogReduction, 10},
 	} {
 		if math.Abs(c.got-c.want) > 1e-9*c.want {
 			t.Errorf("%s = %.12g, want %g", c.what, c.got, c.want)

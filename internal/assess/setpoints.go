@@ -5,8 +5,11 @@ import "pasval/lethality"
 // SetpointRow is the fastest particle's lethality had the diversion setpoint
 // been offset by OffsetK, the tube and flow unchanged.
 type SetpointRow struct {
-	OffsetK       float64   `json:"offset_K"`
-	SetpointC     float64   `json:"setpoint_C"`
+	OffsetK   float64 `json:"offset_K"`
+	SetpointC float64 `json:"setpoint_C"`
+	// JudgedC is the temperature judged for this setpoint: the setpoint less
+	// the sensor accuracy (docs/METHOD.md §9.4).
+	JudgedC       float64   `json:"judged_temperature_C"`
 	LogReductions []float64 `json:"log_reductions"` // per organism, in plant-file order
 	LegalMet      *bool     `json:"legal_met,omitempty"`
 }
@@ -14,30 +17,34 @@ type SetpointRow struct {
 // SetpointOffsets are the offsets the hold command tabulates, K.
 var SetpointOffsets = []float64{-1, -0.5, 0, 0.5, 1, 1.5, 2}
 
-// SetpointTable recomputes the log reduction of each organism for setpoints
-// around the entered one. The hydraulics (viscosity at the entered setpoint)
-// are held; with heat loss the profile moves with the outlet temperature.
-func SetpointTable(res *Result) []SetpointRow {
+// SetpointOffsetsUS are the offsets in US units: whole °F.
+var SetpointOffsetsUS = []float64{-2 * 5.0 / 9, -1 * 5.0 / 9, 0, 1 * 5.0 / 9, 2 * 5.0 / 9, 3 * 5.0 / 9, 4 * 5.0 / 9}
+
+// SetpointTable recomputes the judged log reduction of each organism and the
+// legal table for setpoints offset by offsets (K) from the entered one, each
+// judged as the check judges the entered one: at the setpoint less the
+// sensor accuracy, at the worst flow, isothermal unless the heat-loss credit
+// is taken (then the profile moves with the outlet temperature). The
+// hydraulics (viscosity at the entered setpoint) are held.
+func SetpointTable(res *Result, offsets []float64) []SetpointRow {
 	h := res.HoldingTube
 	if h == nil || h.Model == nil {
 		return nil
 	}
-	m := h.Model
-	uMax := m.Hyd.FastestToMean * m.Hyd.MeanVelocity
-	var rows []lethality.LegalRow
-	for _, r := range res.Plant.LegalMinimums {
-		rows = append(rows, lethality.LegalRow{Temperature: r.Temperature.SI, Time: r.Time.SI})
-	}
+	in, ev := h.Model.Inputs, h.Model.Eval
+	ps := ev.passages(in)
+	credit := in.CreditHeatLoss && in.HeatLoss
 	var out []SetpointRow
-	for _, off := range SetpointOffsets {
-		sp := h.OutletTemperatureC + off
-		prof := m.ProfileAt(sp)
-		r := SetpointRow{OffsetK: off, SetpointC: sp, LogReductions: []float64{}}
-		for _, o := range m.Organisms {
-			r.LogReductions = append(r.LogReductions, lethality.LogReduction(prof, uMax, o))
+	for _, off := range offsets {
+		sp := in.Setpoint + off
+		tj := sp - in.SensorAccuracy
+		r := SetpointRow{OffsetK: off, SetpointC: sp, JudgedC: tj, LogReductions: []float64{}}
+		for _, o := range in.Organisms {
+			lr, _, _ := in.lowest(tj, ps, credit, o)
+			r.LogReductions = append(r.LogReductions, lr)
 		}
-		if len(rows) > 0 {
-			met := lethality.JudgeLegal(rows, sp, m.Hyd.MinResidence, Tolerance).Met
+		if len(in.Legal) > 0 {
+			met := lethality.JudgeLegal(in.Legal, tj, ev.Worst.MinResidence, Tolerance).Met
 			r.LegalMet = &met
 		}
 		out = append(out, r)

@@ -8,9 +8,7 @@ const (
 	// Holding tube and kinetics.
 	WarnLaminarFlow           WarningCode = "laminar-flow"           // values: reynolds, fastest_to_mean
 	WarnViscosityExtrapolated WarningCode = "viscosity-extrapolated" // setpoint_C, lowest_C, highest_C
-	WarnSensorAccuracy        WarningCode = "setpoint-within-sensor-accuracy"
-	// WarnSensorAccuracy values: setpoint_C, accuracy_K, row_temperature_C.
-	WarnNoRise WarningCode = "no-rise" // no values
+	WarnNoRise                WarningCode = "no-rise"                // no values
 
 	// Values outside what the trade sees (typical ranges in sanity.go).
 	WarnUValue              WarningCode = "u-value-unusual"         // value_W_m2K, low_W_m2K, high_W_m2K
@@ -23,23 +21,53 @@ const (
 	WarnHoldingTimeLong     WarningCode = "holding-time-long"       // min_residence_s
 	WarnTubeVelocity        WarningCode = "tube-velocity-unusual"   // value_m_s, low_m_s, high_m_s
 	WarnOuterCoefficient    WarningCode = "outer-coefficient-high"  // value_W_m2K
+
+	// Plate packs (docs/METHOD.md §12.5); each names its section.
+	WarnPackReynolds              WarningCode = "plate-pack-reynolds-out-of-range"  // reynolds, low, high
+	WarnPackBranch                WarningCode = "plate-pack-near-branch-switch"     // reynolds, switch, low, high
+	WarnPackAngle                 WarningCode = "plate-pack-angle-above-range"      // angle_rad, high_rad
+	WarnPackApparentViscosity     WarningCode = "plate-pack-apparent-viscosity"     // flow_index
+	WarnPackUDiffers              WarningCode = "plate-pack-u-differs"              // entered_W_m2K, computed_clean_W_m2K, difference
+	WarnPackViscosityExtrapolated WarningCode = "plate-pack-viscosity-extrapolated" // at_C, lowest_C, highest_C
+	// Guard rails (docs/METHOD.md §19.2).
+	// WarnKineticsExtrapolated values: organism_index, distance_K, used_at_C,
+	// D_temperature_C, log_reduction.
+	WarnKineticsExtrapolated WarningCode = "kinetics-extrapolated"
+	WarnProductFrozen        WarningCode = "product-below-freezing"       // product_out_C, limit_C, freezing_point_entered (1/0), stage_index
+	WarnMediumPressurised    WarningCode = "heating-medium-above-boiling" // medium_in_C, boiling_C
+	WarnOutletWarm           WarningCode = "outlet-above-cold-limit"      // outlet_C, limit_C
+	// NoteOutletWarm is a note, not a warning: the outlet target is set
+	// above the cold limit on purpose. Values: outlet_C, limit_C, target_C.
+	NoteOutletWarm WarningCode = "outlet-above-cold-limit-by-target"
 )
 
 // WarningCodes lists every code (tests walk each through the wording).
-var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, WarnSensorAccuracy, WarnNoRise,
+var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, WarnNoRise,
 	WarnUValue, WarnPlateArea, WarnFouling, WarnRatioHigh, WarnDensity, WarnSpecificHeat, WarnViscosityBelowWater,
-	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient}
+	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient,
+	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated,
+	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm}
 
 // Warning is something the user should look at that is not a failed check.
 // assess fills Code, Field and Values (SI, each key naming its unit);
 // Message is made by internal/present (in SI for JSON).
 type Warning struct {
-	Code    WarningCode        `json:"code"`
-	Field   string             `json:"field,omitempty"` // the plant-file path concerned, when there is one
+	Code  WarningCode `json:"code"`
+	Field string      `json:"field,omitempty"` // the plant-file path concerned, when there is one
+	// Section names the heat-exchange section concerned, as regen labels it
+	// ("regeneration", "cooling stage \"chilled water\""), when there is one.
+	Section string             `json:"section,omitempty"`
 	Message string             `json:"message"`
 	Values  map[string]float64 `json:"values,omitempty"`
+	// Note is true for a note: something stated for the record that needs no
+	// action (printed under "Notes", not "Warnings").
+	Note bool `json:"note,omitempty"`
 }
 
 func (r *Result) warn(code WarningCode, field string, values map[string]float64) {
 	r.Warnings = append(r.Warnings, Warning{Code: code, Field: field, Values: values})
+}
+
+func (r *Result) warnSection(code WarningCode, section, field string, values map[string]float64) {
+	r.Warnings = append(r.Warnings, Warning{Code: code, Section: section, Field: field, Values: values})
 }

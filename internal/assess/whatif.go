@@ -2,6 +2,7 @@ package assess
 
 import (
 	"fmt"
+	"math"
 	"sort"
 
 	"pasval/internal/inputerr"
@@ -16,8 +17,8 @@ type PlatesOption struct {
 	RegenerationRatio      float64   `json:"regeneration_ratio"`
 	RawOutC                float64   `json:"raw_out_C"`         // raw product leaving regeneration
 	PasteurizedOutC        float64   `json:"pasteurized_out_C"` // pasteurized product leaving regeneration
-	HeatingDutyKW          float64   `json:"heating_duty_kW"`   // raw out → heater outlet
-	CoolingDutyKW          float64   `json:"cooling_duty_kW"`   // pasteurized out → outlet target
+	HeatingDutyKW          float64   `json:"heating_duty_kW"`   // the heating section's duty (without one: raw out → heater outlet)
+	CoolingDutyKW          float64   `json:"cooling_duty_kW"`   // the cooling stages' duty (without stages: pasteurized out → outlet target)
 	HeatingMediumRequiredC *float64  `json:"heating_medium_required_C"`
 	CoolingOutletC         *float64  `json:"cooling_outlet_C"`
 	HeatingSavedKW         float64   `json:"heating_saved_kW"`
@@ -27,6 +28,56 @@ type PlatesOption struct {
 	PaybackYears           *float64  `json:"payback_years"`
 	ChecksPass             bool      `json:"checks_pass"`
 	FailedChecks           []CheckID `json:"failed_checks"`
+	// OptionPack is the regenerator's plate pack in this option (absent
+	// without one).
+	*OptionPack
+}
+
+// OptionPack is a what-if option's regenerator plate pack: the layout the
+// added plates gave, the U the line used and the product-side pressure drop.
+type OptionPack struct {
+	// RequestedAddedPlates is the number asked for; AddedPlates is what
+	// whole passes or whole channels per pass give (Layout).
+	RequestedAddedPlates   int     `json:"requested_added_plates"`
+	PassesProduct          int     `json:"passes_product"`
+	ChannelsPerPassProduct int     `json:"channels_per_pass_product"`
+	PassesOther            int     `json:"passes_other"`
+	ChannelsPerPassOther   int     `json:"channels_per_pass_other"`
+	UWm2K                  float64 `json:"u_W_m2K"`         // the U the regenerator was computed with
+	UServiceWm2K           float64 `json:"u_service_W_m2K"` // the pack's; equal to u_W_m2K unless u_value is entered
+	UEntered               bool    `json:"u_entered"`
+	VelocityProductMS      float64 `json:"velocity_product_m_s"`
+	PressureDropProductKPa float64 `json:"pressure_drop_product_kPa"`
+}
+
+// Layout says how plates added to a regenerator with a plate pack are laid
+// out (docs/METHOD.md §12.4).
+type Layout string
+
+const (
+	LayoutNone Layout = "" // a regenerator without a plate pack: plates, U unchanged
+	// LayoutPasses adds whole passes to both sides: the channel velocity,
+	// and so U, stay; the pressure drop grows with the passes.
+	LayoutPasses Layout = "passes"
+	// LayoutChannels adds channels per pass to both sides: the velocity
+	// falls, and with it U and the pressure drop.
+	LayoutChannels Layout = "channels"
+)
+
+// Layouts are the layouts a plate pack takes, for flags and messages.
+var Layouts = []Layout{LayoutPasses, LayoutChannels}
+
+// LayoutStep is the number of thermal plates one step of the layout adds to
+// a pack: one more pass on each side adds both sides' channels per pass; one
+// more channel per pass on each side adds both sides' passes.
+func LayoutStep(pk *plantfile.PlatePack, l Layout) int {
+	switch l {
+	case LayoutPasses:
+		return pk.Product.ChannelsPerPass + pk.Other.ChannelsPerPass
+	case LayoutChannels:
+		return pk.Product.Passes + pk.Other.Passes
+	}
+	panic(fmt.Sprintf("%sno step for layout %q", panicPrefix, l))
 }
 
 // WhatIf compares the line with more regeneration plates against its baseline.
@@ -36,7 +87,21 @@ type WhatIf struct {
 	Currency     string         `json:"currency,omitempty"`
 	KneeAdded    *int           `json:"knee_added_plates"` // sweeps: beyond this, each 10 plates save < KneeFraction of the first 10
 	KneeFraction float64        `json:"knee_fraction"`
-	Caution      string         `json:"caution"`
+	// Layout and LayoutStep: with a plate pack, how the plates were added
+	// and how many plates one whole step adds (options are rounded to it).
+	Layout     Layout `json:"layout,omitempty"`
+	LayoutStep int    `json:"layout_step_plates,omitempty"`
+	// Rounded lists each request that whole steps changed, in the order
+	// asked; several may round to one option, which is shown once.
+	Rounded []RoundedRequest `json:"rounded,omitempty"`
+	Caution string           `json:"caution"`
+}
+
+// RoundedRequest is a number of added plates asked for and what whole
+// steps of the layout made of it.
+type RoundedRequest struct {
+	Requested int `json:"requested_added_plates"`
+	Added     int `json:"added_plates"`
 }
 
 // DefaultKneeFraction: the knee is where a further 10 plates save less than
@@ -54,7 +119,13 @@ func regenerationNotRated(p *plantfile.Plant) error {
 }
 
 // AddPlates computes the baseline and each option of added plates (≥ 1,
-// ascending after sorting). Savings:
+// ascending after sorting). A regenerator with a plate pack takes a layout
+// (passes or channels): each option is rounded to whole steps of it (at
+// least one; options that round alike are shown once) and its U and
+// pressure drops are those of the new layout. Each duty is the sections' own
+// (a rated cooling stage's is what it removes, down to the outlet it
+// reaches); savings are the baseline's duty less the option's, which for
+// sized sections is
 //
 //	heating saved = cooling saved = C · Δratio · (setpoint − raw inlet)
 //	annual energy = (heating + cooling saved) · hours;  cost = heating·h·p_heat + cooling·h·p_cool
@@ -62,25 +133,40 @@ func regenerationNotRated(p *plantfile.Plant) error {
 //
 // Every option is the whole line recomputed (sized sections re-sized, rated
 // ones re-rated), so its checks say whether the line still holds.
-func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64) (*WhatIf, error) {
+func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64, layout Layout) (*WhatIf, error) {
 	if p.Regeneration == nil || p.Regeneration.Plates.Plates == 0 {
 		return nil, regenerationNotRated(p)
 	}
 	added = append([]int(nil), added...)
 	sort.Ints(added)
-	base, err := option(p, 0, nil)
+	base, err := option(p, 0, 0, layout, nil)
 	if err != nil {
+		return nil, err // the plant's own errors first
+	}
+	if err := CheckLayout(p, layout); err != nil {
 		return nil, err
 	}
-	w := &WhatIf{Baseline: base, Options: []PlatesOption{}, KneeFraction: kneeFraction, Caution: Caution}
+	w := &WhatIf{Baseline: base, Options: []PlatesOption{}, KneeFraction: kneeFraction, Layout: layout, Caution: Caution}
 	if p.Economics != nil {
 		w.Currency = p.Economics.Currency
+	}
+	step := 1
+	if layout != LayoutNone {
+		step = LayoutStep(p.Regeneration.Pack, layout)
+		w.LayoutStep = step
 	}
 	for _, a := range added {
 		if a < 1 || a > 10000 {
 			return nil, fmt.Errorf("added plates must be from 1 to 10000, not %d", a)
 		}
-		o, err := option(p, a, &base)
+		steps := max(1, int(math.Round(float64(a)/float64(step))))
+		if steps*step != a {
+			w.Rounded = append(w.Rounded, RoundedRequest{Requested: a, Added: steps * step})
+		}
+		if n := len(w.Options); n > 0 && w.Options[n-1].AddedPlates == steps*step {
+			continue // rounds to the option before
+		}
+		o, err := option(p, a, steps, layout, &base)
 		if err != nil {
 			return nil, err
 		}
@@ -90,10 +176,44 @@ func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64) (*WhatIf, 
 	return w, nil
 }
 
-func option(p *plantfile.Plant, added int, base *PlatesOption) (PlatesOption, error) {
+// CheckLayout says whether a layout suits the plant's regenerator: one
+// with a plate pack needs passes or channels, one without takes none.
+func CheckLayout(p *plantfile.Plant, layout Layout) error {
+	pack := p.Regeneration != nil && p.Regeneration.Pack != nil
+	switch {
+	case pack && layout != LayoutPasses && layout != LayoutChannels:
+		return fmt.Errorf("the regenerator has a plate pack: say how the added plates are laid out, as whole passes (same U, more pressure drop) " +
+			"or as more channels per pass (lower velocity, U and pressure drop): --layout passes or --layout channels")
+	case !pack && layout != LayoutNone:
+		return fmt.Errorf("--layout applies to a regenerator with a plate pack (plate, product_side, other_side); this one has none, so its U stays as entered")
+	}
+	return nil
+}
+
+// option is the line with the regenerator's plates increased: by added
+// plates (no pack), or by steps of the layout (a pack; requested is the
+// number asked for).
+func option(p *plantfile.Plant, requested, steps int, layout Layout, base *PlatesOption) (PlatesOption, error) {
 	q := *p
 	rg := *p.Regeneration
-	rg.Plates.Plates += added
+	added := requested
+	if pk := rg.Pack; pk != nil {
+		grown := *pk
+		switch layout {
+		case LayoutPasses:
+			grown.Product.Passes += steps
+			grown.Other.Passes += steps
+		case LayoutChannels:
+			grown.Product.ChannelsPerPass += steps
+			grown.Other.ChannelsPerPass += steps
+		}
+		rg.Pack = &grown
+		n, _ := grown.LayoutPlates()
+		added = n - rg.Plates.Plates
+		rg.Plates.Plates = n
+	} else {
+		rg.Plates.Plates += added
+	}
 	q.Regeneration = &rg
 	res, err := Run(&q)
 	if err != nil {
@@ -109,10 +229,24 @@ func option(p *plantfile.Plant, added int, base *PlatesOption) (PlatesOption, er
 	if p.Process.OutletTarget.Set {
 		coolTo = p.Process.OutletTarget.SI
 	}
+	heating, cooling, heaters, coolers := 0.0, 0.0, 0, 0
 	for _, s := range res.Sections {
+		switch s.Kind {
+		case regen.HeatingSection:
+			heating, heaters = heating+s.DutyKW, heaters+1
+		case regen.CoolingSection:
+			cooling, coolers = cooling+s.DutyKW, coolers+1
+		}
 		switch {
 		case s.Kind == regen.RegenerationSection:
 			o.RegenerationRatio, o.RawOutC, o.PasteurizedOutC = *res.RegenerationRatio, s.ProductOutC, s.OtherOutC
+			if f := s.PackFigures; f != nil {
+				o.OptionPack = &OptionPack{RequestedAddedPlates: requested,
+					PassesProduct: f.PassesProduct, ChannelsPerPassProduct: f.ChannelsPerPassProduct,
+					PassesOther: f.PassesOther, ChannelsPerPassOther: f.ChannelsPerPassOther,
+					UWm2K: s.UWm2K, UServiceWm2K: f.UServiceWm2K, UEntered: s.raw.Pack.EnteredU,
+					VelocityProductMS: f.VelocityProductMS, PressureDropProductKPa: f.PressureDropProductKPa}
+			}
 		case s.Kind == regen.HeatingSection && s.MediumAvailableC != nil:
 			v := s.OtherInC
 			o.HeatingMediumRequiredC = &v
@@ -127,8 +261,16 @@ func option(p *plantfile.Plant, added int, base *PlatesOption) (PlatesOption, er
 			o.FailedChecks = append(o.FailedChecks, ch.ID)
 		}
 	}
-	o.HeatingDutyKW = c * (heatOut - o.RawOutC) / 1e3
-	o.CoolingDutyKW = c * (o.PasteurizedOutC - coolTo) / 1e3
+	// The duties are the sections' own, as check prints them (what rated
+	// stages actually remove, down to the outlet they reach); a line without
+	// a heating or cooling section counts the duty it would need.
+	o.HeatingDutyKW, o.CoolingDutyKW = heating, cooling
+	if heaters == 0 {
+		o.HeatingDutyKW = c * (heatOut - o.RawOutC) / 1e3
+	}
+	if coolers == 0 {
+		o.CoolingDutyKW = c * (o.PasteurizedOutC - coolTo) / 1e3
+	}
 	if base != nil {
 		o.HeatingSavedKW = base.HeatingDutyKW - o.HeatingDutyKW
 		o.CoolingSavedKW = base.CoolingDutyKW - o.CoolingDutyKW

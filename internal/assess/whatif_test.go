@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"pasval/internal/plantfile"
+	"pasval/regen"
 )
 
 const whatIfPlant = `product:
@@ -54,7 +55,7 @@ func TestAddPlatesHandWorked(t *testing.T) {
 	// Annual energy = 2 × 19.636 kW × 5000 h = 196 363.6 kWh;
 	// cost = 19.636 × 5000 × (0.05 + 0.03) = 7854.55 EUR/yr;
 	// payback = 30 × 400 / 7854.55 = 1.52778 years (= 132 000/86 400).
-	w, err := AddPlates(load(t, whatIfPlant), []int{30}, DefaultKneeFraction)
+	w, err := AddPlates(load(t, whatIfPlant), []int{30}, DefaultKneeFraction, LayoutNone)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -85,7 +86,7 @@ func TestAddPlatesEnergyBalance(t *testing.T) {
 	// Heating saved equals cooling saved equals C·Δratio·(setpoint − raw) for every option
 	// (same product both sides of the regenerator; docs/METHOD.md §6.2).
 	p := load(t, whatIfPlant)
-	w, err := AddPlates(p, []int{1, 7, 40, 200}, DefaultKneeFraction)
+	w, err := AddPlates(p, []int{1, 7, 40, 200}, DefaultKneeFraction, LayoutNone)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -97,7 +98,7 @@ func TestAddPlatesEnergyBalance(t *testing.T) {
 	}
 	// Without economics: energy rates only.
 	p.Economics = nil
-	w, _ = AddPlates(p, []int{10}, DefaultKneeFraction)
+	w, _ = AddPlates(p, []int{10}, DefaultKneeFraction, LayoutNone)
 	if w.Options[0].AnnualCostSaved != nil || w.Options[0].PaybackYears != nil || w.Options[0].HeatingSavedKW <= 0 {
 		t.Errorf("no economics: %+v", w.Options[0])
 	}
@@ -106,7 +107,7 @@ func TestAddPlatesEnergyBalance(t *testing.T) {
 func TestKnee(t *testing.T) {
 	// Savings per 10 plates fall as ε = NTU/(1+NTU) flattens: with a 10 % knee the
 	// sweep finds a knee, and the step after it saves less than 10 % of the first step.
-	w, err := AddPlates(load(t, whatIfPlant), []int{10, 20, 30, 40, 50, 60, 70, 80, 90, 100, 110, 120, 130, 140, 150, 160, 170, 180, 190, 200}, 0.10)
+	w, err := AddPlates(load(t, whatIfPlant), []int{10, 20, 30, 40, 50, 60, 70, 80, 90, 100, 110, 120, 130, 140, 150, 160, 170, 180, 190, 200}, 0.10, LayoutNone)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -127,7 +128,7 @@ func TestKnee(t *testing.T) {
 
 func TestAddPlatesNeedsRating(t *testing.T) {
 	src := strings.Replace(whatIfPlant, "plates: 30", "ratio: 0.8", 1)
-	_, err := AddPlates(load(t, src), []int{10}, DefaultKneeFraction)
+	_, err := AddPlates(load(t, src), []int{10}, DefaultKneeFraction, LayoutNone)
 	if err == nil || !strings.Contains(err.Error(), "rating mode") {
 		t.Errorf("sized regenerator: %v", err)
 	}
@@ -149,4 +150,38 @@ func mustReadB(b *testing.B, path string) []byte {
 		b.Fatal(err)
 	}
 	return data
+}
+
+func TestWhatIfDutiesAreTheSections(t *testing.T) {
+	// The baseline's duties are what check prints for the same file: the sum of
+	// the cooling stages' duties (rated stages that reach a colder outlet than
+	// the target remove more than C·(pasteurized out − target)), and the heating
+	// section's duty (hand rule: the what-if and check describe one line).
+	p := load(t, string(mustRead(t, "../../testdata/demo/cider-us.yaml")))
+	res, err := Run(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var heating, cooling float64
+	for _, s := range res.Sections {
+		switch s.Kind {
+		case regen.HeatingSection:
+			heating += s.DutyKW
+		case regen.CoolingSection:
+			cooling += s.DutyKW
+		}
+	}
+	w, err := AddPlates(p, []int{10}, DefaultKneeFraction, LayoutNone)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(w.Baseline.CoolingDutyKW-cooling) > 1e-9*cooling || math.Abs(w.Baseline.HeatingDutyKW-heating) > 1e-9*heating {
+		t.Errorf("baseline heating %g cooling %g kW, check %g and %g kW", w.Baseline.HeatingDutyKW, w.Baseline.CoolingDutyKW, heating, cooling)
+	}
+	// The rated stages reach a colder outlet than the target here, so the old
+	// count down to the target was smaller.
+	c := res.Product.ProductCapacity
+	if toTarget := c * (w.Baseline.PasteurizedOutC - p.Process.OutletTarget.SI) / 1e3; !(cooling > toTarget) {
+		t.Errorf("cooling %g kW is not more than the count to the target %g kW", cooling, toTarget)
+	}
 }

@@ -3,6 +3,7 @@ package plantfile
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"go.yaml.in/yaml/v3"
 
@@ -88,6 +89,7 @@ func (d *decoder) decodeHolding(p *Plant, top *object) {
 		h.Ambient = ht.quantity("ambient")
 		h.OuterCoefficient = ht.quantity("outer_coefficient")
 		h.PU = ht.boolean("pu")
+		h.CreditHeatLoss = ht.boolean("credit_heat_loss")
 		h.resolveDiameters()
 		p.HoldingTube = h
 	}
@@ -153,6 +155,7 @@ func (d *decoder) decodeProduct(pr *Product, o *object) {
 	pr.Density = o.quantity("density")
 	pr.SpecificHeat = o.quantity("specific_heat")
 	pr.Conductivity = o.quantity("conductivity")
+	pr.FreezingPoint = o.quantity("freezing_point")
 	if c := o.sub("composition"); c != nil {
 		comp := &Composition{Pos: d.pos(c.node)}
 		for _, f := range []struct {
@@ -191,11 +194,55 @@ func (d *decoder) decodeProduct(pr *Product, o *object) {
 func (d *decoder) decodePlates(o *object) Plates {
 	var p Plates
 	p.Arrangement = Arrangement(o.enum("arrangement"))
-	p.Plates, p.PlatesPos, _ = o.integer("plates")
+	p.Plates, p.PlatesPos, p.PlatesEntered = o.integer("plates")
 	p.PlateArea = o.quantity("plate_area")
 	p.UValue = o.quantity("u_value")
 	p.Fouling = o.quantity("fouling")
+	p.Pack = d.decodePack(o)
+	if n, ok := p.Pack.LayoutPlates(); ok && !p.PlatesEntered {
+		// Rating mode from the layout; Validate checks an entered count against it.
+		p.Plates, p.PlatesPos, p.PlatesFromLayout = n, p.Pack.Product.PassesPos, true
+	}
 	return p
+}
+
+// decodePack reads a section's plate: block and its two sides' layouts;
+// nil when none of the three is written (Validate wants all three).
+func (d *decoder) decodePack(o *object) *PlatePack {
+	pl := o.sub("plate")
+	ps, other := o.sub("product_side"), o.sub("other_side")
+	if pl == nil && ps == nil && other == nil && !o.has("plate") && !o.has("product_side") && !o.has("other_side") {
+		return nil
+	}
+	pk := &PlatePack{Pos: d.pos(o.node), Geometry: o.has("plate")}
+	if pl != nil {
+		pk.Pos = d.pos(pl.node)
+		pk.ChevronAngle = pl.quantity("chevron_angle")
+		pk.PressingDepth = pl.quantity("pressing_depth")
+		phi, pos, ok := pl.number("enlargement_factor")
+		if ok {
+			pk.EnlargementFactor = Quantity{SI: phi, Text: strings.TrimSpace(pl.values["enlargement_factor"].Value), Pos: pos, Set: true}
+		}
+		pk.ChannelWidth = pl.quantity("channel_width")
+		pk.PortToPortLength = pl.quantity("port_to_port_length")
+		pk.Thickness = pl.quantity("thickness")
+		pk.Conductivity = pl.quantity("conductivity")
+		pk.PortDiameter = pl.quantity("port_diameter")
+	}
+	side := func(s *object, product bool) SideLayout {
+		if s == nil {
+			return SideLayout{}
+		}
+		l := SideLayout{Set: true, Pos: d.pos(s.node)}
+		l.Passes, l.PassesPos, _ = s.integer("passes")
+		l.ChannelsPerPass, l.ChannelsPos, _ = s.integer("channels_per_pass")
+		if product {
+			l.MaxPressureDrop = s.quantity("max_pressure_drop")
+		}
+		return l
+	}
+	pk.Product, pk.Other = side(ps, true), side(other, false)
+	return pk
 }
 
 func (d *decoder) decodeMediumSide(o *object) MediumSide {
@@ -206,8 +253,11 @@ func (d *decoder) decodeMediumSide(o *object) MediumSide {
 		m.Medium.Name = mo.text("name")
 		m.Medium.Density = mo.quantity("density")
 		m.Medium.SpecificHeat = mo.quantity("specific_heat")
+		m.Medium.Conductivity = mo.quantity("conductivity")
+		m.Medium.Viscosity = mo.quantity("viscosity")
+		m.Medium.Pos = d.pos(mo.node)
 	} else if word == "water" {
-		m.Medium = Medium{Name: "water", Water: true}
+		m.Medium = Medium{Name: "water", Water: true, Pos: d.pos(o.values["medium"])}
 	}
 	return m
 }

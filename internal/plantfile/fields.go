@@ -182,11 +182,38 @@ func platePack(section string) []Field {
 		{Path: section + ".arrangement", Value: KindEnum, Values: []string{string(Counterflow), string(Cocurrent)}, Default: "counterflow",
 			Description: "relative direction of the two streams; co-current cannot pass 50 % regeneration", Example: "counterflow"},
 		{Path: section + ".plates", Value: KindInteger, Min: 1, Max: 100000,
-			Description: "installed thermal plates: given, the section is rated (rating mode)", Example: "112"},
+			Description: "installed thermal plates: given, the section is rated (rating mode); with a plate pack, equal to its layout's", Example: "112"},
 		q(section+".plate_area", units.Area, "effective heat-transfer area per plate", "0.35 m2").required(),
-		q(section+".u_value", units.HeatTransferCoefficient, "overall heat-transfer coefficient", "3300 W/(m2*K)").required(),
+		q(section+".u_value", units.HeatTransferCoefficient, "overall heat-transfer coefficient (optional with a plate pack, which computes it)", "3300 W/(m2*K)"),
 		q(section+".fouling", units.FoulingResistance, "fouling resistance: 1/U_eff = 1/U + R_f", "0.00005 m2*K/W").byDefault("0 m2*K/W"),
+		mapping(section+".plate", "chevron-plate geometry, for U and pressure drop from the plates and the fluids (with product_side and other_side)"),
+		q(section+".plate.chevron_angle", units.Angle, "corrugation angle from the main flow direction (toward 90°: more friction and transfer)", "60 deg").required(),
+		q(section+".plate.pressing_depth", units.Length, "pressing depth: the mean channel gap", "3 mm").required(),
+		num(section+".plate.enlargement_factor", "enlargement factor: developed over projected plate area, 1 to 2", "1.17").required(),
+		q(section+".plate.channel_width", units.Length, "channel width inside the gasket", "0.45 m").required(),
+		q(section+".plate.port_to_port_length", units.Length, "port centre to port centre: the friction length of one pass", "0.8 m").required(),
+		q(section+".plate.thickness", units.Length, "plate metal thickness", "0.6 mm").required(),
+		q(section+".plate.conductivity", units.ThermalConductivity, "thermal conductivity of the plate metal", "16 W/(m*K)").required(),
+		q(section+".plate.port_diameter", units.Length, "port diameter", "100 mm").required(),
+		mapping(section+".product_side", "the plate pack's product side (in regeneration the raw product): its layout"),
+		passes(section + ".product_side"), channels(section + ".product_side"),
+		q(section+".product_side.max_pressure_drop", units.Pressure,
+			"largest product-side pressure drop the pumps allow: the pressure-drop check", "150 kPa"),
+		mapping(section+".other_side", "the plate pack's other side (the medium; in regeneration the pasteurized product): its layout"),
+		passes(section + ".other_side"), channels(section + ".other_side"),
 	}
+}
+
+// passes and channels are a plate-pack side's layout keys.
+func passes(side string) Field {
+	return Field{Path: side + ".passes", Value: KindInteger, Min: 1, Max: 1000,
+		Description: "passes in series; given on both sides the section is rated (plates = both sides' channels − 1), omitted on both it is sized with the fewest passes",
+		Example:     "8"}
+}
+
+func channels(side string) Field {
+	return Field{Path: side + ".channels_per_pass", Value: KindInteger, Min: 1, Max: 1000, Required: true,
+		Description: "channels in parallel in each pass", Example: "7"}
 }
 
 // mediumSide is the medium keys of heating and of each cooling stage.
@@ -197,6 +224,8 @@ func mediumSide(section, inletMeaning string) []Field {
 		text(section+".medium.name", "medium name", "propylene glycol 30 %").required(),
 		q(section+".medium.density", units.Density, "medium density", "1040 kg/m3").required(),
 		q(section+".medium.specific_heat", units.SpecificHeat, "medium specific heat", "3.7 kJ/(kg*K)").required(),
+		q(section+".medium.conductivity", units.ThermalConductivity, "medium thermal conductivity (needed with a plate pack)", "0.45 W/(m*K)"),
+		q(section+".medium.viscosity", units.Viscosity, "medium viscosity (needed with a plate pack)", "4 mPa*s"),
 		q(section+".medium_inlet", units.Temperature, inletMeaning, "77 °C").required(),
 		flow(section+".medium_rate", "medium flow, volumetric or by mass", "20000 L/h").required(),
 	}
@@ -218,7 +247,7 @@ func table() []Field {
 		text("product.name", "product name", "whole milk").required(),
 		q("product.density", units.Density, "density as entered (or give composition)", "1030 kg/m3"),
 		q("product.specific_heat", units.SpecificHeat, "specific heat (or give composition)", "3.93 kJ/(kg*K)"),
-		q("product.conductivity", units.ThermalConductivity, "thermal conductivity, for the record", "0.6 W/(m*K)"),
+		q("product.conductivity", units.ThermalConductivity, "thermal conductivity, for plate packs (or give composition: Choi–Okos)", "0.6 W/(m*K)"),
 		mapping("product.composition", "mass fractions summing to 1, for Choi–Okos properties instead of density and specific heat"))
 	for _, c := range []string{"water", "protein", "fat", "carbohydrate", "fiber", "ash"} {
 		add(num("product.composition."+c, c+" mass fraction", "0.035").byDefault("0"))
@@ -238,8 +267,8 @@ func table() []Field {
 		q("process.hold_setpoint", units.Temperature, "diversion setpoint at the holding-tube outlet", "72.5 °C").required(),
 		q("process.outlet_target", units.Temperature, "product outlet target (required with cooling)", "4 °C"),
 		q("process.sensor_accuracy", units.TemperatureDifference,
-			"stated accuracy of the diversion sensor, a difference: warns when the setpoint is within it of a legal row", "0.5 °C"),
-		mapping("regeneration", "product-to-product regeneration: ratio (sizing) or plates (rating)").exactlyOne("ratio", "plates"))
+			"stated accuracy of the diversion sensor, a difference: the holding time, log reductions and legal row are judged at the setpoint less it", "0.5 °C"),
+		mapping("regeneration", "product-to-product regeneration: ratio (sizing), or plates or a plate pack's passes (rating)"))
 	pack := platePack("regeneration")
 	add(pack[0], num("regeneration.ratio", "regeneration ratio, 0 < ratio < 1: given, the section is sized (sizing mode)", "0.92"))
 	add(pack[1:]...)
@@ -285,5 +314,8 @@ func table() []Field {
 		num("economics.heat_price_per_kWh", "price per kWh of heat delivered to the heating medium", "0.048").required(),
 		num("economics.cooling_price_per_kWh", "price per kWh of heat removed by the cooling media", "0.029").required(),
 		num("economics.plate_cost", "cost per added plate, installed", "340").required())
+	add(Field{Path: "holding_tube.credit_heat_loss", Value: KindBoolean, Default: "false",
+		Description: "judge the log reduction with the heat-loss profile (hotter upstream) instead of the tube isothermal at the judged temperature: a process authority's decision", Example: "true"},
+		q("product.freezing_point", units.Temperature, "freezing point, for the warning on product cooled below it (default 0 °C)", "-0.5 °C"))
 	return t
 }

@@ -93,10 +93,13 @@ type Product struct {
 	Density      Quantity // kg/m³ (optional with Composition)
 	SpecificHeat Quantity // J/(kg·K) (optional with Composition)
 	Conductivity Quantity // W/(m·K), optional
-	Composition  *Composition
-	Viscosity    []ViscosityPoint // Newtonian points; empty when PowerLaw is set or none entered
-	PowerLaw     *PowerLaw
-	Pos          inputerr.Pos
+	// FreezingPoint is the product's freezing point, °C, optional: below it
+	// (or below 0 °C when not entered) the cooled product is flagged.
+	FreezingPoint Quantity
+	Composition   *Composition
+	Viscosity     []ViscosityPoint // Newtonian points; empty when PowerLaw is set or none entered
+	PowerLaw      *PowerLaw
+	Pos           inputerr.Pos
 }
 
 // Composition is the product make-up by mass fraction, as entered. The
@@ -173,11 +176,67 @@ const (
 // Plates describes a plate pack.
 type Plates struct {
 	Arrangement Arrangement
-	Plates      int          // 0: sizing mode
-	PlatesPos   inputerr.Pos // where plates was written
-	PlateArea   Quantity     // m² per thermal plate
-	UValue      Quantity     // W/(m²·K)
-	Fouling     Quantity     // m²·K/W, optional: 1/U_eff = 1/U + R_f
+	// Plates is the thermal plates: as entered, or from the layout of a
+	// plate pack whose two sides give their passes (PlatesFromLayout); 0:
+	// sizing mode.
+	Plates           int
+	PlatesPos        inputerr.Pos // where plates was written (from the layout: the product side's passes)
+	PlatesEntered    bool         // plates: was written
+	PlatesFromLayout bool
+	PlateArea        Quantity // m² per thermal plate
+	UValue           Quantity // W/(m²·K); optional with a plate pack
+	Fouling          Quantity // m²·K/W, optional: 1/U_eff = 1/U + R_f
+	Pack             *PlatePack
+}
+
+// PlatePack is a section's chevron-plate geometry and the layout of its two
+// sides, from which U and the pressure drops are computed (docs/METHOD.md
+// §12, plate packs). Pos is where plate: was written.
+type PlatePack struct {
+	ChevronAngle      Quantity // rad, from the main flow direction
+	PressingDepth     Quantity // m
+	EnlargementFactor Quantity // developed / projected area (a number)
+	ChannelWidth      Quantity // m
+	PortToPortLength  Quantity // m
+	Thickness         Quantity // m
+	Conductivity      Quantity // W/(m·K), the plate metal
+	PortDiameter      Quantity // m
+	Product, Other    SideLayout
+	Geometry          bool         // plate: was written
+	Pos               inputerr.Pos // of plate:, or of the section without one
+}
+
+// SideLayout is one side's passes and channels per pass. Passes 0 (not
+// given) on both sides means sizing: the fewest passes are found.
+type SideLayout struct {
+	Set             bool // the side's mapping was written
+	Passes          int
+	PassesPos       inputerr.Pos
+	ChannelsPerPass int
+	ChannelsPos     inputerr.Pos
+	MaxPressureDrop Quantity // Pa, product side only: the pressure-drop check
+	Pos             inputerr.Pos
+}
+
+// layoutComplete reports whether both sides are given, each with its passes
+// or neither with them.
+func (p *PlatePack) layoutComplete() bool {
+	return p.Product.Set && p.Other.Set && (p.Product.Passes == 0) == (p.Other.Passes == 0)
+}
+
+// LayoutPlates is the number of thermal plates the two sides' layouts give
+// when both give their passes (ok false otherwise):
+//
+//	plates = passes_product · channels_product + passes_other · channels_other − 1
+//
+// The channels of the two sides alternate along the pack, one plate between
+// each neighbouring pair (docs/METHOD.md §12, plate packs); regen's
+// PlatePack.ThermalPlates counts the same way (a test ties the two).
+func (p *PlatePack) LayoutPlates() (int, bool) {
+	if p == nil || p.Product.Passes == 0 || p.Other.Passes == 0 {
+		return 0, false
+	}
+	return p.Product.Passes*p.Product.ChannelsPerPass + p.Other.Passes*p.Other.ChannelsPerPass - 1, true
 }
 
 // Regeneration is the product-to-product section.
@@ -196,6 +255,9 @@ type Medium struct {
 	Water        bool
 	Density      Quantity
 	SpecificHeat Quantity
+	Conductivity Quantity     // W/(m·K): a described medium in a plate pack
+	Viscosity    Quantity     // Pa·s: a described medium in a plate pack
+	Pos          inputerr.Pos // of the medium's mapping (or word)
 }
 
 // MediumSide is what heating and cooling stages share.
@@ -237,7 +299,10 @@ type HoldingTube struct {
 	Ambient          Quantity
 	OuterCoefficient Quantity // W/(m²·K) on the outer surface
 	PU               bool     // report brewing pasteurization units
-	Pos              inputerr.Pos
+	// CreditHeatLoss judges the log reduction with the heat-loss profile
+	// (holding_tube.credit_heat_loss; a process authority's decision).
+	CreditHeatLoss bool
+	Pos            inputerr.Pos
 }
 
 // Organism is a target organism with its kinetics.

@@ -93,3 +93,27 @@ func TestDidYouMean(t *testing.T) {
 		t.Errorf("didYouMean(banana) = %q", got)
 	}
 }
+
+func TestPlatePackLayout(t *testing.T) {
+	// The SI demo's regenerator gives both sides' passes: rating mode with
+	// 8·7 + 8·7 − 1 = 111 plates (docs/METHOD.md §12.1), the count placed at
+	// the product side's passes; its heating gives none: sizing mode. The
+	// chevron angle is read in radians (60° = π/3).
+	p, err := Load("../../testdata/demo/htst-milk-si.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := p.Regeneration
+	if r.Pack == nil || r.Plates.Plates != 111 || !r.PlatesFromLayout || r.PlatesEntered || r.PlatesPos != r.Pack.Product.PassesPos {
+		t.Errorf("regeneration: %d plates, from layout %v", r.Plates.Plates, r.PlatesFromLayout)
+	}
+	if math.Abs(r.Pack.ChevronAngle.SI-math.Pi/3) > 1e-15 || r.Pack.EnlargementFactor.SI != 1.17 || r.Pack.Product.MaxPressureDrop.SI != 150e3 {
+		t.Errorf("pack %+v", r.Pack)
+	}
+	if h := p.Heating; h.Pack == nil || h.Plates.Plates != 0 || h.Pack.Product.ChannelsPerPass != 5 || h.Pack.Other.ChannelsPerPass != 6 || !h.UValue.Set {
+		t.Errorf("heating: %d plates, pack %+v", h.Plates.Plates, h.Pack)
+	}
+	if p.Cooling[0].Pack != nil {
+		t.Error("cooling has no pack")
+	}
+}

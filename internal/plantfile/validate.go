@@ -100,6 +100,30 @@ func (v *validator) product(p *Plant) {
 	if pr.PowerLaw != nil {
 		v.positive(pr.PowerLaw.Consistency, "product.power_law.consistency")
 	}
+	if section := firstPack(p); section != "" && pr.Name != "" {
+		if !pr.Conductivity.Set && pr.Composition == nil {
+			v.add(pr.Pos, "product.conductivity", "missing; the plate pack of %s needs the product's thermal conductivity: give conductivity (e.g. 0.6 W/(m*K)) or a composition (Choi–Okos)", section)
+		}
+		if len(pr.Viscosity) == 0 && pr.PowerLaw == nil {
+			v.add(pr.Pos, "product.viscosity", "missing; the plate pack of %s needs the product's viscosity: give viscosity points or power_law", section)
+		}
+	}
+}
+
+// firstPack names the first section with a plate pack, or "".
+func firstPack(p *Plant) string {
+	switch {
+	case p.Regeneration != nil && p.Regeneration.Pack != nil:
+		return "regeneration"
+	case p.Heating != nil && p.Heating.Pack != nil:
+		return "heating"
+	}
+	for i, c := range p.Cooling {
+		if c.Pack != nil {
+			return fmt.Sprintf("cooling[%d]", i)
+		}
+	}
+	return ""
 }
 
 func (v *validator) flow(p *Plant) {
@@ -134,20 +158,75 @@ func (v *validator) process(p *Plant) {
 	}
 }
 
-func (v *validator) plates(section string, pl *Plates) {
+func (v *validator) plates(section string, pos inputerr.Pos, pl *Plates) {
 	v.positive(pl.PlateArea, section+".plate_area")
 	v.positive(pl.UValue, section+".u_value")
 	if pl.Fouling.Set && pl.Fouling.SI < 0 {
 		v.add(pl.Fouling.Pos, section+".fouling", "a fouling resistance cannot be negative, found %s", pl.Fouling.Text)
 	}
+	if pl.Pack == nil {
+		if !pl.UValue.Set {
+			v.add(pos, section+".u_value", "missing; give u_value (e.g. 3300 W/(m2*K)), or describe the plate pack (plate, product_side, other_side) to compute it")
+		}
+		return
+	}
+	v.pack(section, pos, pl)
+}
+
+// pack checks a plate pack's structure: all three blocks, the passes on both
+// sides or on neither, and an entered plate count that the layout gives.
+// The ranges of its values are the engine's (regen.PlatePack.Validate),
+// checked when the plant is computed.
+func (v *validator) pack(section string, pos inputerr.Pos, pl *Plates) {
+	pk := pl.Pack
+	if !pk.Geometry {
+		v.add(pos, section+".plate", "missing; product_side and other_side describe a plate pack's layout, which needs its plate geometry too")
+	}
+	for _, side := range []struct {
+		l    SideLayout
+		name string
+	}{{pk.Product, "product_side"}, {pk.Other, "other_side"}} {
+		if !side.l.Set {
+			v.add(pos, section+"."+side.name, "missing; a plate pack needs the layout of both sides, e.g. %s: {passes: 8, channels_per_pass: 7}", side.name)
+		}
+	}
+	if !pk.Product.Set || !pk.Other.Set {
+		return
+	}
+	p, o := pk.Product, pk.Other
+	switch {
+	case (p.Passes == 0) != (o.Passes == 0):
+		given, missing := section+".product_side.passes", section+".other_side"
+		at := p.PassesPos
+		if p.Passes == 0 {
+			given, missing, at = section+".other_side.passes", section+".product_side", o.PassesPos
+		}
+		v.add(at, given, "%s gives no passes; give the passes of both sides (rating mode) or of neither (sizing mode: the fewest passes are found)", missing)
+	case p.Passes == 0 && pl.PlatesEntered:
+		v.add(pl.PlatesPos, section+".plates",
+			"with a plate pack, rating mode takes the passes of both sides (the plates are then both sides' channels − 1); give product_side.passes and other_side.passes, or remove plates to size the pack")
+	case p.Passes > 0 && pl.PlatesEntered:
+		if n, _ := pk.LayoutPlates(); n != pl.Plates {
+			v.add(pl.PlatesPos, section+".plates",
+				"%d thermal plates, but the layout gives %d × %d + %d × %d − 1 = %d (product_side.passes at line %d, other_side.passes at line %d); make them agree or remove plates",
+				pl.Plates, p.Passes, p.ChannelsPerPass, o.Passes, o.ChannelsPerPass, n, p.PassesPos.Line, o.PassesPos.Line)
+		}
+	}
+	v.positive(p.MaxPressureDrop, section+".product_side.max_pressure_drop")
 }
 
 func (v *validator) regeneration(p *Plant) {
 	r := p.Regeneration
-	v.plates("regeneration", &r.Plates)
+	v.plates("regeneration", r.Pos, &r.Plates)
 	switch {
+	case r.RatioSet && r.Plates.PlatesFromLayout:
+		v.add(r.RatioPos, "regeneration.ratio", "give either ratio (sizing: the fewest passes are found) or the passes of both sides (rating), not both")
 	case r.RatioSet && r.Plates.Plates > 0:
 		v.add(r.RatioPos, "regeneration.ratio", "give either ratio (sizing) or plates (rating), not both")
+	case !r.RatioSet && r.Plates.Plates == 0 && r.Pack != nil:
+		if r.Pack.layoutComplete() { // else the layout's own error says what is missing
+			v.add(r.Pos, "regeneration.ratio", "missing; give ratio (sizing, e.g. 0.92) or the passes of both sides of the plate pack (rating)")
+		}
 	case !r.RatioSet && r.Plates.Plates == 0:
 		v.add(r.Pos, "regeneration.ratio", "missing; give ratio (sizing, e.g. 0.92) or plates (rating, e.g. 112)")
 	case r.RatioSet && !(r.Ratio > 0 && r.Ratio < 1):
@@ -160,7 +239,19 @@ func (v *validator) regeneration(p *Plant) {
 }
 
 func (v *validator) mediumSide(section string, pos inputerr.Pos, m *MediumSide) {
-	v.plates(section, &m.Plates)
+	v.plates(section, pos, &m.Plates)
+	if m.Pack != nil && !m.Medium.Water && m.Medium.Name != "" {
+		for _, q := range []struct {
+			q       Quantity
+			key, eg string
+		}{{m.Medium.Conductivity, "conductivity", "0.45 W/(m*K)"}, {m.Medium.Viscosity, "viscosity", "4 mPa*s"}} {
+			if !q.q.Set {
+				v.add(m.Medium.Pos, section+".medium."+q.key, "missing; the plate pack needs the medium's %s (e.g. %s) besides its density and specific heat", q.key, q.eg)
+			}
+		}
+	}
+	v.positive(m.Medium.Conductivity, section+".medium.conductivity")
+	v.positive(m.Medium.Viscosity, section+".medium.viscosity")
 	if m.MediumRate.Set && !(m.MediumRate.SI > 0) {
 		v.add(m.MediumRate.Pos, section+".medium_rate", "the flow must be greater than zero, found %s", m.MediumRate.Text)
 	}
@@ -264,7 +355,10 @@ func (v *validator) holding(p *Plant) {
 			v.add(h.Ambient.Pos, "holding_tube.ambient", "the ambient %s is not below the setpoint %s; the tube would gain heat", h.Ambient.Text, p.Process.HoldSetpoint.Text)
 		}
 	}
-	if len(p.Product.Viscosity) == 0 && p.Product.PowerLaw == nil && p.Product.Name != "" {
+	if h.CreditHeatLoss && !h.OuterCoefficient.Set {
+		v.add(h.Pos, "holding_tube.credit_heat_loss", "true needs heat loss (ambient and outer_coefficient): without it there is no credit to take")
+	}
+	if len(p.Product.Viscosity) == 0 && p.Product.PowerLaw == nil && p.Product.Name != "" && firstPack(p) == "" {
 		v.add(p.Product.Pos, "product.viscosity", "missing; the holding tube's flow regime needs viscosity points or power_law")
 	}
 	if !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {

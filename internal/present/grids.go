@@ -2,6 +2,7 @@ package present
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"pasval/internal/assess"
@@ -96,8 +97,11 @@ func Temperatures(res *assess.Result, d Display) Grid {
 
 // CheckLabel is a check's id, with the organism for log-reduction checks.
 func CheckLabel(c assess.Check) string {
-	if c.Organism != "" {
+	switch {
+	case c.Organism != "":
 		return string(c.ID) + " (" + c.Organism + ")"
+	case c.Section != "":
+		return string(c.ID) + " (" + c.Section + ")"
 	}
 	return string(c.ID)
 }
@@ -114,7 +118,8 @@ func Checks(res *assess.Result, d Display) Grid {
 		if c.Limit == "max" {
 			op = "≤ "
 		}
-		g.add(CheckLabel(c), verdict, op+CheckValue(c.Required, c.Unit, d), CheckValue(c.Actual, c.Unit, d), CheckMargin(c, d), CheckNote(c, d))
+		req, act := CheckValues(c, d)
+		g.add(CheckLabel(c), verdict, op+req, act, CheckMargin(c, d), CheckNote(c, d))
 	}
 	return g
 }
@@ -160,8 +165,26 @@ func HoldingFacts(res *assess.Result, d Display) [][2]string {
 	if h.FastestToMeanOverridden {
 		ratio += " (entered)"
 	}
-	add("flow", fmt.Sprintf("mean velocity %s/s, Re %.0f (%s), fastest/mean %s", d.With(h.MeanVelocity, units.Length, 3), h.Reynolds, h.Regime, ratio))
-	add("residence", fmt.Sprintf("fastest particle %.2f s, mean %.2f s", h.MinResidenceS, h.MeanResidenceS))
+	add("flow", fmt.Sprintf("mean velocity %s/s, Re %.0f (%s), fastest/mean %s at the sealed maximum", d.With(h.MeanVelocity, units.Length, 3), h.Reynolds, h.Regime, ratio))
+	add("residence", fmt.Sprintf("fastest particle %.2f s, mean %.2f s at the sealed maximum", h.MinResidenceS, h.MeanResidenceS))
+	if h.WorstFlowAtSeal {
+		add("worst flow", "the sealed maximum: no lower flow gives the fastest particle less time")
+	} else {
+		add("worst flow", fmt.Sprintf("%s (%s, just below Re 4000): fastest/mean %.3f, fastest particle %.2f s; the holding time and log reductions are judged here",
+			d.Flow(h.WorstFlowM3s), h.WorstFlowRegime, h.WorstFastestToMean, h.WorstMinResidenceS))
+	}
+	judged := fmt.Sprintf("the setpoint %s", d.With(h.SetpointC, units.Temperature, 2))
+	if h.SensorAccuracyK > 0 {
+		judged = fmt.Sprintf("%s, the setpoint %s less the sensor accuracy %s", d.With(h.JudgedTemperatureC, units.Temperature, 2),
+			d.With(h.SetpointC, units.Temperature, 2), d.With(h.SensorAccuracyK, units.TemperatureDifference, 2))
+	}
+	switch {
+	case h.CreditHeatLoss:
+		judged += "; log reductions with the heat-loss profile (credit taken: holding_tube.credit_heat_loss: true)"
+	case h.InletTemperatureC != h.OutletTemperatureC:
+		judged += "; log reductions with the tube isothermal there (the heat-loss credit is shown, not taken)"
+	}
+	add("judged at", judged)
 	if h.InletTemperatureC != h.OutletTemperatureC {
 		add("temperature", fmt.Sprintf("inlet %s → outlet %s with heat loss; the heater delivers %s at the normal rate",
 			d.With(h.InletTemperatureC, units.Temperature, 2), d.With(h.OutletTemperatureC, units.Temperature, 2), d.With(h.HeatingOutletC, units.Temperature, 2)))
@@ -181,13 +204,16 @@ func LegalRows(res *assess.Result, d Display) Grid {
 	g := grid("row", ">temperature", ">time", "applies", ">length needed", ">max flow")
 	for i, r := range h.Rows {
 		applies := "no (above setpoint)"
+		if r.AppliesAtSet && !r.Applies {
+			applies = "no (above judged temperature)"
+		}
 		if r.Applies {
 			applies = "yes"
 			if h.Legal != nil && h.Legal.RowIndex == i {
 				applies = "yes: judged"
 			}
 		}
-		maxFlow := d.With(r.MaxFlowM3s, units.VolumeFlow, 0)
+		maxFlow := d.Flow(r.MaxFlowM3s)
 		if r.MaxFlowCapped {
 			maxFlow = "≥ " + maxFlow
 		}
@@ -197,17 +223,65 @@ func LegalRows(res *assess.Result, d Display) Grid {
 	return g
 }
 
-// Lethality is each organism's result.
-func Lethality(res *assess.Result) Grid {
-	g := grid("organism", ">D at setpoint", ">log reduction", ">required", ">equivalent time at D temperature")
+// Lethality is each organism's result: the judged log reduction and, beside
+// it, the values at the seal, at the setpoint and with or without the
+// heat-loss credit where they differ.
+func Lethality(res *assess.Result, d Display) Grid {
+	h := res.HoldingTube
+	atSeal, atSet := !h.WorstFlowAtSeal, h.SensorAccuracyK > 0
+	heatLoss := len(res.Lethality) > 0 && res.Lethality[0].LogReductionCredit != nil
+	headers := []string{"organism", ">D at " + d.With(h.JudgedTemperatureC, units.Temperature, 2), ">log reduction"}
+	if atSeal {
+		headers = append(headers, ">at the seal")
+	}
+	if atSet {
+		headers = append(headers, ">at the setpoint")
+	}
+	if heatLoss && h.CreditHeatLoss {
+		headers = append(headers, ">isothermal")
+	} else if heatLoss {
+		headers = append(headers, ">with heat-loss credit")
+	}
+	headers = append(headers, ">required", ">equivalent time at D temperature")
+	g := grid(headers...)
 	for i, l := range res.Lethality {
 		req := "—"
 		if res.Plant.Organisms[i].RequiredSet {
 			req = fmt.Sprintf("%.2f", l.RequiredLogReduction)
 		}
-		g.add(l.Organism, fmt.Sprintf("%.4g s", l.DAtSetpointS), fmt.Sprintf("%.2f", l.LogReduction), req, fmt.Sprintf("%.2f s", l.EquivalentTimeS))
+		cells := []string{l.Organism, fmt.Sprintf("%.4g s", l.DAtJudgedS), LogText(l.LogReduction)}
+		if atSeal {
+			cells = append(cells, LogText(l.LogReductionAtSeal))
+		}
+		if atSet {
+			cells = append(cells, LogText(l.LogReductionAtSet))
+		}
+		if heatLoss && h.CreditHeatLoss {
+			cells = append(cells, LogText(l.LogReductionIso))
+		} else if heatLoss {
+			cells = append(cells, LogText(*l.LogReductionCredit))
+		}
+		eq := fmt.Sprintf("%.2f s", l.EquivalentTimeS)
+		if l.EquivalentTimeS >= 1e6 {
+			eq = fmt.Sprintf("%.3g s", l.EquivalentTimeS)
+		}
+		g.add(append(cells, req, eq)...)
 	}
 	return g
+}
+
+// HoldingHeading is the holding tube's heading: the sealed maximum, at the
+// setpoint's density, and the worst flow when it lies below the seal.
+func HoldingHeading(res *assess.Result, d Display) string {
+	h, pp := res.HoldingTube, res.Product
+	seal := d.Flow(h.MaxFlowM3s)
+	if entered := pp.MaxMassFlow / pp.Density; math.Abs(entered/h.MaxFlowM3s-1) > 1e-9 {
+		seal += fmt.Sprintf(" at the setpoint density (%s at %s)", d.Flow(entered), d.With(pp.Density, units.Density, 1))
+	}
+	if h.WorstFlowAtSeal {
+		return fmt.Sprintf("judged at the sealed maximum, %s", seal)
+	}
+	return fmt.Sprintf("sealed maximum %s; judged at %s, the worst flow below it", seal, d.Flow(h.WorstFlowM3s))
 }
 
 // AddedLabel is "baseline" or "+N".
@@ -254,9 +328,138 @@ func SectionDetail(res *assess.Result, s assess.Section, d Display) Grid {
 		pairs = append(pairs, [2]string{"medium inlet available", d.With(*s.MediumAvailableC, tu, 2)},
 			[2]string{"medium inlet required", d.With(s.OtherInC, tu, 2)})
 	}
+	pairs = append(pairs, packPairs(res, s, d)...)
+	if len(pairs)%2 == 1 {
+		pairs = append(pairs, [2]string{"", ""})
+	}
 	g := grid("quantity", ">value", "quantity", ">value")
 	for i := 0; i+1 < len(pairs); i += 2 {
 		g.add(pairs[i][0], pairs[i][1], pairs[i+1][0], pairs[i+1][1])
 	}
 	return g
+}
+
+// PlatesLayout is the what-if's regenerator plate pack per option: the
+// layout of each side, the raw side's channel velocity, U and the raw side's
+// pressure drop (and the pack's own U when the line keeps an entered one).
+func PlatesLayout(w *assess.WhatIf, d Display) Grid {
+	entered := w.Baseline.OptionPack != nil && w.Baseline.UEntered
+	hu := d.Unit(units.HeatTransferCoefficient)
+	headers := []string{">added", ">plates", ">raw side", ">pasteurized side", ">raw velocity " + d.Unit(units.Length) + "/s", ">U " + hu}
+	if entered {
+		headers = append(headers, ">pack U "+hu)
+	}
+	g := grid(append(headers, ">raw Δp "+d.Unit(units.Pressure))...)
+	for _, o := range append([]assess.PlatesOption{w.Baseline}, w.Options...) {
+		x := o.OptionPack
+		if x == nil {
+			continue
+		}
+		row := []string{AddedLabel(o), fmt.Sprint(o.Plates), fmt.Sprintf("%d × %d", x.PassesProduct, x.ChannelsPerPassProduct),
+			fmt.Sprintf("%d × %d", x.PassesOther, x.ChannelsPerPassOther), d.Num(x.VelocityProductMS, units.Length, 3),
+			d.Num(x.UWm2K, units.HeatTransferCoefficient, 0)}
+		if entered {
+			row = append(row, d.Num(x.UServiceWm2K, units.HeatTransferCoefficient, 0))
+		}
+		g.add(append(row, d.Num(x.PressureDropProductKPa*1e3, units.Pressure, 1))...)
+	}
+	return g
+}
+
+// LayoutNotes explain how a what-if laid out the added plates: the step of
+// the layout, the options rounded to it, and an entered U that the line kept.
+func LayoutNotes(w *assess.WhatIf) []string {
+	b := w.Baseline.OptionPack
+	if w.Layout == assess.LayoutNone || b == nil {
+		return nil
+	}
+	var notes []string
+	switch w.Layout {
+	case assess.LayoutChannels:
+		notes = append(notes, fmt.Sprintf("Plates are added as channels per pass (passes × channels per pass on each side): one more channel per pass on both sides "+
+			"adds %d plates (%d + %d passes), lowering the channel velocity and with it U and the pressure drop.", w.LayoutStep, b.PassesProduct, b.PassesOther))
+	case assess.LayoutPasses:
+		notes = append(notes, fmt.Sprintf("Plates are added as whole passes (passes × channels per pass on each side): one more pass on both sides "+
+			"adds %d plates (%d + %d channels per pass); the channel velocity and U stay, the pressure drop grows with the passes.",
+			w.LayoutStep, b.ChannelsPerPassProduct, b.ChannelsPerPassOther))
+	}
+	var rounded []string
+	for _, r := range w.Rounded {
+		rounded = append(rounded, fmt.Sprintf("+%d → +%d", r.Requested, r.Added))
+	}
+	if len(rounded) > 0 {
+		notes = append(notes, "Rounded to whole steps: "+strings.Join(rounded, ", ")+"; requests that round alike are shown once.")
+	}
+	if b.UEntered {
+		notes = append(notes, "The line keeps the regenerator's entered u_value (column U); pack U is what the plate pack itself gives.")
+	}
+	return notes
+}
+
+// packSides names the two streams of a section's plate pack.
+func packSides(p *plantfile.Plant, s assess.Section) (string, string) {
+	if s.Kind == regen.RegenerationSection {
+		return "raw product", "pasteurized product"
+	}
+	return "product", OtherStream(p, s)
+}
+
+// PackSides is the plate-pack table of each side: layout, channel velocity,
+// Reynolds number, film coefficient and pressure drop (docs/METHOD.md §12).
+func PackSides(res *assess.Result, d Display) Grid {
+	g := grid("section", "side", ">passes × channels", ">velocity "+d.Unit(units.Length)+"/s", ">Re",
+		">h "+d.Unit(units.HeatTransferCoefficient), ">Δp "+d.Unit(units.Pressure))
+	for _, s := range res.Sections {
+		f := s.PackFigures
+		if f == nil {
+			continue
+		}
+		product, other := packSides(res.Plant, s)
+		g.add(SectionLabel(s), product, fmt.Sprintf("%d × %d", f.PassesProduct, f.ChannelsPerPassProduct), d.Num(f.VelocityProductMS, units.Length, 3),
+			fmt.Sprintf("%.0f", f.ReynoldsProduct), d.Num(f.HProductWm2K, units.HeatTransferCoefficient, 0), d.Num(f.PressureDropProductKPa*1e3, units.Pressure, 1))
+		g.add("", other, fmt.Sprintf("%d × %d", f.PassesOther, f.ChannelsPerPassOther), d.Num(f.VelocityOtherMS, units.Length, 3),
+			fmt.Sprintf("%.0f", f.ReynoldsOther), d.Num(f.HOtherWm2K, units.HeatTransferCoefficient, 0), d.Num(f.PressureDropOtherKPa*1e3, units.Pressure, 1))
+	}
+	return g
+}
+
+// PackU is the overall coefficient of each section with a plate pack: clean,
+// in service (with fouling), the one the section used and where it came from.
+func PackU(res *assess.Result, d Display) Grid {
+	hu := d.Unit(units.HeatTransferCoefficient)
+	g := grid("section", ">U clean "+hu, ">U service "+hu, ">U used "+hu, "U used is")
+	for _, s := range res.Sections {
+		f := s.PackFigures
+		if f == nil {
+			continue
+		}
+		from := "the plate pack's U in service"
+		if diff, ok := s.UDifference(res.Plant); ok {
+			from = fmt.Sprintf("the entered u_value, with fouling (u_value %s %% against U clean)", Signed(fmt.Sprintf("%.0f", diff*100)))
+		}
+		g.add(SectionLabel(s), d.Num(f.UCleanWm2K, units.HeatTransferCoefficient, 0), d.Num(f.UServiceWm2K, units.HeatTransferCoefficient, 0),
+			d.Num(s.UWm2K, units.HeatTransferCoefficient, 0), from)
+	}
+	return g
+}
+
+// packPairs are a section's plate-pack quantities for its detail table, the
+// two sides of each quantity side by side.
+func packPairs(res *assess.Result, s assess.Section, d Display) [][2]string {
+	f := s.PackFigures
+	if f == nil {
+		return nil
+	}
+	product, other := packSides(res.Plant, s)
+	hu := units.HeatTransferCoefficient
+	return [][2]string{
+		{"U clean (plate pack)", d.With(f.UCleanWm2K, hu, 0)}, {"U in service (plate pack)", d.With(f.UServiceWm2K, hu, 0)},
+		{product + ": passes × channels", fmt.Sprintf("%d × %d", f.PassesProduct, f.ChannelsPerPassProduct)},
+		{other + ": passes × channels", fmt.Sprintf("%d × %d", f.PassesOther, f.ChannelsPerPassOther)},
+		{product + ": velocity", d.With(f.VelocityProductMS, units.Length, 3) + "/s"}, {other + ": velocity", d.With(f.VelocityOtherMS, units.Length, 3) + "/s"},
+		{product + ": Reynolds number", fmt.Sprintf("%.0f", f.ReynoldsProduct)}, {other + ": Reynolds number", fmt.Sprintf("%.0f", f.ReynoldsOther)},
+		{product + ": film coefficient", d.With(f.HProductWm2K, hu, 0)}, {other + ": film coefficient", d.With(f.HOtherWm2K, hu, 0)},
+		{product + ": pressure drop", d.With(f.PressureDropProductKPa*1e3, units.Pressure, 1)},
+		{other + ": pressure drop", d.With(f.PressureDropOtherKPa*1e3, units.Pressure, 1)},
+	}
 }

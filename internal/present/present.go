@@ -5,6 +5,7 @@ package present
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"pasval/internal/assess"
@@ -52,51 +53,97 @@ func (d Display) Small(m float64) string {
 }
 
 // CheckValue formats a check's required or actual value in display units.
-func CheckValue(v float64, unit string, d Display) string {
+func CheckValue(v float64, unit string, d Display) string { return checkValue(v, unit, d, 0) }
+
+// checkValue formats with extra decimals beyond the usual precision.
+func checkValue(v float64, unit string, d Display, extra int) string {
 	switch unit {
 	case "°C":
-		return d.With(v, units.Temperature, 2)
+		return d.With(v, units.Temperature, 2+extra)
 	case "s":
-		return fmt.Sprintf("%.2f s", v)
+		return fmt.Sprintf("%.*f s", 2+extra, v)
 	case "m":
-		return d.With(v, units.Length, 2)
+		return d.With(v, units.Length, 2+extra)
 	case "Pa":
-		return d.With(v, units.Pressure, 1)
+		return d.With(v, units.Pressure, 1+extra)
 	case "slope":
-		return Slope(v, d)
+		return slope(v, d, extra)
 	case "log":
-		return fmt.Sprintf("%.2f log", v)
+		if v > LogCap {
+			return LogText(v) + " log"
+		}
+		return fmt.Sprintf("%.*f log", 2+extra, v)
 	case "":
-		return fmt.Sprintf("%.3g", v)
+		return fmt.Sprintf("%.*g", 3+extra, v)
 	}
-	return fmt.Sprintf("%.4g %s", v, unit)
+	return fmt.Sprintf("%.*g %s", 4+extra, v, unit)
 }
 
-// CheckMargin formats a check's margin with its sign, in display units.
+// CheckValues formats a check's required and actual values, with more
+// decimals when they would print alike but differ (15.0001 s against
+// 14.9987 s is not "15.00 s" against "15.00 s").
+func CheckValues(c assess.Check, d Display) (required, actual string) {
+	for extra := 0; ; extra++ {
+		required, actual = checkValue(c.Required, c.Unit, d, extra), checkValue(c.Actual, c.Unit, d, extra)
+		if required != actual || atLimit(c) || extra >= 8 {
+			return required, actual
+		}
+	}
+}
+
+// atLimit is a margin within the one tolerance rule of zero: the value equals
+// its limit by construction.
+func atLimit(c assess.Check) bool {
+	return math.Abs(c.Margin) <= assess.Tolerance*math.Abs(c.Required)
+}
+
+// CheckMargin formats a check's margin with its sign, in display units, with
+// enough decimals to show the sign of a small margin; a margin at the limit
+// (within the tolerance rule) prints as an unsigned zero.
 func CheckMargin(c assess.Check, d Display) string {
+	if c.MarginUnit == "log" && c.Actual > LogCap {
+		return "> " + Signed(fmt.Sprintf("%.2f", LogCap-c.Required)) + " log"
+	}
+	for extra := 0; ; extra++ {
+		num, unit := marginNumber(c, d, extra)
+		if atLimit(c) {
+			return strings.TrimPrefix(num, "-") + unit
+		}
+		if strings.Trim(num, "-0.") != "" || extra >= 8 {
+			return Signed(num) + unit
+		}
+	}
+}
+
+// marginNumber is a margin's number (unsigned form from %f) and its unit.
+func marginNumber(c assess.Check, d Display, extra int) (string, string) {
 	switch c.MarginUnit {
 	case "K":
-		return Signed(d.Num(c.Margin, units.TemperatureDifference, 2)) + " " + d.Unit(units.TemperatureDifference)
+		return d.Num(c.Margin, units.TemperatureDifference, 2+extra), " " + d.Unit(units.TemperatureDifference)
 	case "Pa":
-		return Signed(d.Num(c.Margin, units.Pressure, 1)) + " " + d.Unit(units.Pressure)
+		return d.Num(c.Margin, units.Pressure, 1+extra), " " + d.Unit(units.Pressure)
 	case "m":
-		return Signed(d.Num(c.Margin, units.Length, 2)) + " " + d.Unit(units.Length)
+		return d.Num(c.Margin, units.Length, 2+extra), " " + d.Unit(units.Length)
 	case "%":
-		return Signed(fmt.Sprintf("%.1f", c.Margin)) + " %"
+		return fmt.Sprintf("%.*f", 1+extra, c.Margin), " %"
 	case "slope":
-		return Signed(Slope(c.Margin, d))
+		s := slope(c.Margin, d, extra)
+		i := strings.LastIndex(s, " ")
+		return s[:i], s[i:]
 	case "log":
-		return Signed(fmt.Sprintf("%.2f", c.Margin)) + " log"
+		return fmt.Sprintf("%.*f", 2+extra, c.Margin), " log"
 	case "s":
-		return Signed(fmt.Sprintf("%.2f", c.Margin)) + " s"
+		return fmt.Sprintf("%.*f", 2+extra, c.Margin), " s"
 	}
-	return Signed(fmt.Sprintf("%.3g", c.Margin)) + " " + c.MarginUnit
+	return fmt.Sprintf("%.*g", 3+extra, c.Margin), " " + c.MarginUnit
 }
 
 // Slope prints rise/length as cm/m (SI) or in/ft (US).
-func Slope(v float64, d Display) string {
+func Slope(v float64, d Display) string { return slope(v, d, 0) }
+
+func slope(v float64, d Display, extra int) string {
 	if d.Sys == units.US {
-		return fmt.Sprintf("%.3f in/ft", v*12)
+		return fmt.Sprintf("%.*f in/ft", 3+extra, v*12)
 	}
-	return fmt.Sprintf("%.2f cm/m", v*100)
+	return fmt.Sprintf("%.*f cm/m", 2+extra, v*100)
 }

@@ -6,6 +6,7 @@ package present
 // wording of notes and warnings.
 
 import (
+	"math"
 	"strings"
 	"testing"
 
@@ -62,9 +63,21 @@ func TestEveryCheckHasANote(t *testing.T) {
 		}
 	}
 	c := assess.NewCheck(assess.HoldingTime, 15, 16.34)
-	c.Detail = assess.CheckDetail{RowTemperatureC: 72, MarginPercent: 8.9}
+	c.Detail = assess.CheckDetail{RowTemperatureC: 72, MarginPercent: 8.9, AtSeal: true, RowToMeetC: math.NaN(), RiseToMeetK: math.NaN()}
 	if got := CheckNote(c, us); got != "fastest particle at the sealed maximum flow against the 161.6 °F row (+8.9 %)" {
 		t.Errorf("holding-time note: %q", got)
+	}
+	// Judged below the seal and below the setpoint, failing: the note names the
+	// flow, the judged temperature, the setpoint's row and the rise that meets
+	// the next row (85.5 °C = 185.9 °F; 0.5 K = 0.9 °F; 2608 L/h = 11.48 gpm).
+	c = assess.NewCheck(assess.HoldingTime, 25, 17.1)
+	c.Detail = assess.CheckDetail{RowTemperatureC: 83, MarginPercent: -31.6, SetpointC: 86, JudgedC: 85.5, AccuracyK: 0.5,
+		FlowM3s: 2608.0 / 3.6e6, Regime: "transitional", SealValue: 18, NominalRowC: 86, NominalMet: true, RowToMeetC: 86, RiseToMeetK: 0.5}
+	want := "fastest particle at 11.5 gpm (transitional, just below Re 4000), the worst flow up to the seal against the 181.4 °F row (−31.6 %); " +
+		"judged at 185.90 °F, the setpoint 186.80 °F less the sensor accuracy 0.90 °F; at the setpoint the 186.8 °F row, met; " +
+		"at the sealed maximum 18.00 s; the 186.8 °F row would be met with the setpoint 0.9 °F higher"
+	if got := CheckNote(c, us); got != want {
+		t.Errorf("holding-time note:\n got %q\nwant %q", got, want)
 	}
 	mustPanic(t, func() { CheckNote(assess.Check{ID: "no-such-check"}, si) })
 }
@@ -89,10 +102,14 @@ func TestEveryWarningHasWords(t *testing.T) {
 	if !strings.HasPrefix(got, "regeneration.u_value 33000 W/(m2*K) is outside") || !strings.Contains(got, "300 W/(m²·K) to 1e+04 W/(m²·K)") {
 		t.Errorf("u-value: %q", got)
 	}
-	// Sensor accuracy in US units: 80.5 °C = 176.9 °F, 0.5 K = 0.9 °F.
-	got = WarningText(assess.Warning{Code: assess.WarnSensorAccuracy, Values: values}, p, us)
-	if !strings.Contains(got, "the setpoint 176.9 °F is within the diversion sensor's stated accuracy (±0.9 °F) of the 176.0 °F") {
-		t.Errorf("sensor accuracy: %q", got)
+	// Kinetics far from their data name the organism and the distance in the
+	// display units (195 °F = 90.56 °C, 125.6 °F = 52 °C: 38.56 K = 69.4 °F).
+	p.Organisms = []plantfile.Organism{{Name: "E. coli O157:H7"}}
+	got = WarningText(assess.Warning{Code: assess.WarnKineticsExtrapolated, Values: map[string]float64{"organism_index": 0,
+		"distance_K": 38.5556, "used_at_C": 90.5556, "D_temperature_C": 52, "log_reduction": 3242657}}, p, us)
+	if !strings.Contains(got, "the kinetics of E. coli O157:H7 are used at 195.0 °F, 69.4 °F from their D_temperature 125.6 °F") ||
+		!strings.Contains(got, "(> 50 log)") {
+		t.Errorf("kinetics: %q", got)
 	}
 	mustPanic(t, func() { WarningText(assess.Warning{Code: "no-such-warning"}, p, si) })
 }
@@ -119,4 +136,58 @@ func mustPanic(t *testing.T, f func()) {
 		}
 	}()
 	f()
+}
+
+func TestPackWarningWords(t *testing.T) {
+	// A plate-pack warning begins with its section and names the side's stream.
+	p := &plantfile.Plant{Cooling: []plantfile.CoolingStage{{Name: "glycol"}}}
+	p.Cooling[0].Medium.Name = "glycol 30 %"
+	w := assess.Warning{Code: assess.WarnPackBranch, Section: `cooling stage "glycol"`, Field: "cooling[0].other_side",
+		Values: map[string]float64{"reynolds": 1900, "switch": 2000, "low": 1500, "high": 2500}}
+	got := WarningText(w, p, si)
+	if !strings.HasPrefix(got, `cooling stage "glycol": Re 1900 on the glycol 30 % side lies within 1500–2500, around Re 2000`) {
+		t.Errorf("branch: %q", got)
+	}
+	for field, want := range map[string]string{"regeneration.product_side": "raw-product side", "regeneration.other_side": "pasteurized-product side",
+		"heating.product_side": "product side", "cooling[0].product_side": "product side"} {
+		if got := PackSideName(assess.Warning{Field: field}, p); got != want {
+			t.Errorf("%s: %q, want %q", field, got, want)
+		}
+	}
+	// −35 % with a true minus sign; 5845 W/(m²·K) is 1029 Btu/(h·ft²·°F) (NIST SP 811 factor 5.678263).
+	w = assess.Warning{Code: assess.WarnPackUDiffers, Section: "heating", Field: "heating.u_value",
+		Values: map[string]float64{"entered_W_m2K": 3800, "computed_clean_W_m2K": 5845, "difference": -0.35}}
+	if got := WarningText(w, p, us); !strings.Contains(got, "clean U 1029 Btu/(h·ft²·°F) by −35 %") {
+		t.Errorf("u differs: %q", got)
+	}
+}
+
+func TestSmallMarginsShowTheirSign(t *testing.T) {
+	// Values that round alike get more decimals (15.0001 s against 14.9987 s
+	// is not "15.00 s" twice); a margin within the tolerance rule is an
+	// unsigned zero; any other small margin shows its sign (rule of
+	// docs/METHOD.md §1.5; the numbers are chosen to round alike).
+	c := assess.NewCheck(assess.HoldingTime, 15.0001, 14.9987)
+	req, act := CheckValues(c, si)
+	if req == act || req != "15.000 s" || act != "14.999 s" {
+		t.Errorf("values %q %q", req, act)
+	}
+	if m := CheckMargin(c, si); m != "−0.001 s" {
+		t.Errorf("margin %q", m)
+	}
+	// A pressure margin exactly at the limit (rounding below it by 1e-12 Pa).
+	p := assess.NewCheck(assess.RegeneratorPressure, 6894.757293168, 6894.757293168-1e-12)
+	if m := CheckMargin(p, us); !p.Pass || m != "0.0 psi" {
+		t.Errorf("at the limit: pass %v margin %q", p.Pass, m)
+	}
+	// A small positive margin: +0.003 K, not "+0.00 K".
+	o := assess.NewCheck(assess.CoolingOutlet, 4, 3.997)
+	if m := CheckMargin(o, si); m != "+0.003 K" {
+		t.Errorf("small margin %q", m)
+	}
+	// Log reductions above 50 in text: "> 50 log", margin a lower bound.
+	l := assess.NewCheck(assess.LogReduction, 5, 3242657)
+	if req, act := CheckValues(l, si); act != "> 50 log" || req != "5.00 log" || CheckMargin(l, si) != "> +45.00 log" {
+		t.Errorf("huge log reduction: %q %q %q", req, act, CheckMargin(l, si))
+	}
 }

@@ -2,6 +2,7 @@ package present
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"pasval/internal/assess"
@@ -29,12 +30,38 @@ func CheckNote(c assess.Check, d Display) string {
 	x := c.Detail
 	switch c.ID {
 	case assess.HoldingTime:
+		var b strings.Builder
 		if x.BelowEveryRow {
-			return fmt.Sprintf("the setpoint %s is below every legal row (coolest %s)", d.temp(x.SetpointC), d.temp(x.RowTemperatureC))
+			fmt.Fprintf(&b, "the judged temperature %s is below every legal row (coolest %s)", d.temp(x.JudgedC), d.temp(x.RowTemperatureC))
+		} else {
+			fmt.Fprintf(&b, "fastest particle %s against the %s row (%s %%)", d.flowPhrase(x), d.temp(x.RowTemperatureC),
+				Signed(fmt.Sprintf("%.1f", x.MarginPercent)))
 		}
-		return fmt.Sprintf("fastest particle at the sealed maximum flow against the %s row (%+.1f %%)", d.temp(x.RowTemperatureC), x.MarginPercent)
+		b.WriteString(d.judgedPhrase(x))
+		if x.AccuracyK > 0 {
+			if math.IsNaN(x.NominalRowC) {
+				b.WriteString("; at the setpoint no row applies")
+			} else {
+				fmt.Fprintf(&b, "; at the setpoint the %s row, %s", d.temp(x.NominalRowC), map[bool]string{true: "met", false: "not met"}[x.NominalMet])
+			}
+		}
+		if !x.AtSeal {
+			fmt.Fprintf(&b, "; at the sealed maximum %.2f s", x.SealValue)
+		}
+		if !math.IsNaN(x.RowToMeetC) && x.RiseToMeetK > 0 {
+			fmt.Fprintf(&b, "; the %s row would be met with the setpoint %s higher", d.temp(x.RowToMeetC), d.riseText(x.RiseToMeetK))
+		}
+		return b.String()
 	case assess.LogReduction:
-		return fmt.Sprintf("fastest particle at the sealed maximum flow; D %.4g s at %s, z %s", x.DRefS, d.temp(x.DTemperatureC), d.diff(x.ZK))
+		basis := "tube isothermal at"
+		if x.CreditHeatLoss {
+			basis = "with the heat-loss credit (holding_tube.credit_heat_loss: true), outlet at"
+		}
+		note := fmt.Sprintf("fastest particle %s, %s %s%s", d.flowPhrase(x), basis, d.With(x.JudgedC, units.Temperature, 2), d.accuracyPhrase(x))
+		if x.AccuracyK > 0 {
+			note += fmt.Sprintf(" (at the setpoint %s log)", LogText(x.NominalValue))
+		}
+		return note + fmt.Sprintf("; D %.4g s at %s, z %s", x.DRefS, d.temp(x.DTemperatureC), d.diff(x.ZK))
 	case assess.HeatingMedium:
 		return fmt.Sprintf("medium inlet that %d plates need to bring the product to temperature, against the hottest available", x.Plates)
 	}
@@ -70,9 +97,6 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 	case assess.WarnViscosityExtrapolated:
 		return fmt.Sprintf("the setpoint %s lies outside the entered viscosity points (%s to %s): the nearest point's viscosity is held; "+
 			"measure it at the holding temperature", d.temp(v["setpoint_C"]), d.temp(v["lowest_C"]), d.temp(v["highest_C"]))
-	case assess.WarnSensorAccuracy:
-		return fmt.Sprintf("the setpoint %s is within the diversion sensor's stated accuracy (±%s) of the %s legal row: "+
-			"a sensor reading high could let product forward below it", d.temp(v["setpoint_C"]), d.diff(v["accuracy_K"]), d.temp(v["row_temperature_C"]))
 	case assess.WarnNoRise:
 		return "holding_tube.rise is not given, so the tube's upward slope is not checked"
 	case assess.WarnUValue:
@@ -105,17 +129,126 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 	case assess.WarnOuterCoefficient:
 		return fmt.Sprintf("holding_tube.outer_coefficient %s is above what still air gives a bare tube (typically 5–15 W/(m²·K)); "+
 			"check the value and its unit", entered(p, w.Field))
+	case assess.WarnKineticsExtrapolated:
+		name := "?"
+		if i := int(v["organism_index"]); i >= 0 && i < len(p.Organisms) {
+			name = p.Organisms[i].Name
+		}
+		return fmt.Sprintf("the kinetics of %s are used at %s, %s from their D_temperature %s: beyond %s they are an extrapolation, "+
+			"and the log reduction (%s) rests on it; use kinetics measured near the holding temperature",
+			name, d.temp(v["used_at_C"]), d.diff(v["distance_K"]), d.temp(v["D_temperature_C"]), d.diff(assess.KineticsRange), LogText(v["log_reduction"])+" log")
+	case assess.WarnProductFrozen:
+		limit := "0 °C, where water freezes"
+		if v["freezing_point_entered"] == 1 {
+			limit = "its freezing point " + d.temp(v["limit_C"]) + " (product.freezing_point)"
+		} else if d.Sys == units.US {
+			limit = "32 °F, where water freezes"
+		}
+		stage := w.Field
+		if i := int(v["stage_index"]); i >= 0 && i < len(p.Cooling) {
+			stage = fmt.Sprintf("the cooling stage %q", p.Cooling[i].Name)
+		}
+		return fmt.Sprintf("%s cools the product to %s, below %s: the product would freeze in the plates; check the medium inlet and the plates",
+			stage, d.With(v["product_out_C"], units.Temperature, 2), limit)
+	case assess.WarnMediumPressurised:
+		return fmt.Sprintf("the heating medium must enter at %s, above %s: a water medium that hot must be pressurised (or the plates need more area)",
+			d.temp(v["medium_in_C"]), d.temp(v["boiling_C"]))
+	case assess.WarnOutletWarm:
+		return fmt.Sprintf("the product leaves the pasteurizer at %s, above the %s many codes set for pasteurized milk (PMO); "+
+			"cool it further, or set process.outlet_target to the temperature your product's code allows", d.temp(v["outlet_C"]), d.coldLimit(v["limit_C"]))
+	case assess.NoteOutletWarm:
+		return fmt.Sprintf("the product leaves the pasteurizer at %s, above the %s many codes set for pasteurized milk, as process.outlet_target "+
+			"(%s) allows on purpose", d.temp(v["outlet_C"]), d.coldLimit(v["limit_C"]), d.temp(v["target_C"]))
+	}
+	if text, ok := packWarningText(w, p, d); ok {
+		return text
 	}
 	panic(fmt.Sprintf("%sno words for warning %q", panicPrefix, w.Code))
 }
 
-// Warnings are a result's warnings in words.
-func Warnings(res *assess.Result, d Display) []string {
-	out := make([]string, len(res.Warnings))
-	for i, w := range res.Warnings {
-		out[i] = WarningText(w, res.Plant, d)
+// Warnings are a result's warnings in words (notes left out).
+func Warnings(res *assess.Result, d Display) []string { return worded(res, d, false) }
+
+// Notes are a result's notes in words.
+func Notes(res *assess.Result, d Display) []string { return worded(res, d, true) }
+
+func worded(res *assess.Result, d Display, notes bool) []string {
+	var out []string
+	for _, w := range res.Warnings {
+		if w.Note == notes {
+			out = append(out, WarningText(w, res.Plant, d))
+		}
 	}
 	return out
+}
+
+// flowPhrase says at which flow a holding-tube check was judged.
+func (d Display) flowPhrase(x assess.CheckDetail) string {
+	if x.AtSeal {
+		return "at the sealed maximum flow"
+	}
+	return fmt.Sprintf("at %s (%s, just below Re 4000), the worst flow up to the seal", d.flow(x.FlowM3s), x.Regime)
+}
+
+// judgedPhrase says at which temperature a holding-time check was judged.
+func (d Display) judgedPhrase(x assess.CheckDetail) string {
+	if x.AccuracyK > 0 {
+		return fmt.Sprintf("; judged at %s%s", d.With(x.JudgedC, units.Temperature, 2), d.accuracyPhrase(x))
+	}
+	return ""
+}
+
+// accuracyPhrase explains a judged temperature below the setpoint.
+func (d Display) accuracyPhrase(x assess.CheckDetail) string {
+	if x.AccuracyK > 0 {
+		return fmt.Sprintf(", the setpoint %s less the sensor accuracy %s", d.With(x.SetpointC, units.Temperature, 2),
+			d.With(x.AccuracyK, units.TemperatureDifference, 2))
+	}
+	return ""
+}
+
+// flow is a volumetric flow with enough digits to be non-zero.
+func (d Display) flow(q float64) string {
+	v := units.FromSI(q, units.VolumeFlow, d.Unit(units.VolumeFlow))
+	if v < 100 {
+		return fmt.Sprintf("%.3g %s", v, d.Unit(units.VolumeFlow))
+	}
+	return fmt.Sprintf("%.0f %s", v, d.Unit(units.VolumeFlow))
+}
+
+// Flow is a volumetric flow in display units, with enough digits to be
+// non-zero (a small flow is not printed "0 gpm").
+func (d Display) Flow(q float64) string { return d.flow(q) }
+
+// riseText is a setpoint rise, with enough digits to be non-zero.
+func (d Display) riseText(k float64) string {
+	for prec := 1; prec < 6; prec++ {
+		if s := d.With(k, units.TemperatureDifference, prec); strings.Trim(d.Num(k, units.TemperatureDifference, prec), "0.") != "" {
+			return s
+		}
+	}
+	return d.With(k, units.TemperatureDifference, 6)
+}
+
+// coldLimit is the cold outlet limit: 7 °C, or 45 °F in US units.
+func (d Display) coldLimit(c float64) string {
+	if d.Sys == units.US {
+		return fmt.Sprintf("%.0f °F", units.FromSI(c, units.Temperature, "°F"))
+	}
+	return fmt.Sprintf("%.0f °C", c)
+}
+
+// LogCap is the largest log reduction printed in text; above it the text says
+// "> 50" (JSON keeps the exact value): so many logs mean kinetics used far
+// outside their data, not a real count.
+const LogCap = 50.0
+
+// LogText is a log reduction with two decimals, or "> 50" above LogCap.
+func LogText(lr float64) string {
+	if lr > LogCap {
+		return fmt.Sprintf("> %.0f", LogCap)
+	}
+	return fmt.Sprintf("%.2f", lr)
 }
 
 // ForJSON is a copy of the result with every note and warning message in
@@ -140,4 +273,61 @@ func WordedChecks(checks []assess.Check, d Display) []assess.Check {
 		out[i] = c
 	}
 	return out
+}
+
+// packWarningText words the plate-pack warnings (docs/METHOD.md §12.5); each
+// begins with the section it concerns.
+func packWarningText(w assess.Warning, p *plantfile.Plant, d Display) (string, bool) {
+	v := w.Values
+	section := w.Section
+	if section == "" {
+		section = "plate pack"
+	}
+	switch w.Code {
+	case assess.WarnPackReynolds:
+		return fmt.Sprintf("%s: Re %.0f on the %s is outside %.0f–%.0f, the range of the data behind Martin's plate correlation; "+
+			"its film coefficient and pressure drop are extrapolated", section, v["reynolds"], PackSideName(w, p), v["low"], v["high"]), true
+	case assess.WarnPackBranch:
+		return fmt.Sprintf("%s: Re %.0f on the %s lies within %.0f–%.0f, around Re %.0f where Martin's friction factor switches branch "+
+			"(ξ jumps about 5 %%, h about 2 %%): a small change of flow or temperature moves U and the pressure drop across the jump",
+			section, v["reynolds"], PackSideName(w, p), v["low"], v["high"], v["switch"]), true
+	case assess.WarnPackAngle:
+		return fmt.Sprintf("%s: a chevron angle of %.1f° is above the %.0f° of the data behind Martin's plate correlation; U and the pressure drop are extrapolated",
+			section, v["angle_rad"]*180/math.Pi, v["high_rad"]*180/math.Pi), true
+	case assess.WarnPackApparentViscosity:
+		return fmt.Sprintf("%s: the %s is a power-law fluid (n = %.3g), rated with its apparent viscosity at the channel wall shear rate "+
+			"in correlations fitted to Newtonian fluids: treat its film coefficient and pressure drop as estimates", section, PackSideName(w, p), v["flow_index"]), true
+	case assess.WarnPackUDiffers:
+		return fmt.Sprintf("%s: the entered u_value %s differs from the plate pack's clean U %s by %s %% (both before fouling); "+
+			"the section uses the entered value: check it against the plate data", section,
+			d.g4(v["entered_W_m2K"], units.HeatTransferCoefficient), d.g4(v["computed_clean_W_m2K"], units.HeatTransferCoefficient),
+			Signed(fmt.Sprintf("%.0f", v["difference"]*100))), true
+	case assess.WarnPackViscosityExtrapolated:
+		return fmt.Sprintf("%s: the product in the plate pack reaches %s, outside the entered viscosity points (%s to %s), where the nearest "+
+			"point's viscosity is held; add a viscosity point there", section, d.temp(v["at_C"]), d.temp(v["lowest_C"]), d.temp(v["highest_C"])), true
+	}
+	return "", false
+}
+
+// PackSideName names the stream on one side of a section's plate pack, from
+// the side's plant-file path: "raw product" and "pasteurized product" in
+// regeneration, "product" and the medium's name elsewhere.
+func PackSideName(w assess.Warning, p *plantfile.Plant) string {
+	other := strings.HasSuffix(w.Field, ".other_side")
+	switch {
+	case strings.HasPrefix(w.Field, "regeneration.") && other:
+		return "pasteurized-product side"
+	case strings.HasPrefix(w.Field, "regeneration."):
+		return "raw-product side"
+	case !other:
+		return "product side"
+	case strings.HasPrefix(w.Field, "heating.") && p.Heating != nil:
+		return p.Heating.Medium.Name + " side"
+	}
+	for i, c := range p.Cooling {
+		if strings.HasPrefix(w.Field, fmt.Sprintf("cooling[%d].", i)) {
+			return c.Medium.Name + " side"
+		}
+	}
+	return "other side"
 }

@@ -37,7 +37,7 @@ func Build(res *assess.Result, opts Options) (*report.Document, error) {
 	var w *assess.WhatIf
 	if p := res.Plant; WantsWhatIf(p) {
 		var err error
-		if w, err = assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction); err != nil {
+		if w, err = assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction, WhatIfLayout(p)); err != nil {
 			return nil, err
 		}
 	}
@@ -48,6 +48,26 @@ func Build(res *assess.Result, opts Options) (*report.Document, error) {
 // regenerator (plates entered) and an economics block.
 func WantsWhatIf(p *plantfile.Plant) bool {
 	return p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0
+}
+
+// hasPack reports whether any section has a plate pack.
+func hasPack(res *assess.Result) bool {
+	for _, s := range res.Sections {
+		if s.PackFigures != nil {
+			return true
+		}
+	}
+	return false
+}
+
+// WhatIfLayout is how the record's what-if page adds plates: as channels per
+// pass to a regenerator with a plate pack, so that the page shows U falling
+// with the velocity (the page says so), and simply as plates otherwise.
+func WhatIfLayout(p *plantfile.Plant) assess.Layout {
+	if p.Regeneration != nil && p.Regeneration.Pack != nil {
+		return assess.LayoutChannels
+	}
+	return assess.LayoutNone
 }
 
 // tableFrom turns a shared grid into a record table.
@@ -76,14 +96,14 @@ func build(res *assess.Result, opts Options, whatIf *assess.WhatIf) *report.Docu
 	p := res.Plant
 	d := present.Display{Sys: p.System}
 	doc := &report.Document{
-		Title:      "Pasteurizer validation record",
-		SHA256:     res.InputSHA256,
-		ShortHash:  res.InputSHA256[:12],
-		Date:       opts.Date,
-		Version:    res.Version,
-		PlantName:  opts.PlantName,
-		PlantBytes: p.Source,
-		PageSize:   "A4",
+		Title:     "Pasteurizer validation record",
+		SHA256:    res.InputSHA256,
+		ShortHash: res.InputSHA256[:12],
+		Date:      opts.Date,
+		Version:   res.Version,
+		PageSize:  "A4",
+		Attachments: []report.Attachment{{Name: opts.PlantName, Content: p.Source,
+			Description: "plant file, SHA-256 " + res.InputSHA256}},
 	}
 	if p.System == units.US {
 		doc.PageSize = "Letter"
@@ -129,9 +149,12 @@ func buildCover(res *assess.Result, doc *report.Document) report.Cover {
 	if p.RecordValue("product") == "" {
 		c.Fields = append(c.Fields, [2]string{"Product", p.Product.Name})
 	}
+	if h := res.HoldingTube; h != nil && h.CreditHeatLoss {
+		c.Fields = append(c.Fields, [2]string{"Heat-loss credit", "taken: log reductions judged with the heat-loss profile (holding_tube.credit_heat_loss: true)"})
+	}
 	c.Fields = append(c.Fields,
 		[2]string{"Record date", doc.Date.Format("2006-01-02")},
-		[2]string{"Plant file", doc.PlantName},
+		[2]string{"Plant file", doc.Attachments[0].Name},
 		[2]string{"Plant file SHA-256", res.InputSHA256},
 		[2]string{"Tool", "pasval " + res.Version},
 	)
@@ -147,7 +170,11 @@ func inputsSection(res *assess.Result) report.Section {
 		Columns: []report.Column{{Title: "field"}, {Title: "as entered"}, {Title: "SI value", Right: true}, {Title: "SI unit"}, {Title: "meaning"}}}
 	for _, in := range res.Plant.Inputs {
 		f, _ := plantfile.Lookup(in.Field)
-		t.Rows = append(t.Rows, []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), in.SIUnit, f.Description})
+		unit := in.SIUnit
+		if unit == "1" || unit == "" {
+			unit = "— (a number)" // dimensionless: no unit to print
+		}
+		t.Rows = append(t.Rows, []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), unit, f.Description})
 	}
 	pp := res.Product
 	kv := report.KeyValues{Pairs: [][2]string{
@@ -170,15 +197,23 @@ func methodSection(res *assess.Result) report.Section {
 		"Regeneration ratio = (raw product leaving regeneration − raw inlet)/(diversion setpoint − raw inlet); the same product on both sides gives C_r = 1, so the ratio equals the effectiveness.",
 		"Plates = ceil(area / effective area per plate); required and installed areas are both reported.",
 	}
+	if hasPack(res) {
+		items = append(items,
+			"Plate packs (docs/METHOD.md §12): hydraulic diameter 2b/Φ; channel velocity m/(channels per pass · ρ b w), m the side's mass flow; Darcy factor by Martin's correlation in the VDI Heat Atlas form (2010); Nu = 0.122 Pr^(1/3) (μ/μ_w)^(1/6) (ξ Re² sin 2φ)^0.374, μ_w at the wall temperature from the clean resistances, iterated with the section; U_clean = 1/(1/h_product + t/k_w + 1/h_other), 1/U_service = 1/U_clean + fouling; water conductivity IAPWS R15-11, viscosity R12-08.",
+			"Pressure drop per side: ξ (passes · L_p/d_h) ρv²/2 + 1.4 · passes · ρ v_port²/2 (port losses after Kakaç and Liu, Heat Exchangers, 2nd ed., 2002); elevation ignored. A section without an entered u_value uses U_service; with one, the entered U is used and the computed one reported beside it.")
+	}
 	if res.HoldingTube != nil {
 		items = append(items,
-			"Holding tube: judged at the sealed maximum flow for the fastest particle, at the diversion setpoint.",
-			"Reynolds number ρvD/μ (Newtonian) or Metzner–Reed (power law; Metzner and Reed 1955). Re < 2100 laminar; 2100–4000 transitional, treated as laminar; ≥ 4000 turbulent.",
+			"Holding tube: judged for the fastest particle at the worst flow up to the sealed maximum — the seal, or just below Re 4000 where the laminar ratio applies (docs/METHOD.md §7.7) — at the judged temperature: the diversion setpoint less the sensor's stated accuracy (§9.4).",
+			"Reynolds number ρvD/μ (Newtonian) or Metzner–Reed (power law; Metzner and Reed 1955), properties at the setpoint. Re < 2100 laminar; 2100–4000 transitional, treated as laminar; ≥ 4000 turbulent.",
 			"Fastest-to-mean velocity ratio: 2 (laminar Newtonian), (3n+1)/(n+1) (laminar power law; Steffe 1996), (n_p+1)(2n_p+1)/(2n_p²) with n_p = 0.790 ln Re − 1.64 (turbulent; Petukhov friction factor, power-law velocity profile), unless entered.",
-			"Heat loss (when entered): T(x) = T_a + (T_in − T_a)·exp(−h_o π D_o x/(m c_p)), m the mass flow, outlet at the setpoint; lethality uses m at the sealed maximum, the heating section the tube inlet at the normal rate.",
-			"Lethality: D(T) = D_ref·10^((T_ref − T)/z); log reduction LR = ∫ dt/D(T) along the fastest particle (Simpson's rule, 1024 intervals; closed form when isothermal).",
-			"Legal table: met when some row has temperature ≤ setpoint and time ≤ the fastest particle's time; rows are never interpolated.",
+			"Heat loss (when entered): T(x) = T_a + (T_in − T_a)·exp(−h_o π D_o x/(m c_p)), m the mass flow, outlet at the setpoint; it sets the reported tube inlet (m at the sealed maximum) and the heating section's target (m at the normal rate). Its extra lethality rests on an unmeasured coefficient: it is reported as the heat-loss credit and judged only when the plant file sets holding_tube.credit_heat_loss: true.",
+			"Lethality: D(T) = D_ref·10^((T_ref − T)/z); the judged log reduction is that of the tube isothermal at the judged temperature, LR = t_min/D(T_j), at the worst flow (with the credit: LR = ∫ dt/D(T) along the profile, Simpson's rule with 1024 intervals, the lower of the candidate flows). Kinetics used more than 10 K from their reference temperature are flagged.",
+			"Legal table: met when some row has temperature ≤ the judged temperature and time ≤ the fastest particle's time at the worst flow; rows are never interpolated.",
 		)
+		if res.HoldingTube.CreditHeatLoss {
+			items = append(items, "This record judges the log reductions WITH the heat-loss credit (holding_tube.credit_heat_loss: true): a process authority's decision recorded in the plant file.")
+		}
 	}
 	return report.Section{Heading: "Method", Blocks: []report.Block{report.Bullets{Items: items}}}
 }
@@ -192,11 +227,31 @@ func heatSection(res *assess.Result, d present.Display) report.Section {
 	if res.RegenerationRatio != nil {
 		blocks = append(blocks, report.KeyValues{Pairs: [][2]string{{"regeneration ratio", fmt.Sprintf("%.1f %%", *res.RegenerationRatio*100)}}})
 	}
+	if g := present.PackSides(res, d); len(g.Rows) > 0 {
+		blocks = append(blocks,
+			tableFrom("Plate packs at the normal rate, each side: layout, channel velocity, Reynolds number, film coefficient and pressure drop (Martin's correlation; ports included, elevation ignored).", g),
+			tableFrom("Plate packs: overall coefficient clean and in service (with fouling), and the U each section used.", present.PackU(res, d)))
+	}
 	blocks = append(blocks, temperatureDiagram(res, d))
 	for _, s := range res.Sections {
 		blocks = append(blocks, tableFrom("Section "+present.SectionLabel(s)+".", present.SectionDetail(res, s, d)))
 	}
+	if w := warningsAbout(res, d, true); len(w) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Warnings on the sections:", Emphasis: true}, report.Bullets{Items: w})
+	}
 	return report.Section{Heading: "Heat exchange", Blocks: blocks}
+}
+
+// warningsAbout are the result's warnings in words: those that concern a
+// heat-exchange section (sections true), or all the others.
+func warningsAbout(res *assess.Result, d present.Display, sections bool) []string {
+	var out []string
+	for _, w := range res.Warnings {
+		if (w.Section != "") == sections {
+			out = append(out, present.WarningText(w, res.Plant, d))
+		}
+	}
+	return out
 }
 
 // temperatureDiagram lays the product path out in process order: raw side of
@@ -205,7 +260,7 @@ func heatSection(res *assess.Result, d present.Display) report.Section {
 func temperatureDiagram(res *assess.Result, d present.Display) report.Diagram {
 	T := func(c float64) float64 { return units.FromSI(c, units.Temperature, d.Unit(units.Temperature)) }
 	dg := report.Diagram{Unit: d.Unit(units.Temperature), Setpoint: T(res.Plant.Process.HoldSetpoint.SI),
-		Caption: "Temperatures at the normal rate along the product path (solid) and of the stream on the other side of each plate pack (dashed; arrows show its direction)."}
+		Caption: "Temperatures at the normal rate along the product path (solid) and of the stream on the other side of each plate pack (broken lines, a colour and pattern for each kind of stream; arrows show its direction)."}
 	var regenerator *assess.Section
 	for i := range res.Sections {
 		if res.Sections[i].Kind == regen.RegenerationSection {
@@ -251,7 +306,7 @@ func temperatureDiagram(res *assess.Result, d present.Display) report.Diagram {
 
 func holdingSection(res *assess.Result, d present.Display) report.Section {
 	h := res.HoldingTube
-	blocks := []report.Block{report.KeyValues{Pairs: append([][2]string{{"judged flow", d.With(h.MaxFlowM3s, units.VolumeFlow, 0) + " (sealed maximum)"}},
+	blocks := []report.Block{report.KeyValues{Pairs: append([][2]string{{"flows", present.HoldingHeading(res, d)}},
 		present.HoldingFacts(res, d)...)}}
 	if len(h.Rows) > 0 {
 		blocks = append(blocks, tableFrom("Legal minimums as entered; the judged row is marked. Rows are never interpolated.", present.LegalRows(res, d)))
@@ -267,10 +322,13 @@ func holdingSection(res *assess.Result, d present.Display) report.Section {
 			}
 			plot.Series = append(plot.Series, s)
 		}
-		blocks = append(blocks, tableFrom("Log reduction of the fastest particle at the sealed maximum flow.", present.Lethality(res)), plot)
+		blocks = append(blocks, tableFrom("Log reduction of the fastest particle, judged at the judged temperature and the worst flow; beside it the values where they differ.", present.Lethality(res, d)), plot)
 	}
-	if len(res.Warnings) > 0 {
-		blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: present.Warnings(res, d)})
+	if w := warningsAbout(res, d, false); len(w) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: w})
+	}
+	if n := present.Notes(res, d); len(n) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Notes:", Emphasis: true}, report.Bullets{Items: n})
 	}
 	return report.Section{Heading: "Holding tube and lethality", Blocks: blocks}
 }
@@ -341,12 +399,17 @@ func whatIfSection(w *assess.WhatIf, d present.Display) report.Section {
 		rs.Y = append(rs.Y, o.RegenerationRatio*100)
 	}
 	ratio.Series = []report.Series{rs}
-	blocks := []report.Block{t, ratio}
+	blocks := []report.Block{t}
+	if w.Layout != assess.LayoutNone {
+		blocks = append(blocks, tableFrom("The regenerator's plate pack in each option: layout (passes × channels per pass), raw-side velocity, U and raw-side pressure drop.",
+			present.PlatesLayout(w, d)))
+	}
+	blocks = append(blocks, ratio)
 	if len(ps.X) > 1 {
 		payback.Series = []report.Series{ps}
 		blocks = append(blocks, payback)
 	}
-	notes := []string{"Saved is heating plus cooling: each equals C · Δratio · (setpoint − raw inlet)."}
+	notes := append([]string{"Saved is heating plus cooling: each equals C · Δratio · (setpoint − raw inlet)."}, present.LayoutNotes(w)...)
 	if w.KneeAdded != nil {
 		notes = append(notes, fmt.Sprintf("Knee: beyond +%d plates each further 10 plates save less than %.0f %% of what the first 10 saved.", *w.KneeAdded, w.KneeFraction*100))
 	}

@@ -4,7 +4,9 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
 	"time"
@@ -12,6 +14,7 @@ import (
 	"pasval/internal/assess"
 	"pasval/internal/plantfile"
 	"pasval/internal/present"
+	"pasval/internal/units"
 	"pasval/report"
 )
 
@@ -151,13 +154,19 @@ func TestRenderIsDeterministicAndVerifiable(t *testing.T) {
 		if pages < 2 {
 			t.Errorf("%s: %d pages", name, pages)
 		}
-		v, err := report.Verify(a, doc.PlantBytes)
+		plant := doc.Attachments[0].Content
+		v, err := report.Verify(a, plant)
 		if err != nil || !v.Match || v.RecordedSHA256 != doc.SHA256 {
 			t.Errorf("%s: verify %+v %v", name, v, err)
 		}
-		got, err := report.Attachment(a)
-		if err != nil || !bytes.Equal(got, doc.PlantBytes) {
+		st, err := report.Read(a)
+		if err != nil || len(st.Attachments) != 1 || !bytes.Equal(st.Attachments[0].Content, plant) || st.Attachments[0].Name != name+".yaml" {
 			t.Errorf("%s: attachment differs (%v)", name, err)
+		}
+		// The metadata carries what a re-render needs and the verdicts.
+		if err == nil && (st.Version != doc.Version || !st.Date.Equal(doc.Date) || st.Pass != doc.Cover.Pass ||
+			!reflect.DeepEqual(st.Verdicts, doc.Cover.Verdicts) || st.Pages != pages) {
+			t.Errorf("%s: stored %+v", name, st)
 		}
 	}
 }
@@ -169,7 +178,7 @@ func TestVerifyTamper(t *testing.T) {
 		t.Fatal(err)
 	}
 	// One byte of the plant file changed: mismatch.
-	plant := append([]byte(nil), doc.PlantBytes...)
+	plant := append([]byte(nil), doc.Attachments[0].Content...)
 	plant[len(plant)/2] ^= 0x01
 	if v, err := report.Verify(pdf, plant); err != nil || v.Match {
 		t.Errorf("tampered plant file: %+v %v", v, err)
@@ -204,7 +213,7 @@ func TestWhatIfPage(t *testing.T) {
 		t.Fatal(err)
 	}
 	res, _ := assess.Run(p)
-	w, err := assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction)
+	w, err := assess.AddPlates(p, WhatIfSweep(p.Regeneration.Plates.Plates), assess.DefaultKneeFraction, WhatIfLayout(p))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -272,4 +281,106 @@ func TestSectionTables(t *testing.T) {
 	if !found {
 		t.Errorf("heating medium flow %q not in %v", want, details[1].Rows)
 	}
+}
+
+func TestPlatePacksInRecord(t *testing.T) {
+	// The SI demo's plate packs: the heat-exchange page carries the two pack
+	// tables, each section's detail table its pack's figures, and the
+	// section warning (heating's entered U) stays with the sections.
+	res, doc := demo(t, "htst-milk-si")
+	var heat report.Section
+	for _, s := range doc.Sections {
+		if s.Heading == "Heat exchange" {
+			heat = s
+		}
+	}
+	var captions []string
+	var cells []string
+	warned := false
+	for _, b := range heat.Blocks {
+		switch v := b.(type) {
+		case report.Table:
+			captions = append(captions, v.Caption)
+			for _, r := range v.Rows {
+				cells = append(cells, r...)
+			}
+		case report.Bullets:
+			for _, it := range v.Items {
+				warned = warned || strings.HasPrefix(it, "heating: the entered u_value")
+			}
+		}
+	}
+	joined := strings.Join(captions, "\n")
+	for _, want := range []string{"Plate packs at the normal rate, each side", "Plate packs: overall coefficient"} {
+		if !strings.Contains(joined, want) {
+			t.Errorf("no table %q in %q", want, joined)
+		}
+	}
+	d := present.Display{Sys: res.Plant.System}
+	wantU := d.With(res.Sections[0].PackFigures.UCleanWm2K, units.HeatTransferCoefficient, 0)
+	if !contains(cells, "U clean (plate pack)") || !contains(cells, wantU) || !contains(cells, "raw product: pressure drop") {
+		t.Errorf("regeneration detail lacks its pack figures (%s)", wantU)
+	}
+	if !warned {
+		t.Error("the heating warning is not with the sections")
+	}
+}
+
+func TestWhatIfPageWithPlatePack(t *testing.T) {
+	// The SI demo with an economics block: the what-if page adds plates as
+	// channels per pass (WhatIfLayout) and shows each option's layout and U.
+	src, err := os.ReadFile("../../testdata/demo/htst-milk-si.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	src = append(src, []byte("economics:\n  operating_hours_per_year: 5000\n  heat_price_per_kWh: 0.05\n  cooling_price_per_kWh: 0.03\n  plate_cost: 300\n")...)
+	p, err := plantfile.Parse("milk.yaml", src)
+	if err == nil {
+		err = plantfile.Validate(p)
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := assess.Run(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc, err := Build(res, Options{Date: day})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range doc.Sections {
+		if s.Heading != "What if: added regeneration plates" {
+			continue
+		}
+		var layout *report.Table
+		notes := ""
+		for _, b := range s.Blocks {
+			switch v := b.(type) {
+			case report.Table:
+				if strings.HasPrefix(v.Caption, "The regenerator's plate pack") {
+					layout = &v
+				}
+			case report.Bullets:
+				notes = strings.Join(v.Items, " ")
+			}
+		}
+		if layout == nil || len(layout.Rows) < 3 || layout.Rows[0][2] != "8 × 7" || layout.Rows[1][2] != "8 × 8" {
+			t.Fatalf("layout table %+v", layout)
+		}
+		if !strings.Contains(notes, "channels per pass") {
+			t.Errorf("notes %q", notes)
+		}
+		return
+	}
+	t.Error("no what-if page")
+}
+
+func contains(cells []string, want string) bool {
+	for _, c := range cells {
+		if c == want {
+			return true
+		}
+	}
+	return false
 }

@@ -83,14 +83,22 @@ func TestDemosAndStartersMatchTheSchema(t *testing.T) {
 var (
 	structural = []string{
 		"typo-key", "typo-top-key", "missing-product", "missing-setpoint", "missing-unit-temperature", "missing-unit-flow",
-		"product-is-list", "ratio-and-plates", "no-ratio-no-plates", "unknown-medium", "bad-arrangement", "fractional-plates",
+		"product-is-list", "unknown-medium", "bad-arrangement", "fractional-plates",
 		"null-value", "viscosity-bare-temperature", "organism-bare-z", "legal-row-bare-time", "pu-not-boolean", "organism-typo-key",
 		"holding-both-diameters", "economics-missing-plate-cost", "nan-value", "inf-value",
+		"plate-pack-missing-port",
 	}
 	semantic = []string{
+		// ratio or plates: a plate pack's passes also put a regenerator in
+		// rating mode, so the choice is a rule across fields (Validate).
+		"ratio-and-plates", "no-ratio-no-plates",
+		// Plate packs: the layout's rules, the engine's ranges and an angle's unit.
+		"no-u-value", "plate-pack-plates-mismatch", "plate-pack-angle-range", "plate-pack-angle-celsius", "plate-pack-one-side-passes",
+		"plate-pack-no-conductivity", "plate-pack-missing-side", "plate-pack-unequal-channels", "plate-pack-enlargement",
+		"plate-pack-medium-no-viscosity",
 		"below-absolute-zero", "cocurrent-regenerator", "cocurrent-regenerator-half", "composition-sum", "cooling-cross", "economics-hours",
 		"economics-negative-price", "heating-cross", "heating-starved", "holding-ambient-above-setpoint", "holding-heat-loss-absurd",
-		"holding-heat-loss-no-od", "holding-no-viscosity", "holding-ratio-below-one", "holding-rise-above-length",
+		"holding-heat-loss-no-od", "holding-credit-without-heat-loss", "holding-no-viscosity", "holding-ratio-below-one", "holding-rise-above-length",
 		"holding-unknown-sanitary", "holding-zero-length", "huge-number", "intermediate-stage-no-outlet", "magnitude-tiny",
 		"missing-flow", "negative-flow", "negative-viscosity", "organism-D-as-temperature", "organism-zero-z",
 		"organisms-without-tube", "percent-flow", "rate-above-max", "rated-stage-with-outlet", "ratio-above-one", "ratio-one",

@@ -34,6 +34,13 @@ func linear(k Kind, unit string) (scale, offset float64) {
 		}
 		return 1, 0
 	}
+	if k.angle {
+		f, ok := angleUnits[unit]
+		if !ok {
+			panic(panicPrefix + "not an angle unit: " + unit)
+		}
+		return f, 0
+	}
 	if unit == "%" {
 		return 0.01, 0
 	}

@@ -12,7 +12,7 @@ import (
 )
 
 var fuzzKinds = []Kind{Temperature, TemperatureDifference, Length, Area, VolumeFlow, MassFlow, Time, Pressure, Density,
-	SpecificHeat, Viscosity, HeatTransferCoefficient, FoulingResistance, ThermalConductivity, Power, Dimensionless, ConsistencyKind(0.7)}
+	SpecificHeat, Viscosity, HeatTransferCoefficient, FoulingResistance, ThermalConductivity, Power, Dimensionless, Angle, ConsistencyKind(0.7)}
 
 // FuzzParse checks the unit parser's invariants on any input: it never
 // panics, a parsed value is finite, and writing the parsed number and unit
@@ -20,7 +20,7 @@ var fuzzKinds = []Kind{Temperature, TemperatureDifference, Length, Area, VolumeF
 func FuzzParse(f *testing.F) {
 	for _, s := range []string{"72.5 °C", "161 °F", "10000 L/h", "44 gpm", "3.93 kJ/(kg*K)", "0.94 Btu/(lb*°F)",
 		"3300 W/(m2*K)", "580 Btu/(h*ft2*°F)", "0.35 Pa*s^0.7", "2.9 mPa*s", "1e-4 m2*K/W", "92 %", "1.2 bar",
-		"((((m))))", "1 m^1e308", "-0 K", "5 kg K", "1 W/m²/K", "0x10 L/h", "1,5 m", ".5 in", "5. ft", "1e4", ""} {
+		"((((m))))", "1 m^1e308", "-0 K", "5 kg K", "1 W/m²/K", "0x10 L/h", "1,5 m", ".5 in", "5. ft", "1e4", "", "60 deg", "60°", "1 rad", "72 °"} {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {

@@ -53,6 +53,7 @@ type Kind struct {
 	SIUnit  string    // the coherent SI unit, as the record's inputs table prints it
 	display [2]string // display units for SI and US output; "" for plain numbers
 	point   bool      // temperature point (offset scale)
+	angle   bool      // plane angle: dimensionless, read only with an angle unit (angleUnits)
 }
 
 // all holds every fixed kind, in definition order (see Kinds).
@@ -67,6 +68,13 @@ func newKind(name string, dim Dim, example, siUnit, siDisplay, usDisplay string)
 // newPointKind is newKind for a temperature point (an offset scale).
 func newPointKind(name string, dim Dim, example, siUnit, siDisplay, usDisplay string) Kind {
 	return define(Kind{Name: name, Dim: dim, Example: example, SIUnit: siUnit, display: [2]string{siDisplay, usDisplay}, point: true})
+}
+
+// newAngleKind is newKind for a plane angle. An angle is dimensionless, but
+// a bare number or any other unit is refused in its field: "60" could be
+// degrees or radians, and "60 °C" is a temperature.
+func newAngleKind(name, example, siUnit, siDisplay, usDisplay string) Kind {
+	return define(Kind{Name: name, Example: example, SIUnit: siUnit, display: [2]string{siDisplay, usDisplay}, angle: true})
 }
 
 func define(k Kind) Kind {
@@ -96,7 +104,14 @@ var (
 		"W/(m·K)", "W/(m·K)", "Btu/(h·ft·°F)")
 	Power         = newKind("power", Dim{1, 2, -3, 0}, "150 kW or 512000 Btu/h", "W", "kW", "Btu/h")
 	Dimensionless = newKind("number", Dim{}, "0.92 or 92 %", "1", "", "")
+	Angle         = newAngleKind("angle", "60 deg, 60 ° or 1.047 rad", "rad", "°", "°")
 )
+
+// angleUnits are the only units an angle field reads, each in radians. They
+// are kept out of the unit table, so that no other field reads them: "°"
+// alone is not a temperature ("72 °" is refused where °C or °F is meant),
+// and "deg" is not a dimensionless factor of a number field.
+var angleUnits = map[string]float64{"deg": math.Pi / 180, "°": math.Pi / 180, "rad": 1}
 
 // Kinds lists every fixed kind (ConsistencyKind makes the others).
 func Kinds() []Kind { return append([]Kind(nil), all...) }
@@ -216,6 +231,9 @@ func Parse(s string, k Kind) (Value, error) {
 	}
 	unit := strings.TrimSpace(rest)
 	v := Value{Number: num, Unit: unit}
+	if k.angle {
+		return parseAngle(s, v, k)
+	}
 	if unit == "" {
 		if k.Dim == (Dim{}) {
 			v.SI = num
@@ -265,6 +283,22 @@ func Parse(s string, k Kind) (Value, error) {
 	if math.IsInf(v.SI, 0) || math.IsNaN(v.SI) {
 		return Value{}, errorf(s, "%q is out of range", s)
 	}
+	return v, nil
+}
+
+// parseAngle reads the unit of an angle: deg, ° or rad, nothing else.
+func parseAngle(s string, v Value, k Kind) (Value, error) {
+	f, ok := angleUnits[v.Unit]
+	switch {
+	case v.Unit == "":
+		return Value{}, errorf(s, "%q has no unit: %s needs one (deg, ° or rad), e.g. %s", s, Article(k.Name), k.Example)
+	case !ok:
+		if def, found := table[v.Unit]; found && def.temp != 0 {
+			return Value{}, errorf(s, "%q is a temperature, not an angle; write deg, ° or rad, e.g. %s", s, k.Example)
+		}
+		return Value{}, errorf(s, "%q: %q is not an angle unit; write deg, ° or rad, e.g. %s", s, v.Unit, k.Example)
+	}
+	v.SI = v.Number * f
 	return v, nil
 }
 

@@ -70,6 +70,11 @@ func TestParse(t *testing.T) {
 		{"percent", "92 %", Dimensionless, 0.92, 1e-15, SI},
 		{"exponent", "1e4 L/h", VolumeFlow, 10.0 / 3600, 1e-15, SI},
 		{"negative", "-2 °C", Temperature, -2, 1e-15, SI},
+		// 1° = π/180 rad (definition of the degree, NIST SP 811 Appendix B).
+		{"angle deg", "60 deg", Angle, math.Pi / 3, 1e-15, SI},
+		{"angle °", "60 °", Angle, math.Pi / 3, 1e-15, SI},
+		{"angle ° no space", "45°", Angle, math.Pi / 4, 1e-15, SI},
+		{"angle rad", "1.047 rad", Angle, 1.047, 1e-15, SI},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -112,6 +117,19 @@ func TestParseErrors(t *testing.T) {
 		{"92 %", "percentage", VolumeFlow},
 		{"15 sec", "write s", Time},
 		{"1 m^x", "bad exponent", Length},
+		// An angle needs its unit, and the degree sign alone is an angle,
+		// never a temperature: neither field takes the other's unit.
+		{"60", "has no unit", Angle},
+		{"60 °C", "is a temperature, not an angle", Angle},
+		{"60 degF", "is a temperature, not an angle", Angle},
+		{"60 grad", "not an angle unit", Angle},
+		{"1 deg*m", "not an angle unit", Angle},
+		{"72 °", "not a temperature unit", Temperature},
+		{"72°", "not a temperature unit", Temperature},
+		{"6 °", "unknown unit", TemperatureDifference},
+		{"3300 W/(m2*°)", "unknown unit", HeatTransferCoefficient},
+		{"60 deg", "unknown unit", Dimensionless},
+		{"1 rad", "unknown unit", Dimensionless},
 	}
 	for _, tc := range tests {
 		t.Run(tc.in, func(t *testing.T) {
@@ -140,7 +158,7 @@ func TestParseEither(t *testing.T) {
 func TestRoundTrip(t *testing.T) {
 	// Display conversions invert the parse: SI → display → SI.
 	kinds := []Kind{Temperature, TemperatureDifference, Area, VolumeFlow, MassFlow, Pressure, Density,
-		SpecificHeat, Viscosity, HeatTransferCoefficient, Power, Length}
+		SpecificHeat, Viscosity, HeatTransferCoefficient, Power, Length, Angle}
 	for _, k := range kinds {
 		for _, sys := range []System{SI, US} {
 			u := DisplayUnit(k, sys)
@@ -151,6 +169,10 @@ func TestRoundTrip(t *testing.T) {
 				}
 			}
 		}
+	}
+	// 60° is π/3 rad (definition of the degree).
+	if got := FromSI(math.Pi/3, Angle, "°"); math.Abs(got-60) > 1e-12 {
+		t.Errorf("π/3 rad = %g°, want 60", got)
 	}
 	// 72 °C is 161.6 °F (definition of the Fahrenheit scale).
 	if got := FromSI(72, Temperature, "°F"); math.Abs(got-161.6) > 1e-12 {
@@ -163,7 +185,7 @@ func TestEveryKindIsWired(t *testing.T) {
 	// 1 display unit to SI and back is 1 (up to rounding), and the display unit
 	// has the kind's dimension (FromSI panics otherwise). Plain numbers print bare.
 	kinds := append(Kinds(), ConsistencyKind(0.65))
-	if len(kinds) < 17 {
+	if len(kinds) < 19 {
 		t.Fatalf("only %d kinds", len(kinds))
 	}
 	for _, k := range kinds {

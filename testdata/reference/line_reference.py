@@ -4,8 +4,15 @@ relations (LMTD, effectiveness-NTU; Incropera et al. 2007, ch. 11) with water
 properties from Debian's python3-iapws (IAPWS-IF97), not from pasval's code.
 
 Prints JSON: for each demo, per section the duty (W), the four temperatures
-(degC), LMTD (K), NTU, effectiveness, required area (m2) and plates. The Go
-test cmd/pasval/reference_test.go compares pasval's --json output with it.
+(degC), LMTD (K), NTU, effectiveness, area (m2) and plates, and for a section
+with a plate pack its U, film coefficients, Reynolds numbers, velocities and
+pressure drops. The Go test cmd/pasval/reference_test.go compares pasval's
+--json output with it.
+
+The SI demo's plate packs are rated with plate_pack.py (beside this script:
+Martin's correlation as docs/METHOD.md section 12 states it), the product as
+a fluid of constant density, specific heat and conductivity whose viscosity
+is interpolated in ln mu between the entered points.
 
 Conventions from docs/METHOD.md §3.5 and §6: water volumetric rates convert to
 mass at the inlet temperature; cp at the mean of inlet and outlet, iterated;
@@ -13,9 +20,13 @@ water at 0.101325 MPa (1.01 p_sat above 100 degC).
 """
 import json
 import math
+import os
 import sys
 
 from iapws.iapws97 import _Region1, _PSat_T
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import plate_pack  # noqa: E402  (beside this script)
 
 GAL = 3.785411784e-3
 LB = 0.45359237
@@ -66,26 +77,68 @@ def section(q, hin, hout, cin, cout, ch, cc, u, plate):
             "eff": q / (cmin * (hin - cin)), "hot_in": hin, "hot_out": hout, "cold_in": cin, "cold_out": cout}
 
 
+MILK_VISCOSITY = [(4.0, 3.1e-3), (40.0, 1.35e-3), (72.5, 0.72e-3), (80.0, 0.64e-3)]
+
+
+def milk(t):
+    """The SI demo's milk: entered density, cp and conductivity; ln mu linear
+    in T between the entered points, the nearest end held outside."""
+    pts = MILK_VISCOSITY
+    if t <= pts[0][0]:
+        mu = pts[0][1]
+    elif t >= pts[-1][0]:
+        mu = pts[-1][1]
+    else:
+        for (t1, m1), (t2, m2) in zip(pts, pts[1:]):
+            if t1 <= t <= t2:
+                mu = math.exp(math.log(m1) + (t - t1) / (t2 - t1) * (math.log(m2) - math.log(m1)))
+                break
+    return {"rho": 1031.0, "cp": 3930.0, "k": 0.58, "mu": mu}
+
+
+DEMO_PLATE = dict(plate_pack.GEOMETRY)  # 60 deg, 3 mm, 1.17, 0.45 m, 0.8 m, 0.6 mm, 16 W/(m K), 100 mm, 3e-5
+
+
+def pack_figures(r):
+    return {"u_clean": r["U_clean"], "u_service": r["U_service"], "h_p": r["h_p"], "h_o": r["h_o"], "re_p": r["Re_p"], "re_o": r["Re_o"], "v_p": r["v_p"], "v_o": r["v_o"],
+            "dp_p": r["dp_p"], "dp_o": r["dp_o"]}
+
+
 def milk_si():
     rho, cp = 1031.0, 3930.0
     c = 10000e-3 / 3600 * rho * cp
+    m = 10000e-3 / 3600 * rho
     raw, sp, target = 5.0, 72.5, 4.0
     # Holding-tube heat loss (docs/METHOD.md §8): the heater must deliver the tube
     # inlet at the normal rate, T_in = Ta + (T_set - Ta) exp(h pi Do L / (m cp)),
     # with h = 12 W/(m2 K), Do = 2 in, L = 34 m, Ta = 20 degC.
-    m = 10000e-3 / 3600 * rho
     heat_out = 20 + (sp - 20) * math.exp(12 * math.pi * 2 * 0.0254 * 34 / (m * cp))
     out = {}
-    r = 0.92
-    rawout, pastout = raw + r * (sp - raw), sp - r * (sp - raw)
+    # Regeneration, rated from its layout (8 passes of 7 channels a side: 111
+    # plates of 0.42 m2), U from the plate pack, iterated with the rating.
+    r = plate_pack.coupled(DEMO_PLATE, {"C_p": c, "C_o": c, "plate_area": 0.42},
+                           {"m": m, "tin": raw, "passes": 8, "cpp": 7}, {"m": m, "tin": sp, "passes": 8, "cpp": 7}, milk, milk)
+    rawout, pastout = r["T_out_p"], r["T_out_o"]
     q = c * (rawout - raw)
-    s = section(q, sp, pastout, raw, rawout, c, c, 3300, 0.35)
-    s["ntu"] = 3300 * s["area_m2"] / c
+    s = section(q, sp, pastout, raw, rawout, c, c, r["U_service"], 0.42)
+    s.update({"plates": 111, "area_m2": 111 * 0.42, "ntu": r["U_service"] * 111 * 0.42 / c, "u": r["U_service"]})
+    s.update(pack_figures(r))
     out["regeneration"] = s
+    # Heating, sized with the entered U and fouling; the passes are the fewest
+    # whose plates (5 + 6 channels a pass) give the area; the pack is rated at
+    # the section's temperatures.
+    u = 1 / (1 / 3800 + 3e-5)
     q = c * (heat_out - rawout)
     mo, cm = medium_out(20000e-3 / 3600, 77.0, q)
-    s = section(q, 77.0, mo, rawout, heat_out, cm, c, 3800, 0.35)
-    s["ntu"] = 3800 * s["area_m2"] / min(c, cm)
+    s = section(q, 77.0, mo, rawout, heat_out, cm, c, u, 0.42)
+    s["ntu"] = u * s["area_m2"] / min(c, cm)
+    passes = max(1, math.ceil((s["plates"] + 1) / (5 + 6)))
+    s["plates"] = passes * (5 + 6) - 1
+    rho_w, _ = water(77.0)
+    r = plate_pack.rate_pack(DEMO_PLATE, {"m": m, "tin": rawout, "tout": heat_out, "passes": passes, "cpp": 5},
+                             {"m": 20000e-3 / 3600 * rho_w, "tin": 77.0, "tout": mo, "passes": passes, "cpp": 6}, milk)
+    s["u"] = u
+    s.update(pack_figures(r))
     out["heating"] = s
     q = c * (pastout - target)
     mo, cm = medium_out(25000e-3 / 3600, 1.0, -q)

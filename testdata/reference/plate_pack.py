@@ -47,19 +47,20 @@ def darcy_vdi(re, phi):
     return r ** -2
 
 
-def rate_pack(g, side_p, side_o):
-    """g: geometry; side: dict(m, tin, tout, passes, cpp). Returns results."""
+def rate_pack(g, side_p, side_o, fluid_p=water, fluid_o=water):
+    """g: geometry; side: dict(m, tin, tout, passes, cpp); fluid: t -> dict(rho,
+    cp, k, mu), water unless given (Newtonian). Returns results."""
     phi = math.radians(g["phi_deg"])
     b, w = g["b_mm"] / 1000, g["w_m"]
     dh = 2 * b / g["Phi"]
     sides = []
-    for s in (side_p, side_o):
+    for s, fluid in ((side_p, fluid_p), (side_o, fluid_o)):
         t = (s["tin"] + s["tout"]) / 2
-        pr = water(t)
+        pr = fluid(t)
         v = s["m"] / (s["cpp"] * pr["rho"] * b * w)
         re = pr["rho"] * v * dh / pr["mu"]
         sides.append({"t": t, "p": pr, "v": v, "re": re, "Pr": pr["cp"] * pr["mu"] / pr["k"],
-                      "xi": darcy_vdi(re, phi), "muw": pr["mu"], "s": s})
+                      "xi": darcy_vdi(re, phi), "muw": pr["mu"], "s": s, "fluid": fluid})
     for _ in range(100):
         for x in sides:
             x["nu"] = 0.122 * x["Pr"] ** (1 / 3) * (x["p"]["mu"] / x["muw"]) ** (1 / 6) * \
@@ -70,7 +71,7 @@ def rate_pack(g, side_p, side_o):
         for i, x in enumerate(sides):
             o = sides[1 - i]
             x["tw"] = x["t"] - uc * (x["t"] - o["t"]) / x["h"]
-            new.append(water(x["tw"])["mu"])
+            new.append(x["fluid"](x["tw"])["mu"])
         done = all(abs(n / x["muw"] - 1) < 1e-13 for n, x in zip(new, sides))
         for n, x in zip(new, sides):
             x["muw"] = n
@@ -95,7 +96,7 @@ def eps_counter(ntu, cr):
     return (1 - e) / (1 - cr * e)
 
 
-def coupled(g, c, side_p, side_o):
+def coupled(g, c, side_p, side_o, fluid_p=water, fluid_o=water):
     """Counterflow, constant capacities; the stream with the hotter inlet gives heat."""
     plates = side_p["passes"] * side_p["cpp"] + side_o["passes"] * side_o["cpp"] - 1
     area = plates * c["plate_area"]
@@ -106,7 +107,7 @@ def coupled(g, c, side_p, side_o):
         q = eps_counter(u * area / cmin, cmin / cmax) * cmin * (side_o["tin"] - side_p["tin"])
         side_p["tout"] = side_p["tin"] + q / c["C_p"]
         side_o["tout"] = side_o["tin"] - q / c["C_o"]
-        r = rate_pack(g, side_p, side_o)
+        r = rate_pack(g, side_p, side_o, fluid_p, fluid_o)
         if abs(r["U_service"] - u) <= 1e-12 * u:
             break
         u = r["U_service"]
