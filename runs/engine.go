@@ -34,6 +34,7 @@ type Engine struct {
 	rheos    rheologies
 	lastTemp *tempEntry // the cache entry of the last sample's temperature
 
+	trace  *trace // nil unless Options.Trace
 	sum    Summary
 	events []Event
 	open   *openEvent
@@ -85,6 +86,9 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no),
 		rheos: rheologies{ids: map[lethality.Rheology]uint32{}}}
 	e.tr.length = m.Tube.Length
+	if opt.Trace != 0 {
+		e.trace = newTrace(opt.Trace)
+	}
 	e.required = make([]float64, no)
 	for i, o := range m.Organisms {
 		e.required[i] = o.RequiredLogReduction
@@ -122,6 +126,9 @@ func (e *Engine) Add(s Sample) error {
 	if idx > 0 && s.Time < e.prevTime {
 		e.err = &SampleError{Index: idx, Field: "time", Value: s.Time, Previous: e.prevTime}
 		return e.err
+	}
+	if e.trace != nil {
+		e.trace.add(s)
 	}
 	if idx > 0 && s.Time > e.prevTime && e.threshold == 0 {
 		e.intervals = append(e.intervals, s.Time-e.prevTime)
@@ -423,7 +430,11 @@ func (e *Engine) Finish() Result {
 	if e.drops == nil {
 		e.drops = []Drop{}
 	}
-	return Result{Summary: e.sum, Events: e.events, Drops: e.drops}
+	res := Result{Summary: e.sum, Events: e.events, Drops: e.drops}
+	if e.trace != nil {
+		res.Trace = e.trace.buckets()
+	}
+	return res
 }
 
 // finite says whether v is a number other than ±Inf.

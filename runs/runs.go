@@ -142,6 +142,9 @@ type Options struct {
 	// GapThreshold is the longest interval between samples that is not a
 	// recording gap, s; 0 takes GapFactor × the median interval.
 	GapThreshold float64
+	// Trace is the number of buckets of Result.Trace, even; 0 keeps none.
+	// Between Trace/2 and Trace of them cover the run.
+	Trace int
 }
 
 // GapFactor times the median interval is the default gap threshold.
@@ -262,6 +265,9 @@ type Result struct {
 	Summary Summary
 	Events  []Event
 	Drops   []Drop
+	// Trace is the run summarised for drawing (Options.Trace buckets at
+	// most, those holding samples, in time order); nil unless asked for.
+	Trace []TraceBucket
 }
 
 // SampleError is a sample the engine cannot take: a value that is not a
