@@ -26,8 +26,27 @@ type Document struct {
 	// Attachments are the input files the record carries, the plant file
 	// first; verify re-renders the record from all of them.
 	Attachments []Attachment
-	Cover       Cover
-	Sections    []Section
+	// Kind names the kind of record in the metadata: "" for the validation
+	// record, KindRunReview for a review of recorded runs.
+	Kind string
+	// Inputs are further files the record was made from but does not carry
+	// (recorded runs, too large to attach): their names and SHA-256, in
+	// order. verify can re-render the record only when they are given.
+	Inputs []InputRef
+	// Options is how the inputs were read, as text for the maker to read
+	// back (kept in the metadata).
+	Options  string
+	Cover    Cover
+	Sections []Section
+}
+
+// KindRunReview is the Kind of a review of recorded runs.
+const KindRunReview = "run-review"
+
+// InputRef names an input file a record does not carry.
+type InputRef struct {
+	Name   string
+	SHA256 string // hex
 }
 
 // Cover is the first page's identification and verdict box.
@@ -65,11 +84,12 @@ const (
 	DiagramBlock
 	PlotBlock
 	SignOffBlock
+	TrendBlock
 )
 
 // BlockKinds lists every kind (the renderer has a case for each; a test
 // renders one of each).
-var BlockKinds = []BlockKind{ParagraphBlock, BulletsBlock, KeyValuesBlock, TableBlock, DiagramBlock, PlotBlock, SignOffBlock}
+var BlockKinds = []BlockKind{ParagraphBlock, BulletsBlock, KeyValuesBlock, TableBlock, DiagramBlock, PlotBlock, SignOffBlock, TrendBlock}
 
 // Paragraph is running text.
 type Paragraph struct {

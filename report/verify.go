@@ -87,6 +87,9 @@ const (
 	resultToken  = "pasval-result:"
 	verdictToken = "pasval-verdict:" // label=pass|fail, in the cover's order
 	fileToken    = "pasval-file:"    // name=sha256, in attachment order
+	kindToken    = "pasval-kind:"    // the Document's Kind, when not empty
+	inputToken   = "pasval-input:"   // name=sha256 of a file not carried, in order
+	optionsToken = "pasval-options:" // the Document's Options, query-escaped
 )
 
 // keywords is the Keywords entry of a document: the plant file's hash (the
@@ -101,6 +104,15 @@ func keywords(doc *Document) string {
 	for _, a := range doc.Attachments {
 		sum := sha256.Sum256(a.Content)
 		kw = append(kw, fileToken+url.QueryEscape(a.Name)+"="+hex.EncodeToString(sum[:]))
+	}
+	if doc.Kind != "" {
+		kw = append(kw, kindToken+url.QueryEscape(doc.Kind))
+	}
+	for _, in := range doc.Inputs {
+		kw = append(kw, inputToken+url.QueryEscape(in.Name)+"="+in.SHA256)
+	}
+	if doc.Options != "" {
+		kw = append(kw, optionsToken+url.QueryEscape(doc.Options))
 	}
 	return strings.Join(kw, " ")
 }
@@ -126,6 +138,10 @@ type Stored struct {
 	HasVerdicts bool
 	Attachments []Attachment // in the order the record lists them; the plant file first
 	Pages       int
+	// Kind, Inputs and Options are the Document's (empty for a validation record).
+	Kind    string
+	Inputs  []InputRef
+	Options string
 }
 
 var (
@@ -189,6 +205,14 @@ func Read(pdf []byte) (st *Stored, err error) {
 			label, word, _ := strings.Cut(strings.TrimPrefix(tok, verdictToken), "=")
 			label, _ = url.QueryUnescape(label)
 			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass"})
+		case strings.HasPrefix(tok, kindToken):
+			st.Kind, _ = url.QueryUnescape(strings.TrimPrefix(tok, kindToken))
+		case strings.HasPrefix(tok, inputToken):
+			name, sum, _ := strings.Cut(strings.TrimPrefix(tok, inputToken), "=")
+			name, _ = url.QueryUnescape(name)
+			st.Inputs = append(st.Inputs, InputRef{Name: name, SHA256: sum})
+		case strings.HasPrefix(tok, optionsToken):
+			st.Options, _ = url.QueryUnescape(strings.TrimPrefix(tok, optionsToken))
 		case strings.HasPrefix(tok, fileToken):
 			name, _, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
 			name, _ = url.QueryUnescape(name)

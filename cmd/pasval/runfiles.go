@@ -3,10 +3,13 @@ package main
 import (
 	"encoding/hex"
 	"errors"
+	"fmt"
 	"io"
+	"net/url"
 	"os"
 	"path/filepath"
 	"sort"
+	"strconv"
 	"strings"
 	"sync"
 	"time"
@@ -48,6 +51,116 @@ func (f *runFlags) register(cmd *cobra.Command) {
 	fl.IntVar(&f.skipBadRows, "skip-bad-rows", 0, "skip up to N malformed rows (counted, the first listed) instead of stopping at the first")
 	fl.Float64Var(&f.gap, "gap", 0, "longest interval between samples, s, that is not a recording gap (default: 5 × the median interval)")
 	fl.BoolVar(&f.quiet, "quiet", false, "no progress bar")
+}
+
+// encode writes the flags that decide how the runs are read and judged as
+// one line of query text (sorted keys, defaults left out), kept in a
+// run-review record so that verify reads the runs the same way.
+func (f runFlags) encode() string {
+	v := url.Values{}
+	if len(f.columns) > 0 {
+		keys := make([]string, 0, len(f.columns))
+		for k := range f.columns {
+			keys = append(keys, k)
+		}
+		sort.Strings(keys)
+		var pairs []string
+		for _, k := range keys {
+			pairs = append(pairs, k+"="+f.columns[k])
+		}
+		v["columns"] = pairs
+	}
+	set := func(key, val string) {
+		if val != "" {
+			v.Set(key, val)
+		}
+	}
+	set("separator", f.separator)
+	if f.decimalComma {
+		v.Set("decimal-comma", "true")
+	}
+	set("temperature-unit", f.temperatureUnit)
+	set("flow-unit", f.flowUnit)
+	set("timezone", f.timezone)
+	if f.skipBadRows != 0 {
+		v.Set("skip-bad-rows", strconv.Itoa(f.skipBadRows))
+	}
+	if f.gap != 0 {
+		v.Set("gap", strconv.FormatFloat(f.gap, 'g', -1, 64))
+	}
+	return v.Encode()
+}
+
+// decodeRunFlags reads what encode wrote.
+func decodeRunFlags(s string) (runFlags, error) {
+	v, err := url.ParseQuery(s)
+	if err != nil {
+		return runFlags{}, err
+	}
+	f := runFlags{separator: v.Get("separator"), temperatureUnit: v.Get("temperature-unit"), flowUnit: v.Get("flow-unit"),
+		timezone: v.Get("timezone"), decimalComma: v.Get("decimal-comma") == "true"}
+	for _, pair := range v["columns"] {
+		k, h, ok := strings.Cut(pair, "=")
+		if !ok {
+			return runFlags{}, fmt.Errorf("column mapping %q", pair)
+		}
+		if f.columns == nil {
+			f.columns = map[string]string{}
+		}
+		f.columns[k] = h
+	}
+	if s := v.Get("skip-bad-rows"); s != "" {
+		if f.skipBadRows, err = strconv.Atoi(s); err != nil {
+			return runFlags{}, err
+		}
+	}
+	if s := v.Get("gap"); s != "" {
+		if f.gap, err = strconv.ParseFloat(s, 64); err != nil {
+			return runFlags{}, err
+		}
+	}
+	return f, nil
+}
+
+// reading says in words how the runs were read, for the record.
+func (f runFlags) reading() [][2]string {
+	sep := "as the header uses"
+	switch f.separator {
+	case ",", ";":
+		sep = "'" + f.separator + "'"
+	case "tab", "\t", `\t`:
+		sep = "tab"
+	}
+	kv := [][2]string{{"separator", sep}}
+	if f.decimalComma {
+		kv = append(kv, [2]string{"decimal mark", "comma"})
+	}
+	if len(f.columns) > 0 {
+		keys := make([]string, 0, len(f.columns))
+		for k := range f.columns {
+			keys = append(keys, k)
+		}
+		sort.Strings(keys)
+		var m []string
+		for _, k := range keys {
+			m = append(m, k+" = "+strconv.Quote(f.columns[k]))
+		}
+		kv = append(kv, [2]string{"columns", strings.Join(m, ", ")})
+	}
+	if f.temperatureUnit != "" {
+		kv = append(kv, [2]string{"temperature unit", f.temperatureUnit + " where the header gives none"})
+	}
+	if f.flowUnit != "" {
+		kv = append(kv, [2]string{"flow unit", f.flowUnit + " where the header gives none"})
+	}
+	if f.skipBadRows > 0 {
+		kv = append(kv, [2]string{"malformed rows", fmt.Sprintf("up to %d skipped", f.skipBadRows)})
+	}
+	gap := "5 × the median interval"
+	if f.gap > 0 {
+		gap = strconv.FormatFloat(f.gap, 'g', -1, 64) + " s, as given"
+	}
+	return append(kv, [2]string{"gap limit", gap})
 }
 
 // optionFlags names the command-line flag of each runlog option.
@@ -152,6 +265,12 @@ func unwrapPath(err error) error {
 // the plant, then merges them into one review. Progress goes to diag when
 // it is a terminal and the files are large (see showProgress).
 func reviewRuns(p *plantfile.Plant, args []string, f runFlags, diag io.Writer) (*assess.RunReview, error) {
+	return reviewRunsTraced(p, args, f, diag, 0)
+}
+
+// reviewRunsTraced is reviewRuns keeping each file's trace of trace buckets
+// (runs.Options.Trace; 0 none), for the record's figures.
+func reviewRunsTraced(p *plantfile.Plant, args []string, f runFlags, diag io.Writer, trace int) (*assess.RunReview, error) {
 	opt, loc, err := f.readerOptions()
 	if err != nil {
 		return nil, err
@@ -167,7 +286,7 @@ func reviewRuns(p *plantfile.Plant, args []string, f runFlags, diag io.Writer) (
 	prog := newProgress(paths, f.quiet, diag)
 	files, errs := runlog.Each(paths, opt, 0, func(r *runlog.Reader) (assess.RunFile, error) {
 		prog.add(r)
-		return judgeRun(r, rm, f.gap)
+		return judgeRun(r, rm, runs.Options{GapThreshold: f.gap, Trace: trace})
 	})
 	prog.done()
 	var all inputerr.List
@@ -192,8 +311,8 @@ func reviewRuns(p *plantfile.Plant, args []string, f runFlags, diag io.Writer) (
 }
 
 // judgeRun feeds one file's samples to the engine.
-func judgeRun(r *runlog.Reader, rm assess.RunModel, gap float64) (assess.RunFile, error) {
-	e, err := runs.NewEngine(rm.Model, runs.Options{GapThreshold: gap})
+func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options) (assess.RunFile, error) {
+	e, err := runs.NewEngine(rm.Model, opt)
 	if err != nil {
 		return assess.RunFile{}, err // NewRunModel has checked the criteria
 	}

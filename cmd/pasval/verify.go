@@ -23,8 +23,9 @@ import (
 var errMismatch = fmt.Errorf("the record does not match: %w", errChecksFailed)
 
 func newVerifyCmd(stdout io.Writer) *cobra.Command {
+	var logs []string
 	cmd := &cobra.Command{
-		Use:   "verify RECORD.pdf [PLANT.yaml]",
+		Use:   "verify RECORD.pdf [PLANT.yaml] [--log RUN.csv …]",
 		Short: "Check that a record is exactly what its plant file gives",
 		Long: `verify reads a record written by 'pasval report'. It checks that the plant
 file attached to the record matches the SHA-256 in the record's metadata (and,
@@ -40,7 +41,8 @@ reported as differing from the re-rendered one). ` + fmt.Sprintf(`Both files are
 regular files, a record of at most %d MiB (one is about 70 KB) and a plant
 file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20),
 		Example: `  pasval verify line2-record.pdf
-  pasval verify line2-record.pdf line2.yaml`,
+  pasval verify line2-record.pdf line2.yaml
+  pasval verify review-2026-03-14.pdf --log shift-2026-03-14.csv`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) < 1 || len(args) > 2 {
 				return usagef("verify needs a record and optionally a plant file, got %d arguments", len(args))
@@ -52,9 +54,17 @@ file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20)
 			if len(args) == 2 {
 				plant = args[1]
 			}
-			return runVerify(args[0], plant, stdout)
+			return runVerify(args[0], plant, logs, stdout, cmd.ErrOrStderr())
 		},
 	}
+	cmd.Flags().StringArrayVar(&logs, "log", nil, "a recorded run of a run-review record (file or folder; repeat for several), to re-render it")
+	cmd.Long += `
+
+A run-review record (report --log) carries its plant file but not its
+recorded runs: verify re-reads the runs given with --log (matched by their
+SHA-256, read with the options the record stores) and re-renders the
+record; without them it checks the plant file and says that the pages
+could not be byte-checked.`
 	cmd.Long += `
 
 Exit status:
@@ -71,7 +81,7 @@ func sha256Hex(b []byte) string {
 	return hex.EncodeToString(s[:])
 }
 
-func runVerify(recordPath, plantPath string, out io.Writer) error {
+func runVerify(recordPath, plantPath string, logs []string, out, diag io.Writer) error {
 	pdf, err := readRegular(recordPath, "record", report.ReadRecord)
 	if err != nil {
 		return err
@@ -99,7 +109,21 @@ func runVerify(recordPath, plantPath string, out io.Writer) error {
 		fmt.Fprintf(out, "%-27s %s  %s\n", plantPath, fileSum, okWord(fileSum == st.RecordedSHA256))
 		ok = ok && fileSum == st.RecordedSHA256
 	}
-	ok = verifyContent(st, pdf, out) && ok
+	switch st.Kind {
+	case "":
+		if len(logs) > 0 {
+			return usagef("%s is a validation record, not a run review: --log does not apply", recordPath)
+		}
+		ok = verifyContent(st, pdf, out) && ok
+	case report.KindRunReview:
+		okRuns, err := verifyRunReview(st, pdf, logs, out, diag)
+		if err != nil {
+			return err
+		}
+		ok = okRuns && ok
+	default:
+		return usagef("%s: a record of kind %q, which pasval %s cannot check", recordPath, st.Kind, version.Version)
+	}
 	if !ok {
 		fmt.Fprintln(out, "MISMATCH: the record is not what its plant file gives; do not rely on it")
 		return errMismatch
@@ -143,26 +167,33 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 			made, version.Version)
 		return ok
 	}
-	if bytes.Equal(pdf, rep.PDF) {
-		fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from its plant file (pasval %s, %s)\n",
-			st.Version, st.Date.Format("2006-01-02"))
-		return ok
+	return comparePages(st, pdf, rep.PDF, signed, "its plant file", out) && ok
+}
+
+// comparePages compares a record with its re-render (from what: "its plant
+// file"): identical bytes, or, for a signed record, the re-render followed
+// by the signatures; else it names the first page that differs.
+func comparePages(st *report.Stored, pdf, again []byte, signed bool, from string, out io.Writer) bool {
+	if bytes.Equal(pdf, again) {
+		fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from %s (pasval %s, %s)\n",
+			from, st.Version, st.Date.Format("2006-01-02"))
+		return true
 	}
-	if signed && bytes.HasPrefix(pdf, rep.PDF) {
+	if signed && bytes.HasPrefix(pdf, again) {
 		// A signature is appended after the record: the record itself must
 		// be the re-render, byte for byte, and the signing must change no page.
-		if page, err := report.FirstDifferentPage(pdf, rep.PDF); err == nil && page == 0 {
-			fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from its plant file (pasval %s, %s), "+
-				"followed by its signatures\n", st.Version, st.Date.Format("2006-01-02"))
-			return ok
+		if page, err := report.FirstDifferentPage(pdf, again); err == nil && page == 0 {
+			fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from %s (pasval %s, %s), "+
+				"followed by its signatures\n", from, st.Version, st.Date.Format("2006-01-02"))
+			return true
 		}
 	}
-	page, err := report.FirstDifferentPage(pdf, rep.PDF)
+	page, err := report.FirstDifferentPage(pdf, again)
 	switch {
 	case err != nil:
 		fmt.Fprintf(out, "pages                       DIFFER from the re-rendered record; the pages cannot be compared one by one (%v)\n", err)
 	case page > 0:
-		fmt.Fprintf(out, "pages                       DIFFER from the record re-rendered from its plant file: page %d differs first\n", page)
+		fmt.Fprintf(out, "pages                       DIFFER from the record re-rendered from %s: page %d differs first\n", from, page)
 	default:
 		fmt.Fprintln(out, "pages                       every page's content matches the re-rendered record, but the file DIFFERS elsewhere "+
 			"(metadata, attachment or structure: edited, or re-saved by another program)")
