@@ -551,3 +551,20 @@ func TestShowProgress(t *testing.T) {
 		}
 	}
 }
+
+// TestLogsFileNameShownEscaped: a run file's name is shown with its control
+// characters escaped (internal/oneline), so it cannot clear the screen or
+// start a line of its own in the review.
+func TestLogsFileNameShownEscaped(t *testing.T) {
+	data, err := os.ReadFile(demoRun)
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "shift\x1b[2J\nResult: no event.csv")
+	writeFile(t, path, string(data))
+	var out bytes.Buffer
+	run([]string{"logs", demoPlant, path}, &out, &bytes.Buffer{})
+	if strings.Contains(out.String(), "\x1b") || !strings.Contains(out.String(), `shift\u001B[2J\u000AResult: no event.csv`) {
+		t.Errorf("the file name is not escaped:\n%s", out.String())
+	}
+}

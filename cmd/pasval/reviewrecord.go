@@ -62,7 +62,7 @@ func runReviewRecord(opts reportOptions, out, diag io.Writer) error {
 		return err
 	}
 	for _, in := range append([]string{p.File}, runPathsOf(rev)...) {
-		if same, _ := sameFile(opts.output, in); same {
+		if sameFile(opts.output, in) {
 			return usagef("the record %s would overwrite its input %s", opts.output, in)
 		}
 	}

@@ -382,7 +382,9 @@ func newProgress(paths []string, quiet bool, diag io.Writer) *progress {
 			case <-pr.stop:
 				return
 			case <-tick.C:
-				_ = pr.bar.Set64(pr.read())
+				if pr.bar.Set64(pr.read()) != nil {
+					return // the terminal is gone: no more bar, the review goes on
+				}
 			}
 		}
 	}()
@@ -417,6 +419,7 @@ func (pr *progress) done() {
 	}
 	close(pr.stop)
 	pr.wg.Wait()
-	_ = pr.bar.Finish()
-	_ = pr.bar.Clear()
+	if pr.bar.Finish() != nil || pr.bar.Clear() != nil {
+		return // the terminal is gone: no bar to clear, and no result lost (the review goes to standard output)
+	}
 }

@@ -17,7 +17,6 @@
 package assess
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -156,11 +155,18 @@ type Result struct {
 
 // Run computes every section and check the plant file describes. Errors are
 // inputerr.List values that point at the section whose numbers cannot
-// work (a temperature cross, an impossible duty).
-func Run(p *plantfile.Plant) (*Result, error) {
+// work (a temperature cross, an impossible duty), or at the entered values
+// that make a result not a finite number (finite.go).
+func Run(p *plantfile.Plant) (*Result, error) { return finiteOrTraced(p, run) }
+
+// run is Run without the finiteness check.
+func run(p *plantfile.Plant) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
 		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
 	res.Product = productProps(p)
+	if err := ratesInOrder(p, res.Product); err != nil {
+		return nil, err
+	}
 	heatingOutlet := p.Process.HoldSetpoint.SI
 	if p.HoldingTube != nil {
 		var err error
@@ -180,11 +186,6 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	res.Pass = true
 	for _, c := range res.Checks {
 		res.Pass = res.Pass && c.Pass
-	}
-	// A safety net: no verdict rests on a number that is not finite.
-	if _, err := json.Marshal(res); err != nil {
-		return nil, inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1},
-			Msg: "the inputs lead to a result that is not a finite number; check the magnitudes and units of the entered values"}}
 	}
 	return res, nil
 }
@@ -221,6 +222,21 @@ func productProps(p *plantfile.Plant) ProductProps {
 	pp.MassFlow, pp.MaxMassFlow = toMass(rate), toMass(maxRate)
 	pp.ProductCapacity = pp.MassFlow * pp.SpecificHeat
 	return pp
+}
+
+// ratesInOrder refuses a normal rate above the sealed maximum, compared as
+// mass flows (a volumetric rate × the product density), so that "20000 kg/h"
+// is compared with "11000 L/h" too.
+func ratesInOrder(p *plantfile.Plant, pp ProductProps) error {
+	r, m := p.Flow.Rate, p.Flow.MaxRate
+	if !r.Set || !m.Set || !(pp.MassFlow > pp.MaxMassFlow*(1+1e-12)) {
+		return nil
+	}
+	msg := fmt.Sprintf("the normal rate %s is above the sealed maximum %s", r.Text, m.Text)
+	if r.ByMass != m.ByMass {
+		msg += fmt.Sprintf(" (%.0f kg/h against %.0f kg/h at %.6g kg/m³)", pp.MassFlow*3600, pp.MaxMassFlow*3600, pp.Density)
+	}
+	return inputerr.List{inputerr.At(r.Pos, "flow.rate", "%s; the timing pump cannot run faster than its seal", msg)}
 }
 
 // choiOkos is the one conversion of the entered composition for the

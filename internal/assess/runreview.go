@@ -37,14 +37,17 @@ func NewRunModel(p *plantfile.Plant) (RunModel, error) {
 	in := GatherHolding(p, pp)
 	ev, err := EvaluateHolding(in)
 	if err != nil {
-		return RunModel{}, inputerr.List{inputerr.At(p.HoldingTube.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%v", err)}
+		return RunModel{}, holdingInputError(p, err)
 	}
 	m := runs.Model{Tube: ev.Tube, Rheology: ev.Rheology, Density: in.Density, FastestToMean: in.FastestToMean,
 		Organisms: in.Organisms, Legal: in.Legal, Setpoint: in.Setpoint, MaxFlow: in.MaxMassFlow / in.Density}
 	if in.FlowIndex == 0 && len(in.Viscosity) > 1 {
 		// Each interval's Reynolds number at its own recorded temperature,
 		// on the product's viscosity curve (docs/METHOD.md §4 (viscosity)).
-		curve, _ := props.NewViscosityCurve(in.Viscosity) // validated
+		curve, err := props.NewViscosityCurve(in.Viscosity)
+		if err != nil { // EvaluateHolding has built the same curve
+			return RunModel{}, holdingInputError(p, err)
+		}
 		m.RheologyAt = func(t float64) lethality.Rheology {
 			mu, _ := curve.At(t)
 			return lethality.Newtonian{Viscosity: mu}

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"pasval/internal/assess"
+	"pasval/internal/oneline"
 	"pasval/internal/units"
 	"pasval/runs"
 )
@@ -211,7 +212,9 @@ func BadRowLines(r *assess.RunReview, max int) (lines []string, more int) {
 func RunFiles(r *assess.RunReview) Grid {
 	g := grid(">#", "file", ">rows", ">bad rows", "sha256")
 	for i, f := range r.Files {
-		g.add(fmt.Sprintf("%d", i+1), f.Path, fmt.Sprintf("%d", f.Rows), fmt.Sprintf("%d", f.BadRows), f.SHA256)
+		// A file name may hold any byte but '/' and NUL: shown escaped, so it
+		// cannot move the cursor or start a line (internal/oneline).
+		g.add(fmt.Sprintf("%d", i+1), oneline.Escape(f.Path), fmt.Sprintf("%d", f.Rows), fmt.Sprintf("%d", f.BadRows), f.SHA256)
 	}
 	return g
 }
