@@ -38,9 +38,7 @@ own core, events keep their file, and the summary covers all. The columns are
 found by header name (time, hold_outlet_temperature, flow_rate, forward, or the
 names --columns gives); units come from the header ("flow_rate [gpm]") or from
 --temperature-unit and --flow-unit, and are never assumed. Times are RFC 3339
-clock times or seconds from a start. The method is docs/METHOD.md §13.
-
-Exit status 1 means some event was found, whatever its verdict.`,
+clock times or seconds from a start. The method is docs/METHOD.md §13.`,
 		Example: `  pasval logs testdata/demo/htst-milk-si.yaml testdata/demo/runs/htst-milk-si-shift.csv
   pasval logs line2.yaml exports/ --json > review.json
   pasval logs line2.yaml shift.csv --separator ';' --decimal-comma --timezone Europe/Berlin
@@ -56,7 +54,7 @@ Exit status 1 means some event was found, whatever its verdict.`,
 			return runLogs(opts, stdout, cmd.ErrOrStderr())
 		},
 	}
-	cmd.Long += "\n" + strings.Replace(exitStatusHelp, "every check passes\n  1  some check fails", "no event\n  1  some event (a deviation, a gap, or under-held product)", 1)
+	cmd.Long += "\n" + strings.Replace(exitStatusHelp, "every check passes\n  1  some check fails", "no event\n  1  some event, whatever its verdict (a deviation, a gap, or under-held product)", 1)
 	opts.outputFlags.register(cmd)
 	opts.runFlags.register(cmd)
 	return cmd
