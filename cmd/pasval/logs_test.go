@@ -568,3 +568,15 @@ func TestLogsFileNameShownEscaped(t *testing.T) {
 		t.Errorf("the file name is not escaped:\n%s", out.String())
 	}
 }
+
+// TestLogsUSTwinGivesTheSameNumbers: the SI demo plant and its exact twin in
+// US units (testdata/equivalence) judge the demo shift to the same JSON
+// numbers (SI there), to 1e-9.
+func TestLogsUSTwinGivesTheSameNumbers(t *testing.T) {
+	si, codeSI := logsJSON(t, demoPlant, demoRun)
+	us, codeUS := logsJSON(t, "../../testdata/equivalence/htst-milk-us.yaml", demoRun)
+	if codeSI != codeUS {
+		t.Errorf("exit %d and %d", codeSI, codeUS)
+	}
+	sameJSON(t, "", si, us, 1e-9, map[string]bool{"plant": true, "plant_sha256": true})
+}
