@@ -26,10 +26,12 @@ type Document struct {
 	// Attachments are the input files the record carries, the plant file
 	// first; verify re-renders the record from all of them.
 	Attachments []Attachment
-	// Kind names the kind of record in the metadata: "" for the validation
-	// record, KindRunReview for a review of recorded runs.
+	// Kind is what the record documents: "" a plant file (with its line file
+	// when it names one), KindMatrix the products of a line (the line file
+	// first), KindRunReview recorded runs judged against a plant file. It is
+	// kept in the metadata, so verify knows how to re-render.
 	Kind string
-	// Inputs are further files the record was made from but does not carry
+	// Inputs are further files a run review was made from but does not carry
 	// (recorded runs, too large to attach): their names and SHA-256, in
 	// order. verify can re-render the record only when they are given.
 	Inputs []InputRef
@@ -40,7 +42,7 @@ type Document struct {
 	Sections []Section
 }
 
-// KindRunReview is the Kind of a review of recorded runs.
+// KindRunReview is the Kind of a review of recorded runs (pasval report --log).
 const KindRunReview = "run-review"
 
 // InputRef names an input file a record does not carry.
@@ -48,6 +50,9 @@ type InputRef struct {
 	Name   string
 	SHA256 string // hex
 }
+
+// KindMatrix is the Kind of a record of a line's products (pasval matrix).
+const KindMatrix = "matrix"
 
 // Cover is the first page's identification and verdict box.
 type Cover struct {
@@ -68,6 +73,7 @@ type Verdict struct {
 type Section struct {
 	Heading string
 	Blocks  []Block
+	NewPage bool // start on a page of its own
 }
 
 // Block is one element of a section.

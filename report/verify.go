@@ -87,7 +87,7 @@ const (
 	resultToken  = "pasval-result:"
 	verdictToken = "pasval-verdict:" // label=pass|fail, in the cover's order
 	fileToken    = "pasval-file:"    // name=sha256, in attachment order
-	kindToken    = "pasval-kind:"    // the Document's Kind, when not empty
+	kindToken    = "pasval-record:"  // the Document's Kind, when not a plant file's record
 	inputToken   = "pasval-input:"   // name=sha256 of a file not carried, in order
 	optionsToken = "pasval-options:" // the Document's Options, query-escaped
 )
@@ -137,9 +137,12 @@ type Stored struct {
 	Verdicts    []Verdict
 	HasVerdicts bool
 	Attachments []Attachment // in the order the record lists them; the plant file first
-	Pages       int
-	// Kind, Inputs and Options are the Document's (empty for a validation record).
-	Kind    string
+	// FileHashes are the SHA-256 the metadata records for each attached
+	// file, by name (empty in a record that does not carry them).
+	FileHashes map[string]string
+	Kind       string // Document.Kind
+	Pages      int
+	// Inputs and Options are a run review's (Document.Inputs, Options).
 	Inputs  []InputRef
 	Options string
 }
@@ -186,7 +189,7 @@ func Read(pdf []byte) (st *Stored, err error) {
 			st, err = nil, fmt.Errorf("the PDF cannot be parsed (%v): %w", r, ErrUnreadable)
 		}
 	}()
-	st = &Stored{Pages: ctx.PageCount}
+	st = &Stored{Pages: ctx.PageCount, FileHashes: map[string]string{}}
 	var order []string
 	for _, tok := range strings.Fields(ctx.XRefTable.Keywords) {
 		switch {
@@ -211,12 +214,6 @@ func Read(pdf []byte) (st *Stored, err error) {
 				label = l // else kept as written: it then matches no recomputed check
 			}
 			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass"})
-		case strings.HasPrefix(tok, kindToken):
-			k := strings.TrimPrefix(tok, kindToken)
-			if u, err := url.QueryUnescape(k); err == nil {
-				k = u // else kept as written: a kind no pasval knows
-			}
-			st.Kind = k
 		case strings.HasPrefix(tok, inputToken):
 			name, sum, _ := strings.Cut(strings.TrimPrefix(tok, inputToken), "=")
 			if n, err := url.QueryUnescape(name); err == nil {
@@ -230,11 +227,18 @@ func Read(pdf []byte) (st *Stored, err error) {
 			}
 			st.Options = o
 		case strings.HasPrefix(tok, fileToken):
-			name, _, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
+			name, sum, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
 			if n, err := url.QueryUnescape(name); err == nil {
 				name = n // else kept as written: it then names no attachment
 			}
 			order = append(order, name)
+			if hashRe.MatchString(sum) {
+				st.FileHashes[name] = sum
+			}
+		case strings.HasPrefix(tok, kindToken):
+			if k, err := url.QueryUnescape(strings.TrimPrefix(tok, kindToken)); err == nil {
+				st.Kind = k // else left empty: the record is then re-rendered as a plant file's, and differs
+			}
 		}
 	}
 	if st.RecordedSHA256 == "" {

@@ -59,7 +59,7 @@ func TestRunReviewRecord(t *testing.T) {
 	if _, errs, code := runBinary(t, "report", demoPlant, "-o", val, "--date", "2026-03-14"); code > 1 {
 		t.Fatalf("report: %d %s", code, errs)
 	}
-	if _, errs, code := runBinary(t, "verify", val, "--log", demoRun); code != exitInput || !strings.Contains(errs, "not a run review: --log does not apply") {
+	if _, errs, code := runBinary(t, "verify", val, "--log", demoRun); code != exitInput || !strings.Contains(errs, "is not a run-review record: --log does not apply") {
 		t.Errorf("verify a validation record with runs: exit %d %q", code, errs)
 	}
 	if _, errs, code := runBinary(t, "report", demoPlant, "-o", val, "--force", "--decimal-comma"); code != exitInput || !strings.Contains(errs, "--decimal-comma reads recorded runs: it goes with --log") {

@@ -138,6 +138,7 @@ type Result struct {
 	Tool              string       `json:"tool"`
 	Version           string       `json:"version"`
 	InputSHA256       string       `json:"input_sha256"`
+	LineFile          *SourceRef   `json:"line_file,omitempty"` // the line file the plant file names
 	Product           ProductProps `json:"product"`
 	Sections          []Section    `json:"sections"`
 	RegenerationRatio *float64     `json:"regeneration_ratio"`
@@ -153,6 +154,12 @@ type Result struct {
 	Plant *plantfile.Plant `json:"-"`
 }
 
+// SourceRef names an input file and its SHA-256 (hex).
+type SourceRef struct {
+	File   string `json:"file"`
+	SHA256 string `json:"sha256"`
+}
+
 // Run computes every section and check the plant file describes. Errors are
 // inputerr.List values that point at the section whose numbers cannot
 // work (a temperature cross, an impossible duty), or at the entered values
@@ -163,6 +170,9 @@ func Run(p *plantfile.Plant) (*Result, error) { return finiteOrTraced(p, run) }
 func run(p *plantfile.Plant) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
 		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
+	if l := p.Line; l != nil {
+		res.LineFile = &SourceRef{File: l.File, SHA256: l.SHA256}
+	}
 	res.Product = productProps(p)
 	if err := ratesInOrder(p, res.Product); err != nil {
 		return nil, err
