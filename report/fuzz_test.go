@@ -34,6 +34,14 @@ func FuzzVerify(f *testing.F) {
 	}
 	f.Add(pdf)
 	f.Add(pdf[:len(pdf)/2])
+	// A run review: kind, runs not carried and reading options in the metadata.
+	doc.Kind, doc.Options = KindRunReview, "columns=time%3DZeit&decimal-comma=true"
+	doc.Inputs = []InputRef{{Name: "shift.csv", SHA256: hash}}
+	review, _, err := Render(doc)
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(review)
 	f.Add([]byte("%PDF-1.3\n/Keywords (" + KeywordPrefix + hash + ")\n"))
 	f.Add([]byte("%PDF-1.3\n/Type /EmbeddedFile /Length 5 /Filter /FlateDecode /Params << /CheckSum <> /Size 999999999 >> >>\nstream\nxxxxx"))
 	f.Fuzz(func(t *testing.T, data []byte) {

@@ -29,6 +29,10 @@ func sampleBlock(k BlockKind) Block {
 		return SignOff{Roles: []string{"Prepared by"}}
 	case BarChartBlock:
 		return BarChart{Caption: "c", Unit: "s", Bars: []Bar{{Label: "a", Value: 1}, {Label: "b", Value: 0}}}
+	case TrendBlock:
+		return Trend{YLabel: "°C", Limit: 72.5, LimitLabel: "setpoint", Start: 0, End: 100, Ticks: []Tick{{At: 50, Label: "00:50"}},
+			Buckets: []TrendBucket{{Start: 0, End: 40, Min: 72.9, Max: 73.1, First: 40}, {Start: 41, End: 100, Min: 70, Max: 73, Second: 60}},
+			Bands:   []Band{{Start: 41, End: 45, Shade: ShadeAlert, Name: "at risk"}}, StateLabels: [2]string{"forward", "diverted"}}
 	}
 	return nil
 }

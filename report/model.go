@@ -28,10 +28,27 @@ type Document struct {
 	Attachments []Attachment
 	// Kind is what the record documents: "" a plant file (with its line file
 	// when it names one), KindMatrix the products of a line (the line file
-	// first). It is kept in the metadata, so verify knows how to re-render.
-	Kind     string
+	// first), KindRunReview recorded runs judged against a plant file. It is
+	// kept in the metadata, so verify knows how to re-render.
+	Kind string
+	// Inputs are further files a run review was made from but does not carry
+	// (recorded runs, too large to attach): their names and SHA-256, in
+	// order. verify can re-render the record only when they are given.
+	Inputs []InputRef
+	// Options is how the inputs were read, as text for the maker to read
+	// back (kept in the metadata).
+	Options  string
 	Cover    Cover
 	Sections []Section
+}
+
+// KindRunReview is the Kind of a review of recorded runs (pasval report --log).
+const KindRunReview = "run-review"
+
+// InputRef names an input file a record does not carry.
+type InputRef struct {
+	Name   string
+	SHA256 string // hex
 }
 
 // KindMatrix is the Kind of a record of a line's products (pasval matrix).
@@ -74,12 +91,13 @@ const (
 	PlotBlock
 	SignOffBlock
 	BarChartBlock
+	TrendBlock
 )
 
 // BlockKinds lists every kind (the renderer has a case for each; a test
 // renders one of each).
 var BlockKinds = []BlockKind{ParagraphBlock, BulletsBlock, KeyValuesBlock, TableBlock, DiagramBlock, PlotBlock, SignOffBlock,
-	BarChartBlock}
+	BarChartBlock, TrendBlock}
 
 // Paragraph is running text.
 type Paragraph struct {

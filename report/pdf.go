@@ -67,7 +67,11 @@ func Render(doc *Document) (pdf []byte, pages int, err error) {
 	f.AddUTF8FontFromBytes(fontFamily, "B", bytes.Clone(gobold.TTF))
 	f.AddUTF8FontFromBytes(monoFamily, "", bytes.Clone(gomono.TTF))
 	f.SetTitle(doc.Title+" — "+doc.Header, true)
-	f.SetSubject("pasval validation record; "+hashedFile(doc)+" SHA-256 "+doc.SHA256, true)
+	subject := "pasval validation record"
+	if doc.Kind == KindRunReview {
+		subject = "pasval run-review record"
+	}
+	f.SetSubject(subject+"; "+hashedFile(doc)+" SHA-256 "+doc.SHA256, true)
 	f.SetKeywords(keywords(doc), false)
 	f.SetCreator("pasval "+doc.Version, true)
 	f.SetAuthor("pasval "+doc.Version, true)
@@ -237,6 +241,8 @@ func (r *renderer) section(s Section) {
 			r.barChart(v)
 		case SignOff:
 			r.signOff(v)
+		case Trend:
+			r.trend(v)
 		default:
 			panic(fmt.Sprintf("report: no layout for block kind %d (%T)", int(b.Kind()), b))
 		}

@@ -88,6 +88,8 @@ const (
 	verdictToken = "pasval-verdict:" // label=pass|fail, in the cover's order
 	fileToken    = "pasval-file:"    // name=sha256, in attachment order
 	kindToken    = "pasval-record:"  // the Document's Kind, when not a plant file's record
+	inputToken   = "pasval-input:"   // name=sha256 of a file not carried, in order
+	optionsToken = "pasval-options:" // the Document's Options, query-escaped
 )
 
 // keywords is the Keywords entry of a document: the plant file's hash (the
@@ -105,6 +107,12 @@ func keywords(doc *Document) string {
 	}
 	if doc.Kind != "" {
 		kw = append(kw, kindToken+url.QueryEscape(doc.Kind))
+	}
+	for _, in := range doc.Inputs {
+		kw = append(kw, inputToken+url.QueryEscape(in.Name)+"="+in.SHA256)
+	}
+	if doc.Options != "" {
+		kw = append(kw, optionsToken+url.QueryEscape(doc.Options))
 	}
 	return strings.Join(kw, " ")
 }
@@ -134,6 +142,9 @@ type Stored struct {
 	FileHashes map[string]string
 	Kind       string // Document.Kind
 	Pages      int
+	// Inputs and Options are a run review's (Document.Inputs, Options).
+	Inputs  []InputRef
+	Options string
 }
 
 var (
@@ -203,6 +214,18 @@ func Read(pdf []byte) (st *Stored, err error) {
 				label = l // else kept as written: it then matches no recomputed check
 			}
 			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass"})
+		case strings.HasPrefix(tok, inputToken):
+			name, sum, _ := strings.Cut(strings.TrimPrefix(tok, inputToken), "=")
+			if n, err := url.QueryUnescape(name); err == nil {
+				name = n // else kept as written: shown, and matched by its hash alone
+			}
+			st.Inputs = append(st.Inputs, InputRef{Name: name, SHA256: sum})
+		case strings.HasPrefix(tok, optionsToken):
+			o := strings.TrimPrefix(tok, optionsToken)
+			if u, err := url.QueryUnescape(o); err == nil {
+				o = u // else kept as written: unreadable options, which verify reports
+			}
+			st.Options = o
 		case strings.HasPrefix(tok, fileToken):
 			name, sum, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
 			if n, err := url.QueryUnescape(name); err == nil {

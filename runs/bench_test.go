@@ -9,9 +9,9 @@ import (
 	"sync"
 	"testing"
 
+	gen "pasval/internal/rungen"
 	"pasval/internal/runlog"
 	"pasval/runs"
-	"pasval/runs/internal/gen"
 )
 
 // Benchmarks on a generated recorded run of the demo's shape (RFC 3339

@@ -12,8 +12,8 @@ import (
 // keyed by its exact bits, so the results are those of a fresh computation.
 
 const (
-	tempCacheBits  = 11
-	speedCacheBits = 12
+	tempCacheBits  = 12
+	speedCacheBits = 14
 )
 
 // slot hashes the bits of a key into a cache of 2^bits entries (Fibonacci
@@ -25,8 +25,10 @@ func slot(key uint64, bits uint) uint64 { return (key * 0x9E3779B97F4A7C15) >> (
 type tempEntry struct {
 	key   uint64 // math.Float64bits of the temperature
 	used  bool
+	gen   uint32    // the cache's generation when filled
 	d     []float64 // D per organism, s
 	legal legalBounds
+	rh    uint32 // the number of the rheology at this temperature (Engine.rheologyID); 0 when it does not depend on it
 }
 
 // legalBounds are, for one temperature, the least residence known to meet
@@ -41,6 +43,7 @@ type legalBounds struct {
 
 type tempCache struct {
 	entries [1 << tempCacheBits]tempEntry
+	gen     uint32 // raised when the rheology numbers start afresh
 }
 
 func newTempCache(organisms int) *tempCache {
@@ -52,17 +55,22 @@ func newTempCache(organisms int) *tempCache {
 	return c
 }
 
-// at returns the entry for temperature temp (°C), filled for the model.
-func (c *tempCache) at(temp float64, m *Model) *tempEntry {
+// at returns the entry for temperature temp (°C), filled for the engine's
+// model.
+func (c *tempCache) at(temp float64, eng *Engine) *tempEntry {
 	key := math.Float64bits(temp)
 	e := &c.entries[slot(key, tempCacheBits)]
-	if e.used && e.key == key {
+	if e.used && e.key == key && e.gen == c.gen {
 		return e
 	}
-	e.key, e.used, e.legal = key, true, legalBounds{}
-	for i, o := range m.Organisms {
+	e.key, e.used, e.legal, e.rh = key, true, legalBounds{}, 0
+	for i, o := range eng.m.Organisms {
 		e.d[i] = o.DAt(temp)
 	}
+	if eng.m.RheologyAt != nil {
+		e.rh = eng.rheologyID(temp) // may start a new generation
+	}
+	e.gen = c.gen
 	return e
 }
 
@@ -89,24 +97,35 @@ func (e *tempEntry) meetsLegal(res float64, m *Model) bool {
 	return met
 }
 
-// speedCache remembers the fastest particle's speed per flow (and
-// temperature, when the rheology depends on it).
+// speedCache remembers the fastest particle's speed per flow and rheology
+// number (Engine.rheologyID).
 type speedCache struct {
 	entries [1 << speedCacheBits]struct {
-		q, t uint64
-		u    float64
+		q    uint64
+		rh   uint32
 		used bool
+		u    float64
 	}
 }
 
-func (c *speedCache) get(q, t float64) (float64, bool) {
-	kq, kt := math.Float64bits(q), math.Float64bits(t)
-	e := &c.entries[slot(kq^(kt*0xBF58476D1CE4E5B9), speedCacheBits)]
-	return e.u, e.used && e.q == kq && e.t == kt
+func (c *speedCache) get(q float64, rh uint32) (float64, bool) {
+	kq := math.Float64bits(q)
+	e := &c.entries[slot(kq^(uint64(rh)*0xBF58476D1CE4E5B9), speedCacheBits)]
+	return e.u, e.used && e.q == kq && e.rh == rh
 }
 
-func (c *speedCache) put(q, t, u float64) {
-	kq, kt := math.Float64bits(q), math.Float64bits(t)
-	e := &c.entries[slot(kq^(kt*0xBF58476D1CE4E5B9), speedCacheBits)]
-	e.q, e.t, e.u, e.used = kq, kt, u, true
+func (c *speedCache) put(q float64, rh uint32, u float64) {
+	kq := math.Float64bits(q)
+	e := &c.entries[slot(kq^(uint64(rh)*0xBF58476D1CE4E5B9), speedCacheBits)]
+	e.q, e.rh, e.u, e.used = kq, rh, u, true
+}
+
+// maxRheologies bounds the rheologies an Engine numbers at once.
+const maxRheologies = 4096
+
+// rheologies numbers the distinct rheologies met so far. lethality's
+// rheologies are comparable values, so equal ones share a number.
+type rheologies struct {
+	ids  map[lethality.Rheology]uint32
+	list []lethality.Rheology
 }

@@ -31,8 +31,10 @@ type Engine struct {
 
 	temps    *tempCache
 	speeds   speedCache
+	rheos    rheologies
 	lastTemp *tempEntry // the cache entry of the last sample's temperature
 
+	trace  *trace // nil unless Options.Trace
 	sum    Summary
 	events []Event
 	open   *openEvent
@@ -45,8 +47,19 @@ type Engine struct {
 // openEvent is an event still growing.
 type openEvent struct {
 	Event
-	gap, temp, flow, allMet bool
+	class              eventClass
+	temp, flow, allMet bool
 }
+
+// eventClass is what the samples of one event have in common: consecutive
+// samples of another class start a new event.
+type eventClass int
+
+const (
+	classLimit     eventClass = iota + 1 // forward below the setpoint or above the maximum flow
+	classGap                             // the held interval of the sample before a recording gap
+	classLethality                       // within both limits, but the parcel failed a row or a required log reduction
+)
 
 // A reading equal to a limit is not past it; these tolerances keep a value
 // written in other units (161.6 °F for 72 °C, gpm for L/h) on the same
@@ -70,8 +83,12 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		panic(fmt.Sprintf("%sNewEngine: gap threshold %g s", panicPrefix, opt.GapThreshold))
 	}
 	no := len(m.Organisms)
-	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no)}
+	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no),
+		rheos: rheologies{ids: map[lethality.Rheology]uint32{}}}
 	e.tr.length = m.Tube.Length
+	if opt.Trace != 0 {
+		e.trace = newTrace(opt.Trace)
+	}
 	e.required = make([]float64, no)
 	for i, o := range m.Organisms {
 		e.required[i] = o.RequiredLogReduction
@@ -109,6 +126,9 @@ func (e *Engine) Add(s Sample) error {
 	if idx > 0 && s.Time < e.prevTime {
 		e.err = &SampleError{Index: idx, Field: "time", Value: s.Time, Previous: e.prevTime}
 		return e.err
+	}
+	if e.trace != nil {
+		e.trace.add(s)
 	}
 	if idx > 0 && s.Time > e.prevTime && e.threshold == 0 {
 		e.intervals = append(e.intervals, s.Time-e.prevTime)
@@ -149,45 +169,67 @@ func (e *Engine) settle() {
 // take runs one sample through the analysis: it closes the previous sample's
 // held interval, then finds the parcel leaving now.
 func (e *Engine) take(s Sample) {
-	if e.n == 0 {
-		e.sum.Start = s.Time
-		e.tr.start(s.Time, e.speed(s.Flow, s.Temperature))
-	} else {
+	if e.n > 0 {
 		e.close(e.last, e.n-1, s.Time-e.last.Time)
 		e.tr.advance(e.lastU, s.Time)
 	}
+	e.lastTemp = e.temps.at(s.Temperature, e)
+	u := e.speed(s.Flow, e.lastTemp)
+	if e.n == 0 {
+		e.sum.Start = s.Time
+		e.tr.start(s.Time, u)
+	}
 	e.lastRes = e.tr.residence()
-	e.lastTemp = e.temps.at(s.Temperature, &e.m)
 	for i, d := range e.lastTemp.d {
 		e.lastLR[i] = e.lastRes / d
 	}
-	e.lastU = e.speed(s.Flow, s.Temperature)
+	e.lastU = u
 	e.last = s
 	e.n++
 }
 
-// speed is the fastest particle's speed r·v for flow q (m³/s) at temperature
-// temp (°C), by the same tube model as the design check
+// speed is the fastest particle's speed r·v for flow q (m³/s) in product
+// at the temperature of entry t, by the same tube model as the design check
 // (docs/METHOD.md §7 (holding tube)): v = Q/A, r from the interval's
 // Reynolds number (or the model's override). Zero for no flow.
-func (e *Engine) speed(q, temp float64) float64 {
+func (e *Engine) speed(q float64, t *tempEntry) float64 {
 	if !(q > 0) {
 		return 0
 	}
-	if e.m.RheologyAt == nil {
-		temp = 0 // the rheology does not depend on it
-	}
-	if u, ok := e.speeds.get(q, temp); ok {
+	if u, ok := e.speeds.get(q, t.rh); ok {
 		return u
 	}
 	rh := e.m.Rheology
 	if e.m.RheologyAt != nil {
-		rh = e.m.RheologyAt(temp)
+		rh = e.rheos.list[t.rh]
 	}
 	h := e.m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: e.m.Density}, rh, e.m.FastestToMean)
 	u := h.FastestToMean * h.MeanVelocity
-	e.speeds.put(q, temp, u)
+	e.speeds.put(q, t.rh, u)
 	return u
+}
+
+// rheologyID is the number of the product's rheology at temperature temp
+// (°C) when it depends on temperature: the speeds are cached by flow and
+// this number, so that every temperature with the same rheology (all those
+// beyond the last viscosity point, say) shares them. At most maxRheologies
+// are numbered; beyond, the numbers and every cache keyed by them start
+// afresh, so memory stays bounded.
+func (e *Engine) rheologyID(temp float64) uint32 {
+	rh := e.m.RheologyAt(temp)
+	if id, ok := e.rheos.ids[rh]; ok {
+		return id
+	}
+	if len(e.rheos.list) >= maxRheologies {
+		clear(e.rheos.ids)
+		e.rheos.list = e.rheos.list[:0]
+		e.speeds = speedCache{}
+		e.temps.gen++
+	}
+	id := uint32(len(e.rheos.list))
+	e.rheos.ids[rh] = id
+	e.rheos.list = append(e.rheos.list, rh)
+	return id
 }
 
 // close books sample s (index i) with its held interval d, s.
@@ -242,17 +284,25 @@ func (e *Engine) close(s Sample, i int, d float64) {
 			reqMet = false
 		}
 	}
-	if !gap && !temp && !flow && legal && reqMet {
+	var class eventClass
+	switch {
+	case gap:
+		class = classGap
+	case temp || flow:
+		class = classLimit
+	case !legal || !reqMet:
+		class = classLethality
+	default:
 		e.closeEvent()
 		return
 	}
-	if e.open != nil && e.open.gap != gap {
+	if e.open != nil && e.open.class != class {
 		e.closeEvent()
 	}
 	if e.open == nil {
 		e.open = &openEvent{Event: Event{First: i, Start: s.Time, MinTemperature: math.Inf(1), MaxFlow: math.Inf(-1),
 			MinLogReduction: make([]float64, len(e.lastLR)), MinResidence: math.Inf(1), MinSampleResidence: math.Inf(1),
-			LegalRowMet: !gap, Drop: -1}, gap: gap, allMet: true}
+			LegalRowMet: !gap, Drop: -1}, class: class, allMet: true}
 		for k := range e.open.MinLogReduction {
 			e.open.MinLogReduction[k] = math.Inf(1)
 		}
@@ -322,9 +372,11 @@ func (e *Engine) closeEvent() {
 	}
 	e.open = nil
 	switch {
-	case ev.gap:
+	case ev.class == classGap:
 		ev.Kind, ev.Verdict = KindGap, NoRecord
 		e.sum.Gaps++
+	case ev.class == classLethality:
+		ev.Kind = KindLethality
 	case ev.temp && ev.flow:
 		ev.Kind = KindTemperatureFlow
 	case ev.temp:
@@ -332,9 +384,9 @@ func (e *Engine) closeEvent() {
 	case ev.flow:
 		ev.Kind = KindFlow
 	default:
-		ev.Kind = KindLethality
+		panic(panicPrefix + "an event of no class")
 	}
-	if !ev.gap {
+	if ev.class != classGap {
 		ev.Verdict = ProductAtRisk
 		if ev.allMet {
 			ev.Verdict = LimitsMet
@@ -378,7 +430,11 @@ func (e *Engine) Finish() Result {
 	if e.drops == nil {
 		e.drops = []Drop{}
 	}
-	return Result{Summary: e.sum, Events: e.events, Drops: e.drops}
+	res := Result{Summary: e.sum, Events: e.events, Drops: e.drops}
+	if e.trace != nil {
+		res.Trace = e.trace.buckets()
+	}
+	return res
 }
 
 // finite says whether v is a number other than ±Inf.

@@ -7,9 +7,9 @@ import (
 	"testing"
 	"time"
 
+	gen "pasval/internal/rungen"
 	"pasval/lethality"
 	"pasval/runs"
-	"pasval/runs/internal/gen"
 )
 
 // lh is one litre per hour in m³/s.
@@ -149,11 +149,13 @@ func TestScriptedShift(t *testing.T) {
 	}
 	for j := 0; afterRes(j) < 15; j++ {
 		trailing++
-		longAtRisk += qn
 	}
 	if trailing == 0 {
 		t.Fatal("the long surge should leave under-held product behind it")
 	}
+	// The trailing parcels form their own lethality event; its worst parcel
+	// is the first after the surge, which crossed the whole tube in it.
+	trailingMin := afterRes(0)
 	combinedMin := 7 + (L-7*uc)/un
 
 	two := 2.0
@@ -179,9 +181,12 @@ func TestScriptedShift(t *testing.T) {
 			71.9, qn, steady, lr(listeria, steady, 71.9), lr(map_, steady, 71.9), false, runs.ProductAtRisk, qn, &two},
 		{runs.KindFlow, gen.ShortSurge, gen.ShortSurge + gen.ShortSurgeLength - 1, gen.ShortSurgeLength, gen.ShortSurgeLength * qs,
 			73, qs, shortMin, lr(listeria, shortMin, 73), lr(map_, shortMin, 73), true, runs.LimitsMet, 0, nil},
-		{runs.KindFlow, gen.LongSurge, gen.LongSurge + gen.LongSurgeLength - 1 + float64(trailing), gen.LongSurgeLength + float64(trailing),
-			gen.LongSurgeLength*ql + float64(trailing)*qn,
+		{runs.KindFlow, gen.LongSurge, gen.LongSurge + gen.LongSurgeLength - 1, gen.LongSurgeLength, gen.LongSurgeLength * ql,
 			73, ql, L / ul, lr(listeria, L/ul, 73), lr(map_, L/ul, 73), false, runs.ProductAtRisk, longAtRisk, nil},
+		// Within both limits again, but the parcels leaving just after the
+		// surge went through the tube during it.
+		{runs.KindLethality, gen.LongSurge + gen.LongSurgeLength, gen.LongSurge + gen.LongSurgeLength + float64(trailing) - 1, float64(trailing), float64(trailing) * qn,
+			73, qn, trailingMin, lr(listeria, trailingMin, 73), lr(map_, trailingMin, 73), false, runs.ProductAtRisk, float64(trailing) * qn, nil},
 		{runs.KindGap, gen.Gap, gen.Gap, gen.GapLength, gen.GapLength * qn,
 			73, qn, steady, lr(listeria, steady, 73), lr(map_, steady, 73), false, runs.NoRecord, gen.GapLength * qn, nil},
 		{runs.KindTemperatureFlow, gen.Combined, gen.Combined + gen.CombinedLength - 1, gen.CombinedLength, gen.CombinedLength * qc,
@@ -328,18 +333,33 @@ func TestParcelHistory(t *testing.T) {
 			// t = 12: X = 18, τ₀ = 8 → 4 s (meets the 4 s row);
 			// t = 13: X = 22, τ₀ = 10 + 2/4 → 2.5 s (fails);
 			// t = 14: back to 0.5 m³/s but X = 26, τ₀ = 10 + 6/4 → 2.5 s:
-			// under-held product leaving after the surge, so the event runs
-			// on through it (held 86 s until the next sample at t = 100,
-			// whose parcel has 10 s again).
-			// At risk: samples 13 (2 m³/s × 1 s) and 14 (0.5 × 86) = 45 m³.
+			// under-held product leaving after the surge, within both
+			// limits: a lethality event of its own (below), so the flow
+			// event spans its four samples, 4 s.
+			// At risk in the flow event: sample 13 (2 m³/s × 1 s) = 2 m³.
 			name:    "surge longer than the residence",
 			samples: []runs.Sample{{0, 80, 0.5, true}, {10, 80, 2, true}, {11, 80, 2, true}, {12, 80, 2, true}, {13, 80, 2, true}, {14, 80, 0.5, true}, {100, 80, 0.5, true}},
-			minRes:  2.5, sample: 2.5, duration: 90, atRisk: 45, kind: runs.KindFlow, verdict: runs.ProductAtRisk,
+			minRes:  2.5, sample: 2.5, duration: 4, atRisk: 2, kind: runs.KindFlow, verdict: runs.ProductAtRisk,
 		},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			res := analyse(t, m, runs.Options{GapThreshold: 1000}, c.samples)
+			if c.kind == runs.KindFlow && c.verdict == runs.ProductAtRisk {
+				// The trailing parcel at t = 14 (2.5 s, held 86 s until
+				// t = 100, whose parcel has 10 s again): 0.5 × 86 = 43 m³.
+				if len(res.Events) != 2 {
+					t.Fatalf("%d events, want the flow event and a lethality event", len(res.Events))
+				}
+				l := res.Events[1]
+				if l.Kind != runs.KindLethality || l.Verdict != runs.ProductAtRisk || l.First != 5 || l.Last != 5 {
+					t.Errorf("trailing event %s %s samples %d–%d, want lethality, product at risk, 5–5", l.Kind, l.Verdict, l.First, l.Last)
+				}
+				checkNear(t, "trailing duration", l.Duration, 86, 1e-12)
+				checkNear(t, "trailing at-risk volume", l.AtRiskVolume, 43, 1e-12)
+				checkNear(t, "trailing min residence", l.MinResidence, 2.5, 1e-12)
+				res.Events = res.Events[:1]
+			}
 			if len(res.Events) != 1 {
 				t.Fatalf("%d events, want 1", len(res.Events))
 			}
@@ -494,5 +514,57 @@ func TestClockSeconds(t *testing.T) {
 		if got := runs.ClockTime(runs.UnixSeconds(tm)); !got.Equal(tm) {
 			t.Errorf("%s came back as %s", tm.Format(time.RFC3339Nano), got.Format(time.RFC3339Nano))
 		}
+	}
+}
+
+// TestLaminarBelowTheSeal: a flow under the sealed maximum but below
+// Re 4000 is laminar, so its fastest particle moves at twice the mean
+// velocity and can miss a legal row the seal meets. No limit is crossed;
+// the under-held product is a lethality event (docs/METHOD.md §7.7, worked
+// example, and §13).
+func TestLaminarBelowTheSeal(t *testing.T) {
+	// docs/METHOD.md §7.7 worked example: ρ = 1030 kg/m³, μ = 5 mPa·s,
+	// 2 in sanitary tube (ID 47.498 mm), 20 m, seal 3000 L/h; a 25 s row.
+	const outer, wall = 2 * 0.0254, 0.065 * 0.0254
+	d := outer - 2*wall
+	m := runs.Model{
+		Tube:     lethality.Tube{InnerDiameter: d, Length: 20},
+		Rheology: lethality.Newtonian{Viscosity: 5e-3},
+		Density:  1030,
+		Legal:    []lethality.LegalRow{{Temperature: 72, Time: 25}},
+		Setpoint: 72.5,
+		MaxFlow:  3000 * lh,
+	}
+	area := math.Pi * d * d / 4
+	steady := func(flowLh float64) []runs.Sample {
+		var s []runs.Sample
+		for i := range 100 {
+			s = append(s, runs.Sample{Time: float64(i), Temperature: 73, Flow: flowLh * lh, Forward: true})
+		}
+		return s
+	}
+	// Hand calculation at 2600 L/h: v = Q/A = 0.40760 m/s,
+	// Re = 1030 · 0.40760 · 0.047498 / 0.005 = 3988 < 4000: laminar, the
+	// fastest particle at 2v (Hagen–Poiseuille, common practice):
+	// t = 20 / (2 · 0.40760) = 24.53 s < 25 s.
+	v := 2600 * lh / area
+	if re := 1030 * v * d / 5e-3; !(re < 4000 && re > 3900) {
+		t.Fatalf("Re %.0f at 2600 L/h, want just under 4000", re)
+	}
+	res := analyse(t, m, runs.Options{GapThreshold: 10}, steady(2600))
+	if len(res.Events) != 1 {
+		t.Fatalf("%d events at 2600 L/h, want one lethality event", len(res.Events))
+	}
+	e := res.Events[0]
+	if e.Kind != runs.KindLethality || e.Verdict != runs.ProductAtRisk || e.LegalRowMet {
+		t.Errorf("%s %s legal %v, want lethality, product at risk, not met", e.Kind, e.Verdict, e.LegalRowMet)
+	}
+	checkNear(t, "min residence", e.MinResidence, 20/(2*v), 1e-9)
+	checkNear(t, "duration", e.Duration, 99, 1e-12) // the last sample holds no time
+	checkNear(t, "at-risk volume", e.AtRiskVolume, 99*2600*lh, 1e-9)
+	// At the seal, 3000 L/h: turbulent (Re 4602) and 32.25 s (the worked
+	// example): no event.
+	if res := analyse(t, m, runs.Options{GapThreshold: 10}, steady(3000)); len(res.Events) != 0 {
+		t.Errorf("%d events at the seal, want none", len(res.Events))
 	}
 }

@@ -4,6 +4,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"pasval/lethality"
 )
 
 // bruteResidence is the definition of docs/METHOD.md §13 evaluated directly:
@@ -90,5 +92,49 @@ func TestTrackerWindowBounded(t *testing.T) {
 	// the slice: at most 2 × 4096 + the ~18 live ones.
 	if maxLen > 2*4096+64 {
 		t.Errorf("window grew to %d intervals", maxLen)
+	}
+}
+
+// TestSpeedsKeyedByRheology: with a viscosity for every recorded
+// temperature, more of them than the engine numbers at once, every parcel's
+// residence still equals the definition walked back with speeds computed
+// afresh from package lethality (the caches start over without changing a
+// result).
+func TestSpeedsKeyedByRheology(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	m := Model{
+		Tube:     lethality.Tube{InnerDiameter: 0.0475, Length: 34},
+		Rheology: lethality.Newtonian{Viscosity: 0.72e-3},
+		// A different viscosity for each hundredth of a degree, as a curve
+		// of points would give below its last point.
+		RheologyAt: func(temp float64) lethality.Rheology {
+			return lethality.Newtonian{Viscosity: 0.72e-3 * math.Exp(0.02*(72.5-temp))}
+		},
+		Density: 1031, Legal: []lethality.LegalRow{{Temperature: 72, Time: 15}}, Setpoint: 72.5, MaxFlow: 11000.0 / 3.6e6,
+	}
+	e, err := NewEngine(m, Options{GapThreshold: 10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	const n = 3 * maxRheologies
+	ts, us := make([]float64, n), make([]float64, n)
+	for i := range n {
+		temp := 60 + float64(rng.IntN(2000))/100 // 2000 temperatures, revisited
+		if i > 2*maxRheologies {
+			temp = 40 + float64(i)/100 // then new ones, past the bound
+		}
+		q := (9500 + float64(rng.IntN(1000))) / 3.6e6
+		ts[i] = float64(i)
+		h := m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: m.Density}, m.RheologyAt(temp), 0)
+		us[i] = h.FastestToMean * h.MeanVelocity
+		if err := e.Add(Sample{Time: ts[i], Temperature: temp, Flow: q, Forward: true}); err != nil {
+			t.Fatal(err)
+		}
+		if want := bruteResidence(ts, us, i, m.Tube.Length); math.Abs(e.lastRes-want) > 1e-9*want {
+			t.Fatalf("sample %d: residence %.15g, want %.15g", i, e.lastRes, want)
+		}
+	}
+	if len(e.rheos.list) > maxRheologies || e.temps.gen == 0 {
+		t.Errorf("%d rheologies numbered (bound %d), %d fresh starts (want some)", len(e.rheos.list), maxRheologies, e.temps.gen)
 	}
 }

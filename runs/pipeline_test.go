@@ -11,9 +11,9 @@ import (
 	"strings"
 	"testing"
 
+	gen "pasval/internal/rungen"
 	"pasval/internal/runlog"
 	"pasval/runs"
-	"pasval/runs/internal/gen"
 )
 
 // demoRun is the committed demo shift for the SI demo plant.
@@ -77,6 +77,7 @@ func TestDemoRun(t *testing.T) {
 		{runs.KindTemperature, gen.Upset + 1, runs.ProductAtRisk},
 		{runs.KindFlow, gen.ShortSurge, runs.LimitsMet},
 		{runs.KindFlow, gen.LongSurge, runs.ProductAtRisk},
+		{runs.KindLethality, gen.LongSurge + gen.LongSurgeLength, runs.ProductAtRisk},
 		{runs.KindGap, gen.Gap, runs.NoRecord},
 		{runs.KindTemperatureFlow, gen.Combined, runs.LimitsMet},
 	}

@@ -32,19 +32,24 @@
 // hotter upstream).
 //
 // Results map one-to-one onto the JSON of the run review (always SI there,
-// keys carrying units; the command layer converts):
+// keys carrying units; pasval/internal/assess builds it, converting flows
+// and volumes to the recorded flow's own terms):
 //
 //	summary.rows                        Summary.Rows
 //	summary.start, summary.end          Summary.Start, Summary.End (s; RFC 3339 for clock times)
 //	summary.forward_s, diverted_s       Summary.Forward, Summary.Diverted
 //	summary.forward_volume_L            Summary.ForwardVolume × 1000 (m³ → L)
+//	summary.diverted_volume_L           Summary.DivertedVolume × 1000
 //	summary.min_forward_temperature_C   Summary.MinForwardTemperature (null when NaN)
 //	summary.max_forward_flow_L_h        Summary.MaxForwardFlow × 3.6e6 (m³/s → L/h)
 //	summary.min_forward_log_reduction   Summary.MinForwardLogReduction[0] (the first organism)
 //	summary.min_forward_log_reduction_by_organism
 //	                                    Summary.MinForwardLogReduction[i] keyed by Model.Organisms[i].Name
+//	summary.min_forward_residence_s     Summary.MinForwardResidence
 //	summary.gaps                        Summary.Gaps
 //	summary.bad_rows                    (the reader's count of skipped rows)
+//	summary.median_interval_s           Summary.MedianInterval (the resolution of every time)
+//	summary.gap_threshold_s             Summary.GapThreshold
 //	events[].kind, verdict              Event.Kind, Event.Verdict (their string values)
 //	events[].start, end, duration_s     Event.Start, Event.End, Event.Duration
 //	events[].min_temperature_C          Event.MinTemperature
@@ -52,18 +57,17 @@
 //	events[].volume_L, at_risk_volume_L Event.Volume, Event.AtRiskVolume × 1000
 //	events[].min_log_reduction          Event.MinLogReduction[0]; _by_organism as above
 //	events[].min_residence_s            Event.MinResidence
+//	events[].min_sample_residence_s     Event.MinSampleResidence (the per-sample estimate beside it)
 //	events[].legal_row_met              Event.LegalRowMet
 //	events[].divert_after_s             Event.DivertAfter (null when nil)
+//	drops[]                             Result.Drops (every drop below the setpoint, diverted ones too)
 //
 // Start and end are Unix seconds for clock times (ClockTime turns them into
 // time.Time for RFC 3339), else seconds as the file wrote them. An infinite
 // residence or log reduction (product that has not moved since the run
-// began) and NaN (no forward sample) have no JSON number: null. Beyond the
-// issue's keys: Event.First and Last (sample indices), Event.MinSampleResidence
-// (the per-sample estimate, for showing beside the per-parcel one),
-// Event.Drop, Result.Drops (every drop below the setpoint, diverted ones
-// too) and the Summary's diverted volume, median interval and gap threshold
-// (the sampling limit to state).
+// began) and NaN (no forward sample) have no JSON number: null.
+// Event.First, Event.Last and Event.Drop tie an event to its samples and
+// its drop; they are not in the JSON.
 package runs
 
 import (
@@ -87,7 +91,9 @@ type Model struct {
 	Rheology lethality.Rheology
 	// RheologyAt, when set, gives the rheology at a recorded temperature
 	// (°C), so that each interval's Reynolds number is taken at its own
-	// temperature (a Newtonian viscosity curve, for instance).
+	// temperature (a Newtonian viscosity curve, for instance). Its values
+	// must be comparable (lethality.Newtonian and PowerLaw are): equal ones
+	// share cached speeds.
 	RheologyAt func(temperature float64) lethality.Rheology
 	Density    float64 // kg/m³ at the holding temperature, > 0
 	// FastestToMean overrides u_max/u_mean for every flow when > 0; 0 takes
@@ -136,6 +142,9 @@ type Options struct {
 	// GapThreshold is the longest interval between samples that is not a
 	// recording gap, s; 0 takes GapFactor × the median interval.
 	GapThreshold float64
+	// Trace is the number of buckets of Result.Trace, even; 0 keeps none.
+	// Between Trace/2 and Trace of them cover the run.
+	Trace int
 }
 
 // GapFactor times the median interval is the default gap threshold.
@@ -158,10 +167,12 @@ const (
 	KindFlow            EventKind = "flow"             // forward flow above the sealed maximum
 	KindTemperatureFlow EventKind = "temperature+flow" // both, in the same event
 	// KindLethality is forward flow within both limits whose parcel still
-	// failed a legal row or a required log reduction: product that went
-	// through the tube during a surge and leaves after it, or a tube too
-	// short for the legal row at any flow. Such samples also extend a
-	// temperature or flow event they follow, which keeps its kind.
+	// failed a legal row or a required log reduction: product that was in
+	// the tube during a surge and leaves after it, a flow under the seal
+	// but below Re 4000 (where the laminar ratio shortens the time), or a
+	// tube too short for the legal row at any flow. Consecutive such
+	// samples form their own event, always "product at risk", so that the
+	// other kinds keep exactly the bounds of their deviating samples.
 	KindLethality EventKind = "lethality"
 	KindGap       EventKind = "gap" // no record during forward flow
 )
@@ -175,11 +186,14 @@ const (
 	NoRecord      Verdict = "no record"       // a recording gap: no proof either way
 )
 
-// Event is a run of consecutive deviating samples, or a recording gap. A
-// forward sample deviates when its temperature is below the setpoint, its
-// flow above the maximum, or its parcel failed a legal row or a required log
-// reduction (the last so that product leaving just after a surge, under-held
-// while the tube was emptied faster, is not missed: conservative).
+// Event is a run of consecutive deviating samples, a recording gap, or a
+// run of consecutive forward samples within both limits whose parcels
+// failed a legal row or a required log reduction (KindLethality). A forward
+// sample deviates when its temperature is below the setpoint or its flow
+// above the maximum; a change from one of these three classes to another
+// starts a new event, so a deviation event spans exactly its deviating
+// samples and the under-held product leaving after a surge is its own
+// lethality event (conservative: it is not missed).
 type Event struct {
 	Kind        EventKind
 	First, Last int     // indices of its first and last samples in the run
@@ -251,6 +265,9 @@ type Result struct {
 	Summary Summary
 	Events  []Event
 	Drops   []Drop
+	// Trace is the run summarised for drawing (Options.Trace buckets at
+	// most, those holding samples, in time order); nil unless asked for.
+	Trace []TraceBucket
 }
 
 // SampleError is a sample the engine cannot take: a value that is not a

@@ -15,6 +15,8 @@ import (
 	"crypto/sha256"
 	"flag"
 	"fmt"
+	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -81,6 +83,8 @@ func goldenCases() []goldenCase {
 		goldenCase{"bad-folder", []string{"hold", "testdata/demo"}},
 		goldenCase{"schema", []string{"schema"}},
 		goldenCase{"bad-units-flag", []string{"check", "--units", "metric", "testdata/demo/cider-us.yaml"}},
+		goldenCase{"htst-milk-si.logs-us", []string{"logs", "--units", "us", "testdata/demo/htst-milk-si.yaml", "testdata/demo/runs/htst-milk-si-shift.csv"}},
+		goldenCase{"bad-run-time-backwards", []string{"logs", "testdata/demo/htst-milk-si.yaml", "testdata/bad-runs/time-backwards.csv"}},
 	)
 	// The SI demo's regenerator has a plate pack: plates added as channels
 	// per pass or as whole passes, and --layout where it does not apply.
@@ -240,6 +244,31 @@ func TestGoldenRecords(t *testing.T) {
 			compareGolden(t, filepath.Join(goldenDir, "record-"+name+".txt"), []byte(text))
 		})
 	}
+	// The run review of the demo shift: its document and the PDF's hash.
+	t.Run("run-review", func(t *testing.T) {
+		plant, shift := "testdata/demo/htst-milk-si.yaml", "testdata/demo/runs/htst-milk-si-shift.csv"
+		p, err := plantfile.Load(plant)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rev, err := reviewRunsTraced(p, []string{shift}, runFlags{quiet: true}, io.Discard, record.TraceBuckets)
+		if err != nil {
+			t.Fatal(err)
+		}
+		doc := record.BuildRunReview(rev, record.RunOptions{Date: recordDay, PlantName: filepath.Base(plant), Reading: runFlags{}.reading()})
+		text := dumpDocument(doc)
+		rec := filepath.Join(t.TempDir(), "r.pdf")
+		var out, errb bytes.Buffer
+		if code := run([]string{"report", plant, "--log", shift, "-o", rec, "--date", recordDay.Format("2006-01-02")}, &out, &errb); code > 1 {
+			t.Fatalf("report: exit %d %s", code, errb.String())
+		}
+		pdf, err := os.ReadFile(rec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		text += fmt.Sprintf("-- pdf --\nsha256 %x\n", sha256.Sum256(pdf))
+		compareGolden(t, filepath.Join(goldenDir, "record-run-review.txt"), []byte(text))
+	})
 }
 
 // dumpDocument writes a record's content as text, block by block.
@@ -305,6 +334,20 @@ func dumpBlock(b *strings.Builder, blk report.Block) {
 		}
 	case report.SignOff:
 		fmt.Fprintf(b, "sign-off %s\n", strings.Join(v.Roles, ", "))
+	case report.Trend:
+		fmt.Fprintf(b, "trend %q y %q limit %.6g %q, %.6f to %.6f s, states %q\n", v.Caption, v.YLabel, v.Limit, v.LimitLabel, v.Start, v.End, v.StateLabels)
+		for _, tk := range v.Ticks {
+			fmt.Fprintf(b, "  tick %.6f %s\n", tk.At, tk.Label)
+		}
+		for _, bd := range v.Bands {
+			fmt.Fprintf(b, "  band %.6f to %.6f shade %d %s\n", bd.Start, bd.End, bd.Shade, bd.Name)
+		}
+		lo, hi, first, second := math.Inf(1), math.Inf(-1), 0, 0
+		for _, k := range v.Buckets {
+			lo, hi = math.Min(lo, k.Min), math.Max(hi, k.Max)
+			first, second = first+k.First, second+k.Second
+		}
+		fmt.Fprintf(b, "  %d buckets from %.6g to %.6g, %d + %d samples\n", len(v.Buckets), lo, hi, first, second)
 	default:
 		panic(fmt.Sprintf("golden: no dump for block %T", blk))
 	}

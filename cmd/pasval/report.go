@@ -26,6 +26,10 @@ type reportOptions struct {
 	// signKey and signCert are PEM files: the record is signed with a
 	// standard PDF signature when both are given.
 	signKey, signCert string
+	// logs are recorded runs (files or folders): the record is then a
+	// run review of them (reviewrecord.go).
+	logs []string
+	runFlags
 }
 
 func newReportCmd(stdout io.Writer) *cobra.Command {
@@ -49,19 +53,37 @@ signature (PKCS#7, SHA-256), appended after the record so that 'pasval
 verify' still compares the record with its re-render and checks the
 signature too.`,
 		Example: `  pasval report testdata/demo/htst-milk-si.yaml -o line2-record.pdf
-  pasval report line2.yaml -o line2.pdf --date 2026-12-01 --force`,
+  pasval report line2.yaml -o line2.pdf --date 2026-12-01 --force
+  pasval report line2.yaml --log shift-2026-03-14.csv -o review-2026-03-14.pdf`,
 		Args: argsFile,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.file = args[0]
+			if err := refuseRunFlags(cmd, opts.logs); err != nil {
+				return err
+			}
+			if len(opts.logs) > 0 {
+				return runReviewRecord(opts, stdout, cmd.ErrOrStderr())
+			}
 			return runReport(opts, stdout)
 		},
 	}
+	cmd.Long += `
+
+With --log RUN.csv (repeated, or a folder) the record is a run review
+instead: the recorded runs judged against the plant file as 'pasval logs'
+judges them, with temperature and flow against time, the events and their
+verdicts, the diversion response, each run file's SHA-256, the cautions and
+sign-off lines; the plant file is attached and the runs' hashes and reading
+options are kept in the metadata, so 'pasval verify REVIEW.pdf --log
+RUN.csv' re-renders it. Exit status 1 then means some event was found.`
 	cmd.Long += "\n" + exitStatusHelp
 	cmd.Flags().StringVarP(&opts.output, "output", "o", "", "the record to write (required)")
 	cmd.Flags().StringVar(&opts.date, "date", "", "record date YYYY-MM-DD (default: today); fixes the PDF bytes")
 	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the record if it exists")
 	cmd.Flags().StringVar(&opts.signKey, "sign", "", "sign the record with this private key (PEM: PKCS#8, PKCS#1 RSA or EC)")
 	cmd.Flags().StringVar(&opts.signCert, "cert", "", "the signer's certificate (PEM; its chain may follow), with --sign")
+	cmd.Flags().StringArrayVar(&opts.logs, "log", nil, "a recorded run (file or folder; repeat for several): write a run-review record of them")
+	opts.runFlags.register(cmd)
 	return cmd
 }
 
@@ -164,14 +186,9 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if err != nil {
 		return err
 	}
-	signed := ""
-	if sg != nil {
-		name := sg.chain[0].Subject.CommonName
-		if pdf, err = report.Sign(pdf, sg.key, sg.chain, report.SignInfo{Name: name, Reason: "pasval validation record",
-			Time: time.Now().UTC()}); err != nil {
-			return err
-		}
-		signed = ", signed by " + name
+	pdf, signed, err := signRecord(pdf, sg, "pasval validation record")
+	if err != nil {
+		return err
 	}
 	if err := fileout.Write(path, pdf, force); err != nil {
 		return usagef("%v", err)
@@ -186,6 +203,20 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	}
 	fmt.Fprintf(out, "wrote %s: %d pages, %s, plant file sha256 %s%s%s\n", path, pages, verdict, res.InputSHA256, line, signed)
 	return nil
+}
+
+// signRecord signs a rendered record with sg (none: unchanged) and says by
+// whom, for the "wrote" line.
+func signRecord(pdf []byte, sg *recordSigner, reason string) ([]byte, string, error) {
+	if sg == nil {
+		return pdf, "", nil
+	}
+	name := sg.chain[0].Subject.CommonName
+	pdf, err := report.Sign(pdf, sg.key, sg.chain, report.SignInfo{Name: name, Reason: reason, Time: time.Now().UTC()})
+	if err != nil {
+		return nil, "", err
+	}
+	return pdf, ", signed by " + name, nil
 }
 
 // sameFile reports whether two paths name one existing file; a path that

@@ -65,7 +65,7 @@ authority and the local regulator.`,
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
 	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout),
-		newMarginsCmd(stdout), newMatrixCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
+		newMarginsCmd(stdout), newMatrixCmd(stdout), newLogsCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
 	root.SetHelpCommand(newHelpCmd())
 	refuseUnknownShells(root)
 	for _, c := range root.Commands() {
@@ -76,6 +76,8 @@ authority and the local regulator.`,
 			c.ValidArgsFunction = completePlantFiles
 		case "verify":
 			c.ValidArgsFunction = completeRecord
+		case "logs":
+			c.ValidArgsFunction = completeRunFiles
 		case "init", "schema":
 			c.ValidArgsFunction = cobra.NoFileCompletions
 		}
@@ -214,6 +216,15 @@ func completePlantFile(cmd *cobra.Command, args []string, toComplete string) ([]
 		return nil, cobra.ShellCompDirectiveNoFileComp
 	}
 	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+}
+
+// completeRunFiles offers a plant file first, then recorded runs (files or
+// folders).
+func completeRunFiles(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
+	if len(args) == 0 {
+		return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+	}
+	return nil, cobra.ShellCompDirectiveDefault
 }
 
 // completePlantFiles offers *.yaml and *.yml files for every argument (matrix).

@@ -30,7 +30,7 @@ func TestScripts(t *testing.T) {
 		UpdateScripts: *update,
 		Setup: func(env *testscript.Env) error {
 			// The demos and the bad-input corpus, where the README's commands expect them.
-			for _, d := range []string{"demo", "bad", "equivalence", "judging"} {
+			for _, d := range []string{"demo", "bad", "bad-runs", "equivalence", "judging"} {
 				if err := os.CopyFS(filepath.Join(env.WorkDir, "testdata", d), os.DirFS(filepath.Join(root, "testdata", d))); err != nil {
 					return err
 				}

@@ -23,8 +23,9 @@ import (
 var errMismatch = fmt.Errorf("the record does not match: %w", errChecksFailed)
 
 func newVerifyCmd(stdout io.Writer) *cobra.Command {
+	var logs []string
 	cmd := &cobra.Command{
-		Use:   "verify RECORD.pdf [PLANT.yaml [LINE.yaml]]",
+		Use:   "verify RECORD.pdf [PLANT.yaml [LINE.yaml]] [--log RUN.csv …]",
 		Short: "Check that a record is exactly what its plant file gives",
 		Long: `verify reads a record written by 'pasval report'. It checks that the plant
 file attached to the record matches the SHA-256 in the record's metadata (and,
@@ -48,7 +49,8 @@ file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20)
 		Example: `  pasval verify line2-record.pdf
   pasval verify line2-record.pdf line2.yaml
   pasval verify milk-record.pdf whole-milk.yaml line.yaml
-  pasval verify line3-matrix.pdf line.yaml whole-milk.yaml cream.yaml`,
+  pasval verify line3-matrix.pdf line.yaml whole-milk.yaml cream.yaml
+  pasval verify review-2026-03-14.pdf --log shift-2026-03-14.csv`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) < 1 {
 				return usagef("verify needs a record and optionally the files it was made from, got %d arguments", len(args))
@@ -56,9 +58,17 @@ file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20)
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runVerify(args[0], args[1:], stdout)
+			return runVerify(args[0], args[1:], logs, stdout, cmd.ErrOrStderr())
 		},
 	}
+	cmd.Flags().StringArrayVar(&logs, "log", nil, "a recorded run of a run-review record (file or folder; repeat for several), to re-render it")
+	cmd.Long += `
+
+A run-review record (report --log) carries its plant file but not its
+recorded runs: verify re-reads the runs given with --log (matched by their
+SHA-256, read with the options the record stores) and re-renders the
+record; without them it checks the plant file and says that the pages
+could not be byte-checked.`
 	cmd.Long += `
 
 Exit status:
@@ -75,7 +85,7 @@ func sha256Hex(b []byte) string {
 	return hex.EncodeToString(s[:])
 }
 
-func runVerify(recordPath string, inputPaths []string, out io.Writer) error {
+func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer) error {
 	pdf, err := readRegular(recordPath, "record", report.ReadRecord)
 	if err != nil {
 		return err
@@ -117,7 +127,19 @@ func runVerify(recordPath string, inputPaths []string, out io.Writer) error {
 			ok = ok && fileSum == recorded
 		}
 	}
-	ok = verifyContent(st, pdf, out) && ok
+	switch st.Kind {
+	case report.KindRunReview:
+		okRuns, err := verifyRunReview(st, pdf, logs, out, diag)
+		if err != nil {
+			return err
+		}
+		ok = okRuns && ok
+	default:
+		if len(logs) > 0 {
+			return usagef("%s is not a run-review record: --log does not apply", recordPath)
+		}
+		ok = verifyContent(st, pdf, out) && ok
+	}
 	if !ok {
 		fmt.Fprintln(out, "MISMATCH: the record is not what its plant file gives; do not rely on it")
 		return errMismatch
@@ -188,26 +210,33 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 			made, version.Version)
 		return ok
 	}
-	if bytes.Equal(pdf, rep.PDF) {
-		fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from its plant file (pasval %s, %s)\n",
-			st.Version, st.Date.Format("2006-01-02"))
-		return ok
+	return comparePages(st, pdf, rep.PDF, signed, "its plant file", out) && ok
+}
+
+// comparePages compares a record with its re-render (from what: "its plant
+// file"): identical bytes, or, for a signed record, the re-render followed
+// by the signatures; else it names the first page that differs.
+func comparePages(st *report.Stored, pdf, again []byte, signed bool, from string, out io.Writer) bool {
+	if bytes.Equal(pdf, again) {
+		fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from %s (pasval %s, %s)\n",
+			from, st.Version, st.Date.Format("2006-01-02"))
+		return true
 	}
-	if signed && bytes.HasPrefix(pdf, rep.PDF) {
+	if signed && bytes.HasPrefix(pdf, again) {
 		// A signature is appended after the record: the record itself must
 		// be the re-render, byte for byte, and the signing must change no page.
-		if page, err := report.FirstDifferentPage(pdf, rep.PDF); err == nil && page == 0 {
-			fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from its plant file (pasval %s, %s), "+
-				"followed by its signatures\n", st.Version, st.Date.Format("2006-01-02"))
-			return ok
+		if page, err := report.FirstDifferentPage(pdf, again); err == nil && page == 0 {
+			fmt.Fprintf(out, "pages                       identical, byte for byte, to the record re-rendered from %s (pasval %s, %s), "+
+				"followed by its signatures\n", from, st.Version, st.Date.Format("2006-01-02"))
+			return true
 		}
 	}
-	page, err := report.FirstDifferentPage(pdf, rep.PDF)
+	page, err := report.FirstDifferentPage(pdf, again)
 	switch {
 	case err != nil:
 		fmt.Fprintf(out, "pages                       DIFFER from the re-rendered record; the pages cannot be compared one by one (%v)\n", err)
 	case page > 0:
-		fmt.Fprintf(out, "pages                       DIFFER from the record re-rendered from its plant file: page %d differs first\n", page)
+		fmt.Fprintf(out, "pages                       DIFFER from the record re-rendered from %s: page %d differs first\n", from, page)
 	default:
 		fmt.Fprintln(out, "pages                       every page's content matches the re-rendered record, but the file DIFFERS elsewhere "+
 			"(metadata, attachment or structure: edited, or re-saved by another program)")

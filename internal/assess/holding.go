@@ -123,23 +123,28 @@ func holdDensity(p *plantfile.Plant, pp ProductProps) float64 {
 // means a typo in the heat-loss inputs.
 const MaxTubeHeatLoss = 10.0
 
-// runHolding computes the holding tube and lethality into res (gather,
-// evaluate, then the JSON contract); it returns the product temperature the
-// heating section must deliver at the normal rate.
-func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
-	h := p.HoldingTube
-	in := GatherHolding(p, res.Product)
-	ev, err := EvaluateHolding(in)
+// holdingInputError points an error of EvaluateHolding at the plant-file
+// field it comes from.
+func holdingInputError(p *plantfile.Plant, err error) error {
 	var loss *HeatLossError
-	switch {
-	case errors.As(err, &loss):
+	if errors.As(err, &loss) {
 		msg := err.Error()
 		if p.System == units.US {
 			msg = inUSUnits(msg)
 		}
-		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%s", msg)}
-	case err != nil:
-		return 0, inputerr.List{inputerr.At(p.Product.Pos, "product.viscosity", "%v", err)}
+		return inputerr.List{inputerr.At(p.HoldingTube.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%s", msg)}
+	}
+	return inputerr.List{inputerr.At(p.Product.Pos, "product.viscosity", "%v", err)}
+}
+
+// runHolding computes the holding tube and lethality into res (gather,
+// evaluate, then the JSON contract); it returns the product temperature the
+// heating section must deliver at the normal rate.
+func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
+	in := GatherHolding(p, res.Product)
+	ev, err := EvaluateHolding(in)
+	if err != nil {
+		return 0, holdingInputError(p, err)
 	}
 	tube, hyd, worst := ev.Tube, ev.Hyd, ev.Worst
 	out := &HoldingTube{InnerDiameterM: tube.InnerDiameter, OuterDiameterM: tube.OuterDiameter, LengthM: tube.Length,

@@ -104,6 +104,10 @@ type OptionError struct {
 
 func (e *OptionError) Error() string { return e.Msg }
 
+// Validate checks the options alone, before any file is read: an
+// *OptionError, or nil. Open and NewReader check them too.
+func (o Options) Validate() error { return o.check() }
+
 // check validates the options before any file is read.
 func (o *Options) check() error {
 	switch o.Separator {

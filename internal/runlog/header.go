@@ -16,7 +16,7 @@ func (r *Reader) readHeader() error {
 		if len(r.err) > 0 {
 			return r.err
 		}
-		return r.listAt(inputerr.Pos{File: r.name, Line: r.line + 1}, "", "expected a header row naming the columns (%s), found the end of the file: the file is empty", standardNames())
+		return r.listAt(inputerr.Pos{File: r.name, Line: r.line + 1, Column: 1}, "", "expected a header row naming the columns (%s), found the end of the file: the file is empty", standardNames())
 	}
 	r.header = r.line
 	line = bytes.TrimPrefix(line, []byte("\xef\xbb\xbf"))
@@ -24,13 +24,13 @@ func (r *Reader) readHeader() error {
 	if sp.sep == 0 {
 		sep, ok := detectSeparator(line)
 		if !ok {
-			return r.listAt(inputerr.Pos{File: r.name, Line: r.line}, "", "cannot tell the separator from the header %q: expected columns (%s) separated by ',', ';' or tabs; give the separator if the header uses several", clip(line), standardNames())
+			return r.listAt(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, "", "cannot tell the separator from the header %q: expected columns (%s) separated by ',', ';' or tabs; give the separator if the header uses several", clip(line), standardNames())
 		}
 		sp.sep = sep
 	}
 	r.cfg.sep = sp.sep
 	if sp.sep == ',' && r.opt.DecimalComma {
-		return r.listAt(inputerr.Pos{File: r.name, Line: r.line}, "", "the header is separated by ',', which cannot go with decimal commas: export with ';' or tabs between columns, or without the decimal-comma option")
+		return r.listAt(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, "", "the header is separated by ',', which cannot go with decimal commas: export with ';' or tabs between columns, or without the decimal-comma option")
 	}
 	if serr := sp.split(line, true); serr != nil {
 		return r.listAt(r.cfg.pos(r.line, serr.at), "", "in the header: %s", serr.msg)
@@ -61,7 +61,7 @@ func (r *Reader) readHeader() error {
 			}
 		}
 		if r.found[c].Index < 0 && col.Required {
-			errs = append(errs, inputerr.At(inputerr.Pos{File: r.name, Line: r.line}, col.Key,
+			errs = append(errs, inputerr.At(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, col.Key,
 				"the header has no column %q (it has %s); name the file's column for it with the columns option", want, quoteList(names)))
 		}
 	}

@@ -394,6 +394,6 @@ func (r *Reader) finish() {
 		if r.bad > 0 {
 			msg = fmt.Sprintf("no readable data rows: all %d were malformed", r.bad)
 		}
-		r.err = append(append(inputerr.List(nil), r.listed...), inputerr.At(inputerr.Pos{File: r.cfg.name, Line: r.header + 1}, "", "%s", msg))
+		r.err = append(append(inputerr.List(nil), r.listed...), inputerr.At(inputerr.Pos{File: r.cfg.name, Line: r.header + 1, Column: 1}, "", "%s", msg))
 	}
 }

@@ -298,18 +298,24 @@ func (p *parser) numberError(n *numField, b []byte, lineNo int) *inputerr.Error 
 // another separator when the row seems to use it.
 func (p *parser) fieldCountError(line []byte, lineNo int) *inputerr.Error {
 	c := p.cfg
-	pos := inputerr.Pos{File: c.name, Line: lineNo}
 	got := p.sp.n
 	for _, other := range []byte{',', ';', '\t'} {
 		if other == c.sep {
 			continue
 		}
 		if bytes.Count(line, []byte{other})+1 == c.nfields {
-			return inputerr.At(pos, "", "%s where the header has %d: this row seems separated by %s, the header by %s (mixed separators)",
+			// At the first of the other separators.
+			return inputerr.At(c.pos(lineNo, bytes.IndexByte(line, other)), "", "%s where the header has %d: this row seems separated by %s, the header by %s (mixed separators)",
 				fieldCount(got), c.nfields, sepName(other), sepName(c.sep))
 		}
 	}
-	return inputerr.At(pos, "", "%s where the header has %d (separated by %s)", fieldCount(got), c.nfields, sepName(c.sep))
+	// At the first field too many, or at the end of the line where the
+	// next field was expected.
+	at := len(line)
+	if got > c.nfields {
+		at = p.sp.start(c.nfields)
+	}
+	return inputerr.At(c.pos(lineNo, at), "", "%s where the header has %d (separated by %s)", fieldCount(got), c.nfields, sepName(c.sep))
 }
 
 func fieldCount(n int) string {

@@ -234,17 +234,17 @@ func TestBadFiles(t *testing.T) {
 		field     string
 		msg       string
 	}{
-		{"empty", "", Options{}, 1, 0, "", "the file is empty"},
-		{"blank lines only", "\n\n", Options{}, 3, 0, "", "the file is empty"},
-		{"header only", hdr, Options{}, 2, 0, "", "no data rows"},
+		{"empty", "", Options{}, 1, 1, "", "the file is empty"},
+		{"blank lines only", "\n\n", Options{}, 3, 1, "", "the file is empty"},
+		{"header only", hdr, Options{}, 2, 1, "", "no data rows"},
 		{"unknown unit", "time,hold_outlet_temperature [°X],flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "not a unit of temperature"},
 		{"flow unit of the wrong kind", "time,hold_outlet_temperature [°C],flow_rate [kPa],forward\n" + row, Options{}, 1, 36, KeyFlow, "not a unit of volumetric flow or mass flow"},
 		{"no unit", "time,hold_outlet_temperature,flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "no unit"},
 		{"unit conflict", hdr + row, Options{TemperatureUnit: "°F"}, 1, 6, KeyTemperature, "the header says [°C] but the unit option says"},
-		{"missing column", "time,hold_outlet_temperature [°C],flow_rate [L/h]\n2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 1, 0, KeyForward, `no column "forward"`},
+		{"missing column", "time,hold_outlet_temperature [°C],flow_rate [L/h]\n2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 1, 1, KeyForward, `no column "forward"`},
 		{"two columns for one key", "time,hold_outlet_temperature [°C],flow_rate [L/h],forward,Forward\n", Options{}, 1, 60, KeyForward, "a second column"},
-		{"decimal comma with a ',' header", hdr + row, Options{DecimalComma: true}, 1, 0, "", "cannot go with decimal commas"},
-		{"separator unknown", "time hold_outlet_temperature flow_rate forward\n", Options{}, 1, 0, "", "cannot tell the separator"},
+		{"decimal comma with a ',' header", hdr + row, Options{DecimalComma: true}, 1, 1, "", "cannot go with decimal commas"},
+		{"separator unknown", "time hold_outlet_temperature flow_rate forward\n", Options{}, 1, 1, "", "cannot tell the separator"},
 		{"text in a number", hdr + row + "2026-03-14T06:00:01Z,72.8,ten,1\n", Options{}, 3, 27, KeyFlow, `expected a number, found "ten"`},
 		{"decimal comma unannounced", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10000;1\n", Options{}, 2, 22, KeyTemperature, "decimal commas"},
 		{"point with decimal comma", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10.000;1\n", Options{DecimalComma: true}, 2, 27, KeyFlow, "thousands separator"},
@@ -254,8 +254,12 @@ func TestBadFiles(t *testing.T) {
 		{"clock time under a unit", "time [s],hold_outlet_temperature [°C],flow_rate [L/h],forward\n" + row, Options{}, 2, 1, KeyTime, "remove the unit"},
 		{"bad flag", hdr + "2026-03-14T06:00:00Z,72.8,10000,yes\n", Options{}, 2, 33, KeyForward, "expected 1/0, true/false or forward/divert"},
 		{"below absolute zero", "time,hold_outlet_temperature [K],flow_rate [L/h],forward\n2026-03-14T06:00:00Z,-1,10000,1\n", Options{}, 2, 22, KeyTemperature, "below absolute zero"},
-		{"mixed separators", hdr + row + "2026-03-14T06:00:01Z;72.8;10000;1\n", Options{}, 3, 0, "", "mixed separators"},
-		{"missing field", hdr + "2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 2, 0, "", "3 fields where the header has 4"},
+		// At the first ';' (byte 21).
+		{"mixed separators", hdr + row + "2026-03-14T06:00:01Z;72.8;10000;1\n", Options{}, 3, 21, "", "mixed separators"},
+		// Just past the end of the 31-byte line, where the fourth field was expected.
+		{"missing field", hdr + "2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 2, 32, "", "3 fields where the header has 4"},
+		// At the fifth field (byte 35).
+		{"extra field", hdr + "2026-03-14T06:00:00Z,72.8,10000,1,5\n", Options{}, 2, 35, "", "5 fields where the header has 4"},
 		{"quote runs past the line", hdr + "2026-03-14T06:00:00Z,\"72.8,10000,1\n", Options{}, 2, 22, "", "past the end of the line"},
 		{"bare quote", hdr + "2026-03-14T06:00:00Z,72\"8,10000,1\n", Options{}, 2, 24, "", "a quote inside a field"},
 		{"empty number", hdr + "2026-03-14T06:00:00Z,,10000,1\n", Options{}, 2, 22, KeyTemperature, "empty"},

@@ -1,4 +1,4 @@
-// Package gen writes invented recorded runs for the SI demo plant
+// Package rungen writes invented recorded runs for the SI demo plant
 // (testdata/demo/htst-milk-si.yaml: setpoint 72.5 °C, sealed maximum
 // 11 000 L/h, normal rate 10 000 L/h): the demo shift in
 // testdata/demo/runs/ and, for benchmarks, files of any length with the same
@@ -6,10 +6,10 @@
 //
 // The demo file is regenerated with
 //
-//	go test ./runs/internal/gen -run TestDemoFile -update
+//	go test ./internal/rungen -run TestDemoFile -update
 //
 // and the test fails when the committed file and the generator disagree.
-package gen
+package rungen
 
 import (
 	"bufio"

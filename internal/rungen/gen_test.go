@@ -1,4 +1,4 @@
-package gen
+package rungen
 
 import (
 	"bytes"
@@ -11,7 +11,7 @@ import (
 var update = flag.Bool("update", false, "rewrite the demo run in testdata/demo/runs")
 
 // demoPath is the committed demo run.
-var demoPath = filepath.Join("..", "..", "..", "testdata", "demo", "runs", "htst-milk-si-shift.csv")
+var demoPath = filepath.Join("..", "..", "testdata", "demo", "runs", "htst-milk-si-shift.csv")
 
 // TestDemoFile keeps the committed demo run equal to what the generator
 // writes, so the file and the documented scenario cannot drift apart.
