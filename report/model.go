@@ -49,6 +49,9 @@ type Verdict struct {
 type Section struct {
 	Heading string
 	Blocks  []Block
+	// NewPage starts the section on a page of its own (a part of the record
+	// meant to be taken out, such as a draft for another team).
+	NewPage bool
 }
 
 // Block is one element of a section.

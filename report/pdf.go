@@ -201,7 +201,7 @@ func cautionOf(doc *Document) string {
 func (r *renderer) section(s Section) {
 	f := r.f
 	r.secN++
-	if r.secN == 1 || s.Heading == "Inputs" {
+	if r.secN == 1 || s.Heading == "Inputs" || s.NewPage {
 		f.AddPage()
 	} else if f.GetY() > 230 {
 		f.AddPage()

@@ -106,6 +106,15 @@ var badCases = map[string]badCase{
 	"plate-pack-missing-port":          {17, "regeneration.plate.port_diameter", "missing"},
 	"plate-pack-enlargement":           {19, "regeneration.plate.enlargement_factor", "between 1 and 2"},
 	"plate-pack-medium-no-viscosity":   {28, "heating.medium.viscosity", "needs the medium's viscosity"},
+	"acceptance-unknown-kind":          {22, "acceptance[0].test", `found "holding-tme" (did you mean "holding-time"?)`},
+	"acceptance-future-date":           {22, "acceptance[0].date", "2099-05-12 is after the review date 2026-12-01"},
+	"acceptance-missing-value":         {22, "acceptance[0].time", "missing; a holding-time test records fluid, flow and time"},
+	"acceptance-interval-no-unit":      {22, "acceptance[0].interval", `"90" has no unit`},
+	"acceptance-interval-fraction":     {22, "acceptance[0].interval", "whole number of days, weeks, months or years"},
+	"acceptance-interval-hours":        {22, "acceptance[0].interval", `"h" is not a calendar unit`},
+	"acceptance-wrong-key":             {22, "acceptance[0].time", "a cut-out test does not record time"},
+	"acceptance-bad-date":              {22, "acceptance[0].date", "expected an ISO 8601 date YYYY-MM-DD"},
+	"diversion-no-response":            {22, "diversion.response_time", "or enter a valve-response acceptance test"},
 }
 
 const badDir = "../../testdata/bad"

@@ -24,6 +24,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"time"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
@@ -40,9 +41,13 @@ const Caution = "This result supports, and never replaces, the regulatory accept
 
 // Check is one judged quantity; NewCheck makes it (checks.go).
 type Check struct {
-	ID         CheckID `json:"id"`
-	Organism   string  `json:"organism,omitempty"`
-	Section    string  `json:"section,omitempty"` // the section judged, as regen labels it (pressure-drop)
+	ID       CheckID `json:"id"`
+	Organism string  `json:"organism,omitempty"`
+	Section  string  `json:"section,omitempty"` // the section judged, as regen labels it (pressure-drop)
+	Name     string  `json:"name,omitempty"`    // acceptance-other: the test's name
+	// Stale is true for an acceptance test past its interval on the review
+	// date: it fails whatever its values (docs/METHOD.md §15.5).
+	Stale      bool    `json:"stale,omitempty"`
 	Pass       bool    `json:"pass"`
 	Required   float64 `json:"required"`
 	Actual     float64 `json:"actual"`
@@ -89,6 +94,9 @@ type CheckDetail struct {
 	Plates int
 	// log-reduction: the organism's kinetics as entered.
 	DRefS, DTemperatureC, ZK float64
+	// acceptance-*: the result judged; diversion-timing: the timing.
+	Test      *AcceptanceResult
+	Diversion *Diversion
 }
 
 // Section is one heat-exchange section in the JSON contract; every key carries its unit.
@@ -146,20 +154,49 @@ type Result struct {
 	// ArrangementComparison is filled by CompareArrangements (check --compare-arrangements).
 	ArrangementComparison []ArrangementComparison `json:"arrangement_comparison,omitempty"`
 	Lethality             []Lethality             `json:"lethality"`
-	Checks                []Check                 `json:"checks"`
-	Warnings              []Warning               `json:"warnings"`
-	Pass                  bool                    `json:"pass"`
-	Caution               string                  `json:"caution"`
+	// ReviewDate is the date acceptance tests are judged on (YYYY-MM-DD):
+	// absent when the run has none (docs/METHOD.md §15.5).
+	ReviewDate string `json:"review_date,omitempty"`
+	// Acceptance are the entered acceptance-test results, judged; Diversion
+	// the diversion timing (docs/METHOD.md §15).
+	Acceptance []AcceptanceResult `json:"acceptance,omitempty"`
+	Diversion  *Diversion         `json:"diversion,omitempty"`
+	// CriticalLimits is the HACCP plan's critical-limit table from the
+	// validated schedule (docs/METHOD.md §15.6): a draft for the HACCP team.
+	CriticalLimits []CriticalLimit `json:"critical_limits"`
+	Checks         []Check         `json:"checks"`
+	Warnings       []Warning       `json:"warnings"`
+	Pass           bool            `json:"pass"`
+	Caution        string          `json:"caution"`
 
 	Plant *plantfile.Plant `json:"-"`
 }
 
-// Run computes every section and check the plant file describes. Errors are
-// inputerr.List values that point at the section whose numbers cannot
-// work (a temperature cross, an impossible duty).
-func Run(p *plantfile.Plant) (*Result, error) {
+// Options are what a run needs besides the plant file.
+type Options struct {
+	// On is the review date (a civil date, midnight UTC): acceptance tests
+	// dated after it are refused, and a latest result past its interval on
+	// it is stale and fails its check (docs/METHOD.md §15.5). Zero: no
+	// review date; no result is refused or stale.
+	On time.Time
+}
+
+// Run computes every section and check the plant file describes, with no
+// review date (see RunWith). Errors are inputerr.List values that point at
+// the section whose numbers cannot work (a temperature cross, an impossible
+// duty).
+func Run(p *plantfile.Plant) (*Result, error) { return RunWith(p, Options{}) }
+
+// RunWith is Run on the review date opts.On.
+func RunWith(p *plantfile.Plant, opts Options) (*Result, error) {
+	if err := RefuseFutureTests(p, opts.On); err != nil {
+		return nil, err
+	}
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
 		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
+	if !opts.On.IsZero() {
+		res.ReviewDate = FormatDate(opts.On)
+	}
 	res.Product = productProps(p)
 	heatingOutlet := p.Process.HoldSetpoint.SI
 	if p.HoldingTube != nil {
@@ -176,6 +213,8 @@ func Run(p *plantfile.Plant) (*Result, error) {
 	if p.Regeneration != nil && p.Regeneration.Pressure != nil {
 		regeneratorPressure(p, res)
 	}
+	runAcceptance(p, res, opts.On)
+	res.CriticalLimits = criticalLimits(p, res, DueList(res, opts.On))
 	sanityWarnings(p, res)
 	res.Pass = true
 	for _, c := range res.Checks {

@@ -23,6 +23,8 @@ const (
 	KindMapping                             // a mapping of the child fields
 	KindList                                // a list of mappings of the child fields ("path[].key")
 	KindWaterOrMapping                      // the word water, or a mapping of the child fields
+	KindDate                                // an ISO 8601 calendar date, YYYY-MM-DD
+	KindInterval                            // a calendar interval: a whole number of d, week, month or year
 )
 
 // String names the kind as the reference table does.
@@ -50,6 +52,10 @@ func (k ValueKind) String() string {
 		return "list"
 	case KindWaterOrMapping:
 		return "water or mapping"
+	case KindDate:
+		return "date"
+	case KindInterval:
+		return "interval"
 	}
 	panic(fmt.Sprintf("%sno name for value kind %d", panicPrefix, int(k)))
 }
@@ -317,5 +323,6 @@ func table() []Field {
 	add(Field{Path: "holding_tube.credit_heat_loss", Value: KindBoolean, Default: "false",
 		Description: "judge the log reduction with the heat-loss profile (hotter upstream) instead of the tube isothermal at the judged temperature: a process authority's decision", Example: "true"},
 		q("product.freezing_point", units.Temperature, "freezing point, for the warning on product cooled below it (default 0 °C)", "-0.5 °C"))
+	add(acceptanceFields()...)
 	return t
 }

@@ -60,6 +60,12 @@ type Plant struct {
 	Organisms     []Organism
 	LegalMinimums []LegalRow
 	Economics     *Economics
+
+	// Acceptance are the acceptance-test results in file order; Diversion
+	// and HACCP are nil when not given (docs/METHOD.md §15).
+	Acceptance []AcceptanceTest
+	Diversion  *Diversion
+	HACCP      *HACCP
 }
 
 // Economics prices energy and plates for the what-if of added regeneration plates.

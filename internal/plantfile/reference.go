@@ -60,6 +60,10 @@ func valueText(f Field) string {
 		return "list of mappings"
 	case KindWaterOrMapping:
 		return "`" + strings.Join(f.Values, "` or `") + "`, or a mapping"
+	case KindDate:
+		return "date YYYY-MM-DD, e.g. `" + f.Example + "`"
+	case KindInterval:
+		return "interval (d, week, month, year), e.g. `" + f.Example + "`"
 	}
 	panic(fmt.Sprintf("%sno reference text for value kind %d", panicPrefix, int(f.Value)))
 }

@@ -38,6 +38,7 @@ func Validate(p *Plant) error {
 		v.add(inputerr.Pos{File: p.File, Line: 1, Column: 1}, "flow.rate", "missing; the heat-exchange sections need the product rate, e.g. flow: {rate: 10000 L/h}")
 	}
 	v.holding(p)
+	v.acceptance(p)
 	if len(v.errs) == 0 {
 		return nil
 	}

@@ -32,7 +32,7 @@ func Reproduce(st *report.Stored) (*Reproduced, error) {
 	if err := plantfile.Validate(p); err != nil {
 		return nil, err
 	}
-	res, err := assess.Run(p)
+	res, err := assess.RunWith(p, assess.Options{On: st.Date})
 	if err != nil {
 		return nil, err
 	}

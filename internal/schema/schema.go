@@ -27,6 +27,8 @@ var (
 	TemperaturePattern = `^\s*` + number + `\s*(?:°C|degC|℃|°F|degF|℉|K)\s*$`
 	QuantityPattern    = `^\s*` + number + `\s*[^\s0-9.,+-][^\n]*$`
 	NumberPattern      = `^\s*` + number + `\s*%?\s*$`
+	DatePattern        = `^[0-9]{4}-[0-9]{2}-[0-9]{2}$`
+	IntervalPattern    = `^\s*[0-9]+\s*(?:d|days?|weeks?|months?|years?)\s*$`
 )
 
 type obj = map[string]any
@@ -73,6 +75,10 @@ func node(f plantfile.Field, path string) obj {
 		return object(desc, path, f.OneOf)
 	case plantfile.KindList:
 		return obj{"type": "array", "minItems": 1, "description": desc, "items": object(f.Description, path, nil)}
+	case plantfile.KindDate:
+		return obj{"type": "string", "format": "date", "pattern": DatePattern, "description": desc + " (an ISO 8601 date YYYY-MM-DD, e.g. " + f.Example + ")"}
+	case plantfile.KindInterval:
+		return obj{"type": "string", "pattern": IntervalPattern, "description": desc + " (a whole number and d, week, month or year, e.g. " + f.Example + ")"}
 	case plantfile.KindWaterOrMapping:
 		return obj{"description": desc, "oneOf": []any{obj{"enum": words(f.Values)}, object(f.Description, path, nil)}}
 	}
