@@ -81,3 +81,26 @@ func TestEveryCriticalLimitHasWords(t *testing.T) {
 		t.Errorf("entered words: %+v", c)
 	}
 }
+
+func TestEveryTestKindHasACheckAndWords(t *testing.T) {
+	// Every kind of the plant file's table is judged by a registered check and
+	// put into words; a kind added to the table alone fails here.
+	for _, k := range plantfile.TestKinds() {
+		id := checkOf(k.Kind)
+		if assess.DefOf(id).ID != id {
+			t.Errorf("%s: check %s", k.Kind, id)
+		}
+		a := sampleResult()
+		a.Test = k.Kind
+		a.Required, a.Unit = ptr(1), assess.DefOf(id).Unit
+		if si.measuredWords(*a) == "" || si.modelWords(*a) == "" || limitWords(*a, us) == "" {
+			t.Errorf("%s: no words", k.Kind)
+		}
+		c := assess.NewCheck(id, 1, 1)
+		c.Detail.Test = a
+		if CheckNote(c, si) == "" {
+			t.Errorf("%s: no note", id)
+		}
+	}
+	mustPanic(t, func() { checkOf("no-such-kind") })
+}

@@ -392,3 +392,56 @@ func contains(cells []string, want string) bool {
 	}
 	return false
 }
+
+func TestAcceptanceAndCriticalLimitPages(t *testing.T) {
+	// The project's specification (docs/METHOD.md §15): a page of the
+	// acceptance tests, each measured against the model with its verdict and
+	// due date, and the critical-limit table on a page of its own, marked as a
+	// draft for the HACCP team.
+	res, doc := demo(t, "htst-milk-si")
+	var acc, limits *report.Section
+	for i := range doc.Sections {
+		switch doc.Sections[i].Heading {
+		case "Acceptance tests":
+			acc = &doc.Sections[i]
+		case "Critical limits (draft for the HACCP team)":
+			limits = &doc.Sections[i]
+		}
+	}
+	if acc == nil || limits == nil {
+		t.Fatal("the SI demo's record lacks a page")
+	}
+	tables := 0
+	for _, b := range acc.Blocks {
+		if tb, ok := b.(report.Table); ok {
+			tables++
+			if tables == 1 && (len(tb.Rows) != len(res.Acceptance) || !strings.Contains(strings.Join(tb.Rows[1], "|"), "16.24 s as the product")) {
+				t.Errorf("results table %v", tb.Rows)
+			}
+			if tables == 2 && len(tb.Rows) != 7 {
+				t.Errorf("due table has %d rows, want 7 kinds", len(tb.Rows))
+			}
+		}
+	}
+	if tables != 2 {
+		t.Errorf("%d tables on the acceptance page", tables)
+	}
+	if !limits.NewPage {
+		t.Error("the critical limits do not start a page")
+	}
+	first, ok := limits.Blocks[0].(report.Paragraph)
+	if !ok || !first.Emphasis || !strings.HasPrefix(first.Text, "DRAFT for the HACCP team") {
+		t.Errorf("draft marker %+v", limits.Blocks[0])
+	}
+	if tb, ok := limits.Blocks[1].(report.Table); !ok || len(tb.Rows) != len(res.CriticalLimits) || len(tb.Rows) != 5 {
+		t.Errorf("critical-limit table %+v", limits.Blocks[1])
+	}
+	// A plant file without acceptance tests has no acceptance page, but its
+	// critical limits still.
+	_, doc = demo(t, "cider-us")
+	for _, s := range doc.Sections {
+		if s.Heading == "Acceptance tests" {
+			t.Error("the cider demo enters no test")
+		}
+	}
+}
