@@ -179,19 +179,27 @@ func Read(pdf []byte) (st *Stored, err error) {
 				st.RecordedSHA256 = h
 			}
 		case strings.HasPrefix(tok, versionToken):
-			st.Version, _ = url.QueryUnescape(strings.TrimPrefix(tok, versionToken))
+			if v, err := url.QueryUnescape(strings.TrimPrefix(tok, versionToken)); err == nil {
+				st.Version = v // a malformed token leaves it empty: no byte comparison is claimed
+			}
 		case strings.HasPrefix(tok, dateToken):
-			st.Date, _ = time.Parse("2006-01-02", strings.TrimPrefix(tok, dateToken))
+			if d, err := time.Parse("2006-01-02", strings.TrimPrefix(tok, dateToken)); err == nil {
+				st.Date = d // a malformed date leaves the zero date, which no record carries
+			}
 		case strings.HasPrefix(tok, resultToken):
 			st.Pass = strings.TrimPrefix(tok, resultToken) == "pass"
 			st.HasVerdicts = true
 		case strings.HasPrefix(tok, verdictToken):
 			label, word, _ := strings.Cut(strings.TrimPrefix(tok, verdictToken), "=")
-			label, _ = url.QueryUnescape(label)
+			if l, err := url.QueryUnescape(label); err == nil {
+				label = l // else kept as written: it then matches no recomputed check
+			}
 			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass"})
 		case strings.HasPrefix(tok, fileToken):
 			name, _, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
-			name, _ = url.QueryUnescape(name)
+			if n, err := url.QueryUnescape(name); err == nil {
+				name = n // else kept as written: it then names no attachment
+			}
 			order = append(order, name)
 		}
 	}

@@ -82,6 +82,10 @@ func runHold(opts holdOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
+	rows, err := assess.SetpointTable(res, setpointOffsets(d))
+	if err != nil {
+		return err
+	}
 	// A heat-exchange section's warnings (its plate pack) are check's, not hold's.
 	only := *res
 	only.Warnings = []assess.Warning{}
@@ -93,7 +97,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 	}
 	worded := present.ForJSON(&only)
 	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
-		Lethality: res.Lethality, SetpointTable: assess.SetpointTable(res, setpointOffsets(d)), Checks: []assess.Check{}, Warnings: worded.Warnings,
+		Lethality: res.Lethality, SetpointTable: rows, Checks: []assess.Check{}, Warnings: worded.Warnings,
 		Pass: true, Caution: res.Caution}
 	only.Checks = []assess.Check{}
 	for i, c := range res.Checks {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"strconv"
@@ -72,12 +73,13 @@ func parseAdded(add, sweep string) ([]int, error) {
 	if (add == "") == (sweep == "") {
 		return nil, usagef("give exactly one of --add N,N,… and --sweep FROM:TO:STEP")
 	}
+	const most = plantfile.MaxPlates
 	if add != "" {
 		var out []int
 		for _, f := range strings.Split(add, ",") {
 			n, err := strconv.Atoi(strings.TrimSpace(f))
-			if err != nil || n < 1 || n > 10000 {
-				return nil, usagef("--add takes whole numbers of plates from 1 to 10000, not %q", f)
+			if err != nil || n < 1 || n > most {
+				return nil, usagef("--add takes whole numbers of plates from 1 to %d, not %q", most, f)
 			}
 			out = append(out, n)
 		}
@@ -96,12 +98,13 @@ func parseAdded(add, sweep string) ([]int, error) {
 		v[i] = n
 	}
 	from, to, step := v[0], v[1], v[2]
-	if from < 1 || to < from || step < 1 || to > 10000 || (to-from)/step > 200 {
-		return nil, usagef("--sweep %q: need 1 ≤ FROM ≤ TO ≤ 10000, STEP ≥ 1 and at most 200 options", sweep)
+	// Each bounded before any arithmetic, so no sum or count can overflow.
+	if from < 1 || to < from || to > most || step < 1 || step > most || (to-from)/step >= 200 {
+		return nil, usagef("--sweep %q: need 1 ≤ FROM ≤ TO ≤ %d, a STEP from 1 to %d and at most 200 options", sweep, most, most)
 	}
-	var out []int
-	for n := from; n <= to; n += step {
-		out = append(out, n)
+	out := make([]int, 0, (to-from)/step+1)
+	for i := 0; from+i*step <= to; i++ {
+		out = append(out, from+i*step)
 	}
 	return out, nil
 }
@@ -132,6 +135,10 @@ func runPlates(opts platesOptions, out io.Writer) error {
 		return err
 	}
 	w, err := assess.AddPlates(p, added, opts.knee, layout)
+	var tooMany *assess.AddedPlatesError
+	if errors.As(err, &tooMany) {
+		return usagef("%v", err)
+	}
 	if err != nil {
 		return err
 	}

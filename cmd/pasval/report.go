@@ -168,7 +168,7 @@ func loadSigner(keyPath, certPath string) (*recordSigner, error) {
 
 // writeRecord renders (and signs, with sg) and writes the record atomically.
 func writeRecord(res *assess.Result, path string, date time.Time, force bool, out io.Writer, sg *recordSigner) error {
-	if same, _ := sameFile(path, res.Plant.File); same {
+	if sameFile(path, res.Plant.File) {
 		return usagef("the record %s would overwrite the plant file", path)
 	}
 	doc, err := record.Build(res, record.Options{Date: date, PlantName: filepath.Base(res.Plant.File)})
@@ -199,14 +199,10 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	return nil
 }
 
-func sameFile(a, b string) (bool, error) {
-	sa, err := os.Stat(a)
-	if err != nil {
-		return false, err
-	}
-	sb, err := os.Stat(b)
-	if err != nil {
-		return false, err
-	}
-	return os.SameFile(sa, sb), nil
+// sameFile reports whether two paths name one existing file; a path that
+// cannot be examined (a record not yet written) names no file the other does.
+func sameFile(a, b string) bool {
+	sa, errA := os.Stat(a)
+	sb, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(sa, sb)
 }

@@ -12,6 +12,7 @@ import (
 	"golang.org/x/term"
 
 	"pasval/internal/inputerr"
+	"pasval/internal/oneline"
 	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
@@ -64,6 +65,8 @@ authority and the local regulator.`,
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
 	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newDueCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
+	root.SetHelpCommand(newHelpCmd())
+	refuseUnknownShells(root)
 	for _, c := range root.Commands() {
 		switch c.Name() {
 		case "check", "hold", "report", "plates", "due":
@@ -78,12 +81,102 @@ authority and the local regulator.`,
 }
 
 // run executes the command line and maps the outcome to an exit code; it is
-// the one place that prints errors.
+// the one place that prints errors. Everything a command prints goes through
+// one checked writer: output that could not be written (a full disk, a closed
+// standard output) is lost, so the command exits 2 with the write error,
+// whatever it found.
 func run(args []string, stdout, stderr io.Writer) int {
-	root := newRootCmd(stdout, stderr)
+	out := &checkedWriter{w: stdout}
+	if f, ok := stdout.(*os.File); ok && closedOutput(f) {
+		// Nothing would reach the reader: refuse before doing anything.
+		fmt.Fprintf(stderr, "pasval: cannot write the output: %v\n", errOutputClosed)
+		return exitInput
+	}
+	root := newRootCmd(out, stderr)
 	root.SetArgs(args)
 	err := root.Execute()
+	if werr := out.err; werr != nil {
+		if err != nil && !errors.Is(err, werr) && !errors.Is(err, errChecksFailed) {
+			exitCode(err, stderr)
+		}
+		fmt.Fprintf(stderr, "pasval: cannot write the output: %v\n", werr)
+		return exitInput
+	}
 	return exitCode(err, stderr)
+}
+
+// errOutputClosed is a standard output that was closed when pasval started.
+var errOutputClosed = errors.New("standard output is closed (to discard the output, redirect it to /dev/null)")
+
+// checkedWriter keeps the first write error; after it, nothing more is
+// written. run reads the error once, when the command has finished.
+type checkedWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (c *checkedWriter) Write(p []byte) (int, error) {
+	if c.err != nil {
+		return 0, c.err
+	}
+	n, err := c.w.Write(p)
+	if err == nil && n < len(p) {
+		err = io.ErrShortWrite
+	}
+	c.err = err
+	return n, err
+}
+
+// newHelpCmd is 'pasval help [command]'; a topic that is not a command is a
+// usage error (exit 2), not a help text and exit 0.
+func newHelpCmd() *cobra.Command {
+	return &cobra.Command{
+		Use:   "help [command]",
+		Short: "Help about any command",
+		Args:  cobra.ArbitraryArgs,
+		ValidArgsFunction: func(c *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
+			var names []string
+			for _, s := range c.Root().Commands() {
+				if s.IsAvailableCommand() && strings.HasPrefix(s.Name(), toComplete) {
+					names = append(names, s.Name())
+				}
+			}
+			return names, cobra.ShellCompDirectiveNoFileComp
+		},
+		RunE: func(c *cobra.Command, args []string) error {
+			topic, rest, err := c.Root().Find(args)
+			if err != nil || topic == nil || len(rest) > 0 {
+				return usagef("no help topic %q; 'pasval --help' lists the commands", strings.Join(args, " "))
+			}
+			return topic.Help()
+		},
+	}
+}
+
+// refuseUnknownShells makes 'pasval completion SHELL' a usage error (exit 2)
+// for a shell it has no script for, and without a shell; cobra would print
+// the command's help and exit 0.
+func refuseUnknownShells(root *cobra.Command) {
+	root.InitDefaultCompletionCmd()
+	for _, c := range root.Commands() {
+		if c.Name() != "completion" {
+			continue
+		}
+		var shells []string
+		for _, s := range c.Commands() {
+			if s.IsAvailableCommand() {
+				shells = append(shells, s.Name())
+			}
+		}
+		list := strings.Join(shells, ", ")
+		c.Args = cobra.ArbitraryArgs
+		c.RunE = func(_ *cobra.Command, args []string) error {
+			if len(args) == 0 {
+				return usagef("completion needs a shell: %s", list)
+			}
+			return usagef("no completion for %q; pasval completes %s", args[0], list)
+		}
+	}
 }
 
 func exitCode(err error, stderr io.Writer) int {
@@ -137,6 +230,9 @@ func useColour(w io.Writer) bool {
 	if os.Getenv("NO_COLOR") != "" || os.Getenv("TERM") == "dumb" {
 		return false
 	}
+	if c, ok := w.(*checkedWriter); ok {
+		w = c.w
+	}
 	f, ok := w.(*os.File)
 	// term.IsTerminal asks the terminal driver (isatty), so /dev/null and
 	// other character devices that are not terminals get no colour codes.
@@ -174,12 +270,19 @@ func (o outputFlags) load(file string) (*plantfile.Plant, present.Display, error
 	return p, present.Display{Sys: sys}, nil
 }
 
-// writeJSON prints v as indented JSON, keeping °, µ and the like readable.
+// writeJSON prints v as indented JSON, keeping °, µ and the like readable;
+// control and bidirectional formatting characters (the schema's free-text
+// pattern holds some) are written as \uXXXX escapes, never raw.
 func writeJSON(out io.Writer, v any) error {
-	enc := json.NewEncoder(out)
+	var b strings.Builder
+	enc := json.NewEncoder(&b)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
-	return enc.Encode(v)
+	if err := enc.Encode(v); err != nil {
+		return err
+	}
+	_, err := io.WriteString(out, oneline.EscapeLines(b.String()))
+	return err
 }
 
 // argsFile requires exactly one plant-file argument.

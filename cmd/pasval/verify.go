@@ -233,11 +233,13 @@ func readRegular(path, what string, read func(io.Reader) ([]byte, error)) ([]byt
 	if err != nil {
 		return nil, usagef("cannot read the %s: %v", what, err)
 	}
-	defer f.Close() // read-only: a close error loses nothing
 	if now, err := f.Stat(); err != nil || !os.SameFile(st, now) {
-		return nil, usagef("%s: the file changed while being opened; try again", path)
+		return nil, errors.Join(usagef("%s: the file changed while being opened; try again", path), f.Close())
 	}
 	data, err := read(f)
+	if cerr := f.Close(); err == nil && cerr != nil {
+		return nil, usagef("cannot read the %s: %v", what, cerr)
+	}
 	if err != nil {
 		if errors.Is(err, report.ErrUnreadable) {
 			return nil, usagef("%s: %v", path, err)

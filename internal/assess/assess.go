@@ -17,7 +17,6 @@
 package assess
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -184,7 +183,8 @@ type Options struct {
 // Run computes every section and check the plant file describes, with no
 // review date (see RunWith). Errors are inputerr.List values that point at
 // the section whose numbers cannot work (a temperature cross, an impossible
-// duty).
+// duty), or at the entered values that make a result not a finite number
+// (finite.go).
 func Run(p *plantfile.Plant) (*Result, error) { return RunWith(p, Options{}) }
 
 // RunWith is Run on the review date opts.On.
@@ -192,12 +192,23 @@ func RunWith(p *plantfile.Plant, opts Options) (*Result, error) {
 	if err := RefuseFutureTests(p, opts.On); err != nil {
 		return nil, err
 	}
+	return finiteOrTraced(p, func(q *plantfile.Plant) (*Result, error) { return runOn(q, opts.On) })
+}
+
+// run is Run without the finiteness check (and without a review date).
+func run(p *plantfile.Plant) (*Result, error) { return runOn(p, time.Time{}) }
+
+// runOn is RunWith without the finiteness check.
+func runOn(p *plantfile.Plant, on time.Time) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
 		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
-	if !opts.On.IsZero() {
-		res.ReviewDate = FormatDate(opts.On)
+	if !on.IsZero() {
+		res.ReviewDate = FormatDate(on)
 	}
 	res.Product = productProps(p)
+	if err := ratesInOrder(p, res.Product); err != nil {
+		return nil, err
+	}
 	heatingOutlet := p.Process.HoldSetpoint.SI
 	if p.HoldingTube != nil {
 		var err error
@@ -213,17 +224,12 @@ func RunWith(p *plantfile.Plant, opts Options) (*Result, error) {
 	if p.Regeneration != nil && p.Regeneration.Pressure != nil {
 		regeneratorPressure(p, res)
 	}
-	runAcceptance(p, res, opts.On)
-	res.CriticalLimits = criticalLimits(p, res, DueList(res, opts.On))
+	runAcceptance(p, res, on)
+	res.CriticalLimits = criticalLimits(p, res, DueList(res, on))
 	sanityWarnings(p, res)
 	res.Pass = true
 	for _, c := range res.Checks {
 		res.Pass = res.Pass && c.Pass
-	}
-	// A safety net: no verdict rests on a number that is not finite.
-	if _, err := json.Marshal(res); err != nil {
-		return nil, inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1},
-			Msg: "the inputs lead to a result that is not a finite number; check the magnitudes and units of the entered values"}}
 	}
 	return res, nil
 }
@@ -260,6 +266,21 @@ func productProps(p *plantfile.Plant) ProductProps {
 	pp.MassFlow, pp.MaxMassFlow = toMass(rate), toMass(maxRate)
 	pp.ProductCapacity = pp.MassFlow * pp.SpecificHeat
 	return pp
+}
+
+// ratesInOrder refuses a normal rate above the sealed maximum, compared as
+// mass flows (a volumetric rate × the product density), so that "20000 kg/h"
+// is compared with "11000 L/h" too.
+func ratesInOrder(p *plantfile.Plant, pp ProductProps) error {
+	r, m := p.Flow.Rate, p.Flow.MaxRate
+	if !r.Set || !m.Set || !(pp.MassFlow > pp.MaxMassFlow*(1+1e-12)) {
+		return nil
+	}
+	msg := fmt.Sprintf("the normal rate %s is above the sealed maximum %s", r.Text, m.Text)
+	if r.ByMass != m.ByMass {
+		msg += fmt.Sprintf(" (%.0f kg/h against %.0f kg/h at %.6g kg/m³)", pp.MassFlow*3600, pp.MaxMassFlow*3600, pp.Density)
+	}
+	return inputerr.List{inputerr.At(r.Pos, "flow.rate", "%s; the timing pump cannot run faster than its seal", msg)}
 }
 
 // choiOkos is the one conversion of the entered composition for the

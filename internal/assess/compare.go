@@ -2,6 +2,7 @@ package assess
 
 import (
 	"errors"
+	"math"
 
 	"pasval/regen"
 )
@@ -32,8 +33,9 @@ func CompareArrangements(res *Result) {
 			if errors.Is(err, regen.ErrInfeasible) {
 				c.Note = "impossible: " + trimInfeasible(err.Error())
 			}
+		} else if ratio := area / raw.RequiredArea; math.IsInf(area, 0) || math.IsNaN(area) || math.IsInf(ratio, 0) || math.IsNaN(ratio) {
+			c.Note = "not comparable: the area in the other arrangement is not a finite number"
 		} else {
-			ratio := area / raw.RequiredArea
 			c.OtherAreaM2, c.AreaRatio = &area, &ratio
 			c.Note = "same duty between the same temperatures"
 		}

@@ -1,6 +1,7 @@
 package assess
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -129,12 +130,16 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	h := p.HoldingTube
 	in := GatherHolding(p, res.Product)
 	ev, err := EvaluateHolding(in)
-	if err != nil {
+	var loss *HeatLossError
+	switch {
+	case errors.As(err, &loss):
 		msg := err.Error()
 		if p.System == units.US {
 			msg = inUSUnits(msg)
 		}
 		return 0, inputerr.List{inputerr.At(h.OuterCoefficient.Pos, "holding_tube.outer_coefficient", "%s", msg)}
+	case err != nil:
+		return 0, inputerr.List{inputerr.At(p.Product.Pos, "product.viscosity", "%v", err)}
 	}
 	tube, hyd, worst := ev.Tube, ev.Hyd, ev.Worst
 	out := &HoldingTube{InnerDiameterM: tube.InnerDiameter, OuterDiameterM: tube.OuterDiameter, LengthM: tube.Length,

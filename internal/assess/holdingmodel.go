@@ -195,7 +195,10 @@ func EvaluateHolding(in HoldingInputs) (HoldingEval, error) {
 	if in.FlowIndex > 0 {
 		ev.Rheology = lethality.PowerLaw{N: in.FlowIndex, K: in.Consistency}
 	} else {
-		curve, _ := props.NewViscosityCurve(in.Viscosity) // validated: points exist, distinct, positive
+		curve, err := props.NewViscosityCurve(in.Viscosity)
+		if err != nil { // validation refuses such points, by the same rule
+			return ev, err
+		}
 		ev.Viscosity, ev.Extrapolated = curve.At(in.Setpoint)
 		ev.ViscosityLow, ev.ViscosityHigh = curve.Range()
 		ev.Rheology = lethality.Newtonian{Viscosity: ev.Viscosity}

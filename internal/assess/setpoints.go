@@ -1,6 +1,9 @@
 package assess
 
-import "pasval/lethality"
+import (
+	"pasval/internal/plantfile"
+	"pasval/lethality"
+)
 
 // SetpointRow is the fastest particle's lethality had the diversion setpoint
 // been offset by OffsetK, the tube and flow unchanged.
@@ -25,8 +28,26 @@ var SetpointOffsetsUS = []float64{-2 * 5.0 / 9, -1 * 5.0 / 9, 0, 1 * 5.0 / 9, 2 
 // judged as the check judges the entered one: at the setpoint less the
 // sensor accuracy, at the worst flow, isothermal unless the heat-loss credit
 // is taken (then the profile moves with the outlet temperature). The
-// hydraulics (viscosity at the entered setpoint) are held.
-func SetpointTable(res *Result, offsets []float64) []SetpointRow {
+// hydraulics (viscosity at the entered setpoint) are held. A row that is not
+// finite (kinetics far from their reference) is refused with the entered
+// values that cause it (finite.go).
+func SetpointTable(res *Result, offsets []float64) ([]SetpointRow, error) {
+	rows := setpointTable(res, offsets)
+	where, bad := nonFinite(rows)
+	if !bad {
+		return rows, nil
+	}
+	return nil, traceNonFinite(res.Plant, "setpoint_table"+where, func(q *plantfile.Plant) bool {
+		r, err := run(q)
+		if err != nil {
+			return false
+		}
+		_, bad := nonFinite(setpointTable(r, offsets))
+		return !bad
+	})
+}
+
+func setpointTable(res *Result, offsets []float64) []SetpointRow {
 	h := res.HoldingTube
 	if h == nil || h.Model == nil {
 		return nil

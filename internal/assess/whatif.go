@@ -3,7 +3,9 @@ package assess
 import (
 	"fmt"
 	"math"
+	"regexp"
 	"sort"
+	"strconv"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
@@ -104,6 +106,20 @@ type RoundedRequest struct {
 	Added     int `json:"added_plates"`
 }
 
+// AddedPlatesError is an option of added plates outside what pasval computes
+// with: at least 1, and the regenerator at most plantfile.MaxPlates in all.
+type AddedPlatesError struct {
+	Installed, Added int
+}
+
+func (e *AddedPlatesError) Error() string {
+	if e.Added < 1 {
+		return fmt.Sprintf("added plates must be at least 1, not %d", e.Added)
+	}
+	return fmt.Sprintf("%d added plates would give the regenerator %d, above the %d plates pasval computes with (add at most %d)",
+		e.Added, e.Installed+e.Added, plantfile.MaxPlates, max(0, plantfile.MaxPlates-e.Installed))
+}
+
 // DefaultKneeFraction: the knee is where a further 10 plates save less than
 // this fraction of what the first 10 saved.
 const DefaultKneeFraction = 0.10
@@ -133,7 +149,38 @@ func regenerationNotRated(p *plantfile.Plant) error {
 //
 // Every option is the whole line recomputed (sized sections re-sized, rated
 // ones re-rated), so its checks say whether the line still holds.
+//
+// Every number of the result is finite, or the entered values that make one
+// infinite are reported (finite.go); the probe re-runs only the option
+// concerned.
 func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64, layout Layout) (*WhatIf, error) {
+	w, err := addPlates(p, added, kneeFraction, layout)
+	if err != nil {
+		return nil, err
+	}
+	where, bad := nonFinite(w)
+	if !bad {
+		return w, nil
+	}
+	var only []int
+	if m := optionPath.FindStringSubmatch(where); m != nil {
+		if i, err := strconv.Atoi(m[1]); err == nil && i < len(w.Options) {
+			only = []int{w.Options[i].AddedPlates}
+		}
+	}
+	return nil, traceNonFinite(p, where, func(q *plantfile.Plant) bool {
+		w, err := addPlates(q, only, kneeFraction, layout)
+		if err != nil {
+			return false
+		}
+		_, bad := nonFinite(w)
+		return !bad
+	})
+}
+
+var optionPath = regexp.MustCompile(`^options\[(\d+)\]`)
+
+func addPlates(p *plantfile.Plant, added []int, kneeFraction float64, layout Layout) (*WhatIf, error) {
 	if p.Regeneration == nil || p.Regeneration.Plates.Plates == 0 {
 		return nil, regenerationNotRated(p)
 	}
@@ -156,8 +203,8 @@ func AddPlates(p *plantfile.Plant, added []int, kneeFraction float64, layout Lay
 		w.LayoutStep = step
 	}
 	for _, a := range added {
-		if a < 1 || a > 10000 {
-			return nil, fmt.Errorf("added plates must be from 1 to 10000, not %d", a)
+		if a < 1 || p.Regeneration.Plates.Plates+a > plantfile.MaxPlates {
+			return nil, &AddedPlatesError{Installed: p.Regeneration.Plates.Plates, Added: a}
 		}
 		steps := max(1, int(math.Round(float64(a)/float64(step))))
 		if steps*step != a {
@@ -215,7 +262,7 @@ func option(p *plantfile.Plant, requested, steps int, layout Layout, base *Plate
 		rg.Plates.Plates += added
 	}
 	q.Regeneration = &rg
-	res, err := Run(&q)
+	res, err := run(&q) // unchecked: AddPlates checks the whole what-if
 	if err != nil {
 		return PlatesOption{}, err
 	}

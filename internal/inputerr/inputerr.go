@@ -15,6 +15,8 @@ package inputerr
 import (
 	"fmt"
 	"strings"
+
+	"pasval/internal/oneline"
 )
 
 // Pos is a place in an input file. Line 0 means "the file as a whole" (it
@@ -47,11 +49,14 @@ func At(pos Pos, field, format string, args ...any) *Error {
 	return &Error{Pos: pos, Field: field, Msg: fmt.Sprintf(format, args...)}
 }
 
+// Error prints the position, field and message on one line; any control,
+// separator or bidirectional formatting character in them (a key, a file name
+// or a value quoted from the input) is written as \uXXXX, never raw.
 func (e *Error) Error() string {
 	if e.Field == "" {
-		return fmt.Sprintf("%s: %s", e.Pos, e.Msg)
+		return oneline.Escape(fmt.Sprintf("%s: %s", e.Pos, e.Msg))
 	}
-	return fmt.Sprintf("%s: %s: %s", e.Pos, e.Field, e.Msg)
+	return oneline.Escape(fmt.Sprintf("%s: %s: %s", e.Pos, e.Field, e.Msg))
 }
 
 // List is every problem found in one input, in file order.

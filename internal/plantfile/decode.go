@@ -10,6 +10,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"pasval/internal/inputerr"
+	"pasval/internal/oneline"
 	"pasval/internal/units"
 )
 
@@ -22,6 +23,9 @@ type decoder struct {
 	// consulted holds the table paths the decoding looked up (tests check
 	// that every field of the table is decoded).
 	consulted map[string]bool
+	// replace holds scalar values to read in place of the file's, by
+	// concrete path (Plant.Replaced).
+	replace map[string]string
 }
 
 const maxErrors = 50
@@ -153,6 +157,9 @@ func (o *object) scalar(key string, expect string) (string, *yaml.Node, bool) {
 		}
 		return "", nil, false
 	}
+	if r, ok := o.d.replace[f]; ok {
+		return r, v, true
+	}
 	if v.Kind != yaml.ScalarNode || v.Tag == "!!null" || strings.TrimSpace(v.Value) == "" {
 		o.d.errorf(v, f, "expected %s, found %s", expect, describe(v))
 		return "", v, false
@@ -160,8 +167,19 @@ func (o *object) scalar(key string, expect string) (string, *yaml.Node, bool) {
 	return v.Value, v, true
 }
 
+// text reads free text: one line of printable characters (internal/oneline),
+// so that no value can add a line or a terminal control to what pasval
+// prints or records.
 func (o *object) text(key string) string {
-	s, _, _ := o.scalar(key, "text")
+	s, n, ok := o.scalar(key, "text")
+	if !ok {
+		return ""
+	}
+	if i, r, bad := oneline.Find(s); bad {
+		o.d.errorf(n, join(o.path, key), "%q holds %s at character %d; free text is one line of printable characters",
+			s, oneline.Describe(r), i)
+		return ""
+	}
 	return strings.TrimSpace(s)
 }
 
@@ -190,7 +208,13 @@ func (d *decoder) parseQuantity(n *yaml.Node, field, s string, k units.Kind) Qua
 		d.errorf(n, field, "%v", err)
 		return Quantity{}
 	}
-	if a := math.Abs(v.SI); k.Name != units.Temperature.Name && a != 0 && (a < minMagnitude || a > maxMagnitude) {
+	if k.Name == units.Temperature.Name {
+		if v.SI > MaxTemperature {
+			d.errorf(n, field, "%q is outside the temperatures pasval computes with (absolute zero to %g °C); check the number and its unit",
+				s, MaxTemperature)
+			return Quantity{}
+		}
+	} else if a := math.Abs(v.SI); a != 0 && (a < minMagnitude || a > maxMagnitude) {
 		d.errorf(n, field, "%q is outside the magnitudes pasval computes with (%g to %g in SI units); check the number and its unit", s, minMagnitude, maxMagnitude)
 		return Quantity{}
 	}
@@ -199,15 +223,20 @@ func (d *decoder) parseQuantity(n *yaml.Node, field, s string, k units.Kind) Qua
 	return q
 }
 
-// Magnitude limits for entered quantities in SI: far outside any plant, they
-// keep absurd entries (a unit typo, 1e300) from overflowing the arithmetic.
+// Magnitude limits for entered quantities in SI and for plain numbers: far
+// outside any plant, they keep absurd entries (a unit typo, 1e300) from
+// overflowing the arithmetic. Temperatures are points, not magnitudes: they
+// run from absolute zero to MaxTemperature.
 const (
 	minMagnitude = 1e-9
 	maxMagnitude = 1e9
+	// MaxTemperature is the hottest temperature read, °C: far above any
+	// pasteurizer, its media or its surroundings.
+	MaxTemperature = 1000.0
 )
 
 func (d *decoder) record(field string, q Quantity, k units.Kind) {
-	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit})
+	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit, Pos: q.Pos})
 }
 
 // flowRate reads a product or medium rate, volumetric or by mass.
@@ -231,15 +260,25 @@ func (o *object) flowRate(key string) FlowRate {
 	return FlowRate{Quantity: q, ByMass: k.Name == units.MassFlow.Name}
 }
 
-// number reads a plain number (a fraction may be written "92 %").
+// number reads a plain number, within the magnitudes pasval computes with. A
+// Fraction field (the table says which) may also be written as a percentage
+// or a ratio of like units; any other number takes no unit.
 func (o *object) number(key string) (float64, inputerr.Pos, bool) {
 	s, n, ok := o.scalar(key, "a number")
 	if !ok {
 		return 0, o.d.pos(n), false
 	}
+	f := o.field(key)
 	v, err := units.Parse(s, units.Dimensionless)
-	if err != nil {
-		o.d.errorf(n, join(o.path, key), "expected a plain number such as 0.92 (or 92 %%), found %q", s)
+	switch {
+	case err != nil && f.Fraction:
+		o.d.errorf(n, join(o.path, key), "expected a number such as %s, or a percentage such as 92 %%, found %q", f.Example, s)
+		return 0, o.d.pos(n), false
+	case err != nil || (!f.Fraction && v.Unit != ""):
+		o.d.errorf(n, join(o.path, key), "expected a plain number such as %s, without a unit (this is not a fraction), found %q", f.Example, s)
+		return 0, o.d.pos(n), false
+	case v.SI != 0 && (math.Abs(v.SI) < minMagnitude || math.Abs(v.SI) > maxMagnitude):
+		o.d.errorf(n, join(o.path, key), "%q is outside the magnitudes pasval computes with (0, or %g to %g); check the number", s, minMagnitude, maxMagnitude)
 		return 0, o.d.pos(n), false
 	}
 	q := Quantity{SI: v.SI, Text: strings.TrimSpace(s), Pos: o.d.pos(n), Set: true}
@@ -259,7 +298,7 @@ func (o *object) integer(key string) (int, inputerr.Pos, bool) {
 		o.d.errorf(n, join(o.path, key), "expected a whole number from %g to %g, found %q", f.Min, f.Max, s)
 		return 0, o.d.pos(n), false
 	}
-	o.d.inputs = append(o.d.inputs, Input{Field: join(o.path, key), Text: s, SI: float64(i), SIUnit: "1"})
+	o.d.inputs = append(o.d.inputs, Input{Field: join(o.path, key), Text: s, SI: float64(i), SIUnit: "1", Pos: o.d.pos(n)})
 	return i, o.d.pos(n), true
 }
 

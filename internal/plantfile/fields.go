@@ -15,7 +15,7 @@ const (
 	KindQuantity       ValueKind = iota + 1 // "number unit" of the field's units.Kind
 	KindFlow                                // a product or medium flow, volumetric or by mass
 	KindConsistency                         // power-law K in Pa·sⁿ, n from the sibling flow_index
-	KindNumber                              // a plain number; a fraction may be written "92 %"
+	KindNumber                              // a plain number; a Fraction field may also be written "92 %" or "2.1 cm/m"
 	KindInteger                             // a whole number from Min to Max
 	KindText                                // free text
 	KindBoolean                             // true or false
@@ -62,6 +62,11 @@ func (k ValueKind) String() string {
 
 const panicPrefix = "plantfile: "
 
+// MaxPlates is the most thermal plates a section may have, the one limit of
+// the reader, of 'pasval plates' (installed plus added) and of the record's
+// what-if page; real plate packs have a few hundred.
+const MaxPlates = 10000
+
 // Field is one key of the plant file. The table of fields (Fields) is the one
 // definition of the file's keys: the reader's allowed keys and did-you-mean
 // hints, the JSON Schema (internal/schema), the README's reference table and
@@ -74,7 +79,13 @@ type Field struct {
 	Unit     units.Kind // Quantity: what it measures
 	Values   []string   // Enum: the words allowed; WaterOrMapping: the word
 	Min, Max float64    // Integer: the range allowed
-	Default  string     // as a user would write it; "" when there is none
+	// Fraction is true for a Number that is a ratio of like quantities (a
+	// mass fraction, the regeneration ratio, a slope): it may be written as a
+	// percentage ("92 %") or a ratio of units ("2.1 cm/m"). Any other Number
+	// is a count or a price and takes no unit ("5 %" is refused for a log
+	// reduction, not read as 0.05).
+	Fraction bool
+	Default  string // as a user would write it; "" when there is none
 	// Required is true when the key must be given whenever its parent is;
 	// rules that span keys (exactly one of ratio and plates) are in Validate
 	// and in OneOf.
@@ -182,12 +193,14 @@ func (f Field) byDefault(d string) Field { f.Default = d; return f }
 
 func (f Field) exactlyOne(keys ...string) Field { f.OneOf = keys; return f }
 
+func (f Field) fraction() Field { f.Fraction = true; return f }
+
 // platePack is the plate-pack keys every heat-exchange section has.
 func platePack(section string) []Field {
 	return []Field{
 		{Path: section + ".arrangement", Value: KindEnum, Values: []string{string(Counterflow), string(Cocurrent)}, Default: "counterflow",
 			Description: "relative direction of the two streams; co-current cannot pass 50 % regeneration", Example: "counterflow"},
-		{Path: section + ".plates", Value: KindInteger, Min: 1, Max: 100000,
+		{Path: section + ".plates", Value: KindInteger, Min: 1, Max: MaxPlates,
 			Description: "installed thermal plates: given, the section is rated (rating mode); with a plate pack, equal to its layout's", Example: "112"},
 		q(section+".plate_area", units.Area, "effective heat-transfer area per plate", "0.35 m2").required(),
 		q(section+".u_value", units.HeatTransferCoefficient, "overall heat-transfer coefficient (optional with a plate pack, which computes it)", "3300 W/(m2*K)"),
@@ -256,7 +269,7 @@ func table() []Field {
 		q("product.conductivity", units.ThermalConductivity, "thermal conductivity, for plate packs (or give composition: Choi–Okos)", "0.6 W/(m*K)"),
 		mapping("product.composition", "mass fractions summing to 1, for Choi–Okos properties instead of density and specific heat"))
 	for _, c := range []string{"water", "protein", "fat", "carbohydrate", "fiber", "ash"} {
-		add(num("product.composition."+c, c+" mass fraction", "0.035").byDefault("0"))
+		add(num("product.composition."+c, c+" mass fraction", "0.035").byDefault("0").fraction())
 	}
 	add(list("product.viscosity", "Newtonian viscosity points; ln μ is linear in T between them, the nearest end held outside (with a warning)"),
 		q("product.viscosity[].at", units.Temperature, "temperature of the measurement", "72 °C").required(),
@@ -276,7 +289,7 @@ func table() []Field {
 			"stated accuracy of the diversion sensor, a difference: the holding time, log reductions and legal row are judged at the setpoint less it", "0.5 °C"),
 		mapping("regeneration", "product-to-product regeneration: ratio (sizing), or plates or a plate pack's passes (rating)"))
 	pack := platePack("regeneration")
-	add(pack[0], num("regeneration.ratio", "regeneration ratio, 0 < ratio < 1: given, the section is sized (sizing mode)", "0.92"))
+	add(pack[0], num("regeneration.ratio", "regeneration ratio, 0 < ratio < 1: given, the section is sized (sizing mode)", "0.92").fraction())
 	add(pack[1:]...)
 	add(mapping("regeneration.pressure", "regenerator pressures, for the regenerator-pressure check"),
 		q("regeneration.pressure.raw_max", units.Pressure, "highest raw-side pressure", "95 kPa").required(),
@@ -298,7 +311,7 @@ func table() []Field {
 		q("holding_tube.outer_diameter", units.Length, "outer diameter, for heat loss (a sanitary size gives it)", "50.8 mm"),
 		q("holding_tube.length", units.Length, "length from the heater outlet to the diversion sensor", "34 m").required(),
 		q("holding_tube.rise", units.Length, "rise of the outlet above the inlet, for the tube-slope check", "0.8 m"),
-		num("holding_tube.min_slope", "minimum slope, rise/length; may be written 2.1 cm/m", "0.021").byDefault("0.25 in/ft"),
+		num("holding_tube.min_slope", "minimum slope, rise/length; may be written 2.1 cm/m", "0.021").byDefault("0.25 in/ft").fraction(),
 		num("holding_tube.fastest_to_mean", "override of the fastest-to-mean velocity ratio, 1 to 3", "2"),
 		q("holding_tube.ambient", units.Temperature, "ambient air around the tube, for heat loss (with outer_coefficient)", "20 °C"),
 		q("holding_tube.outer_coefficient", units.HeatTransferCoefficient, "outer heat-transfer coefficient, for heat loss (with ambient)",

@@ -32,12 +32,14 @@ type Quantity struct {
 	Set    bool // false when the field was absent
 }
 
-// Input is one entered quantity, for the record's inputs table.
+// Input is one entered quantity (or plain number), for the record's inputs
+// table and for tracing a result back to what was entered.
 type Input struct {
 	Field  string // dotted path
 	Text   string // as entered
 	SI     float64
 	SIUnit string
+	Pos    inputerr.Pos
 }
 
 // Plant is a validated plant file.

@@ -9,7 +9,6 @@ import (
 	"io"
 	"os"
 	"regexp"
-	"strconv"
 	"strings"
 	"unicode/utf8"
 
@@ -32,8 +31,10 @@ func Load(path string) (*Plant, error) {
 	if err != nil {
 		return nil, cannotRead(err)
 	}
-	defer f.Close()
 	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
 	if err != nil {
 		return nil, cannotRead(err)
 	}
@@ -77,6 +78,9 @@ func parseWith(d *decoder, data []byte) (p *Plant, err error) {
 		line, col := invalidUTF8At(data)
 		return nil, first(line, col, "the file is not valid UTF-8 text; save it as UTF-8")
 	}
+	if line, col, r, ok := controlCharacterAt(data); ok {
+		return nil, first(line, col, fmt.Sprintf("the file holds a control character (%U); a plant file is printable text", r))
+	}
 	if line, col, ok := tabIndent(data); ok {
 		return nil, first(line, col, "a tab is used for indentation; YAML needs spaces")
 	}
@@ -88,9 +92,8 @@ func parseWith(d *decoder, data []byte) (p *Plant, err error) {
 	if root == nil {
 		return nil, first(1, 1, "the plant file holds no YAML mapping; expected at least 'product' and 'process'")
 	}
-	if n, path := findAlias(root, ""); n != nil {
-		return nil, inputerr.List{{Pos: inputerr.Pos{File: file, Line: n.Line, Column: n.Column}, Field: path,
-			Msg: "anchors and aliases (& and *) are not supported in plant files; write each value out"}}
+	if n, path, msg := findUnsupported(root, ""); n != nil {
+		return nil, inputerr.List{{Pos: inputerr.Pos{File: file, Line: n.Line, Column: n.Column}, Field: path, Msg: msg}}
 	}
 	sum := sha256.Sum256(data)
 	p = &Plant{File: file, SHA256: hex.EncodeToString(sum[:]), Source: data}
@@ -105,6 +108,24 @@ func parseWith(d *decoder, data []byte) (p *Plant, err error) {
 	}
 	p.System = p.Process.HoldSetpoint.System
 	return p, nil
+}
+
+// Replaced reads the plant again from its source with the value at path (a
+// concrete path of one of p.Inputs, such as "organisms[1].D_temperature")
+// replaced by text, and validates it. It serves the tracing of a result that
+// is not finite back to an entered value (internal/assess).
+func (p *Plant) Replaced(path, text string) (*Plant, error) {
+	if p.Source == nil {
+		return nil, fmt.Errorf("%sthe plant has no source to read again", panicPrefix)
+	}
+	q, err := parseWith(&decoder{file: p.File, replace: map[string]string{path: text}}, p.Source)
+	if err != nil {
+		return nil, err
+	}
+	if err := Validate(q); err != nil {
+		return nil, err
+	}
+	return q, nil
 }
 
 // decodeYAML parses exactly one YAML document. yaml.v3 has panicked on some
@@ -154,10 +175,15 @@ func secondDocumentLine(data []byte, contentLine int) int {
 	return found
 }
 
-// findAlias returns the first anchored or alias node and its field path.
-func findAlias(n *yaml.Node, path string) (*yaml.Node, string) {
+// findUnsupported returns the first node that uses a YAML feature plant files
+// refuse (an anchor, an alias or an explicit tag such as !!binary, !!map or
+// !name), its field path and the message.
+func findUnsupported(n *yaml.Node, path string) (*yaml.Node, string, string) {
 	if n.Kind == yaml.AliasNode || n.Anchor != "" {
-		return n, path
+		return n, path, "anchors and aliases (& and *) are not supported in plant files; write each value out"
+	}
+	if n.Style&yaml.TaggedStyle != 0 {
+		return n, path, fmt.Sprintf("YAML tags (here %q) are not supported in plant files; write the plain value", n.Tag)
 	}
 	for i, c := range n.Content {
 		p := path
@@ -171,11 +197,11 @@ func findAlias(n *yaml.Node, path string) (*yaml.Node, string) {
 		case yaml.SequenceNode:
 			p = fmt.Sprintf("%s[%d]", path, i)
 		}
-		if a, ap := findAlias(c, p); a != nil {
-			return a, ap
+		if a, ap, msg := findUnsupported(c, p); a != nil {
+			return a, ap, msg
 		}
 	}
-	return nil, ""
+	return nil, "", ""
 }
 
 var keyPattern = regexp.MustCompile(`^\s*(?:-\s+)?([A-Za-z_][A-Za-z0-9_]*)\s*:`)
@@ -223,24 +249,4 @@ func tabIndent(data []byte) (int, int, bool) {
 		}
 	}
 	return 0, 0, false
-}
-
-var yamlLine = regexp.MustCompile(`line (\d+)`)
-
-// yamlErrorPos extracts the line from a yaml.v3 error ("yaml: line 4: …")
-// and points the column at the line's first non-blank character.
-func yamlErrorPos(data []byte, err error) (int, int, string) {
-	msg := strings.TrimPrefix(err.Error(), "yaml: ")
-	line := 1
-	if m := yamlLine.FindStringSubmatch(msg); m != nil {
-		line, _ = strconv.Atoi(m[1])
-		msg = strings.TrimSpace(yamlLine.ReplaceAllString(msg, ""))
-		msg = strings.TrimPrefix(msg, ": ")
-	}
-	col := 1
-	lines := strings.Split(string(data), "\n")
-	if line >= 1 && line <= len(lines) {
-		col = len(lines[line-1]) - len(strings.TrimLeft(lines[line-1], " ")) + 1
-	}
-	return line, col, "the file is not valid YAML: " + msg
 }

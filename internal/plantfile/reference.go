@@ -45,7 +45,10 @@ func valueText(f Field) string {
 	case KindConsistency:
 		return "Pa·sⁿ, e.g. `" + f.Example + "`"
 	case KindNumber:
-		return "number, e.g. `" + f.Example + "`"
+		if f.Fraction {
+			return "fraction, e.g. `" + f.Example + "` (or a percentage)"
+		}
+		return "number without a unit, e.g. `" + f.Example + "`"
 	case KindInteger:
 		return fmt.Sprintf("whole number %g–%g", f.Min, f.Max)
 	case KindText:

@@ -62,6 +62,14 @@ func TestViscosityCurve(t *testing.T) {
 	if _, err := NewViscosityCurve([]ViscosityPoint{{4, 1e-3}, {4, 2e-3}}); err == nil {
 		t.Error("duplicate temperature accepted")
 	}
+	// One rule for the same temperature (units.SameTemperature, 1e-6 K): 20.1 °C
+	// and 293.25 K − 273.15 differ by 2e-14 K (computed) and are one temperature.
+	if _, err := NewViscosityCurve([]ViscosityPoint{{20.1, 1.1e-3}, {293.25 - 273.15, 1e-3}}); err == nil {
+		t.Error("20.1 °C and 293.25 K accepted as two temperatures")
+	}
+	if _, err := NewViscosityCurve([]ViscosityPoint{{20.1, 1.1e-3}, {20.1 + 2e-6, 1e-3}}); err != nil {
+		t.Errorf("points 2 µK apart refused: %v", err)
+	}
 	if _, err := NewViscosityCurve(nil); err == nil {
 		t.Error("empty curve accepted")
 	}

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"pasval/internal/units"
 )
 
 // ViscosityPoint is one measured Newtonian viscosity.
@@ -19,7 +21,8 @@ type ViscosityCurve struct {
 }
 
 // NewViscosityCurve sorts the points; it refuses none, non-positive values or
-// two points at the same temperature.
+// two points at the same temperature (units.SameTemperature, the rule the
+// plant-file validation applies too).
 func NewViscosityCurve(pts []ViscosityPoint) (ViscosityCurve, error) {
 	if len(pts) == 0 {
 		return ViscosityCurve{}, fmt.Errorf("at least one viscosity point is needed")
@@ -30,7 +33,7 @@ func NewViscosityCurve(pts []ViscosityPoint) (ViscosityCurve, error) {
 		if !(p[i].Viscosity > 0) {
 			return ViscosityCurve{}, fmt.Errorf("viscosity must be positive")
 		}
-		if i > 0 && p[i].TempC-p[i-1].TempC < 1e-9 {
+		if i > 0 && units.SameTemperature(p[i].TempC, p[i-1].TempC) {
 			return ViscosityCurve{}, fmt.Errorf("two viscosity points at %.2f °C", p[i].TempC)
 		}
 	}
@@ -47,10 +50,10 @@ func (c ViscosityCurve) At(tempC float64) (mu float64, extrapolated bool) {
 		panic("props: empty ViscosityCurve")
 	}
 	if tempC <= p[0].TempC {
-		return p[0].Viscosity, tempC < p[0].TempC-1e-9
+		return p[0].Viscosity, !units.SameTemperature(tempC, p[0].TempC)
 	}
 	if tempC >= p[len(p)-1].TempC {
-		return p[len(p)-1].Viscosity, tempC > p[len(p)-1].TempC+1e-9
+		return p[len(p)-1].Viscosity, !units.SameTemperature(tempC, p[len(p)-1].TempC)
 	}
 	i := sort.Search(len(p), func(i int) bool { return p[i].TempC >= tempC })
 	a, b := p[i-1], p[i]

@@ -45,9 +45,11 @@ func Build(res *assess.Result, opts Options) (*report.Document, error) {
 }
 
 // WantsWhatIf says whether a plant's record has the what-if page: a rated
-// regenerator (plates entered) and an economics block.
+// regenerator (plates entered) with room for more plates
+// (plantfile.MaxPlates) and an economics block.
 func WantsWhatIf(p *plantfile.Plant) bool {
-	return p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0
+	return p.Economics != nil && p.Regeneration != nil && p.Regeneration.Plates.Plates > 0 &&
+		len(WhatIfSweep(p.Regeneration.Plates.Plates)) > 0
 }
 
 // hasPack reports whether any section has a plate pack.
@@ -425,11 +427,13 @@ func signOffSection() report.Section {
 }
 
 // WhatIfSweep is the sweep of added plates a record shows: about ten steps up
-// to doubling the installed plates.
+// to doubling the installed plates, and never beyond plantfile.MaxPlates in
+// all (none when the regenerator has that many).
 func WhatIfSweep(plates int) []int {
-	step := max(1, (plates+5)/10)
+	upTo := min(max(plates, 10), plantfile.MaxPlates-plates)
+	step := max(1, (upTo+5)/10)
 	var out []int
-	for a := step; a <= max(plates, 10); a += step {
+	for a := step; a <= upTo; a += step {
 		out = append(out, a)
 	}
 	return out

@@ -261,6 +261,14 @@ func TestWhatIfSweep(t *testing.T) {
 	if got := WhatIfSweep(3); got[0] != 1 || got[len(got)-1] != 10 {
 		t.Errorf("WhatIfSweep(3) = %v", got)
 	}
+	// Never past the one plate limit: 10010 plates were accepted and then
+	// failed the record's what-if; 9995 installed leave room for 5.
+	for _, plates := range []int{1, 10, 4999, 5000, 5001, 9995, 9999, plantfile.MaxPlates} {
+		got := WhatIfSweep(plates)
+		if len(got) > 0 && plates+got[len(got)-1] > plantfile.MaxPlates || (len(got) == 0) != (plates == plantfile.MaxPlates) {
+			t.Errorf("WhatIfSweep(%d) = %v", plates, got)
+		}
+	}
 }
 
 func TestSectionTables(t *testing.T) {

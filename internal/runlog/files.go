@@ -33,7 +33,11 @@ func Each[T any](paths []string, opt Options, workers int, fn func(*Reader) (T, 
 				errs[i] = err
 				return
 			}
-			defer r.Close()
+			defer func() {
+				if cerr := r.Close(); errs[i] == nil && cerr != nil {
+					errs[i] = cerr
+				}
+			}()
 			res, err := fn(r)
 			if err == nil {
 				err = r.Err()

@@ -168,7 +168,9 @@ func Open(path string, opt Options) (*Reader, error) {
 	}
 	r, err := newReader(f, path, opt)
 	if err != nil {
-		f.Close()
+		if cerr := f.Close(); cerr != nil {
+			err = errors.Join(err, cerr) // the reader's error stays first (errors.As still finds it)
+		}
 		return nil, err
 	}
 	r.closer = f
@@ -204,7 +206,8 @@ func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
 	// decompressor instead of copying.
 	r.raw = bufio.NewReaderSize(in, headerBuffer)
 	r.src = r.raw
-	if magic, _ := r.raw.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+	// A file shorter than two bytes cannot be gzip; Peek's error then only says so.
+	if magic, err := r.raw.Peek(2); err == nil && len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
 		gz, err := gzip.NewReader(r.raw)
 		if err != nil {
 			return nil, r.listAt(inputerr.Pos{File: name}, "", "the file starts like gzip-compressed data but cannot be decompressed: %v", err)

@@ -13,6 +13,7 @@ package schema
 import (
 	"fmt"
 
+	"pasval/internal/oneline"
 	"pasval/internal/plantfile"
 	"pasval/internal/units"
 )
@@ -26,9 +27,16 @@ const number = `[+-]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][+-]?[0-9]+)?`
 var (
 	TemperaturePattern = `^\s*` + number + `\s*(?:°C|degC|℃|°F|degF|℉|K)\s*$`
 	QuantityPattern    = `^\s*` + number + `\s*[^\s0-9.,+-][^\n]*$`
-	NumberPattern      = `^\s*` + number + `\s*%?\s*$`
-	DatePattern        = `^[0-9]{4}-[0-9]{2}-[0-9]{2}$`
-	IntervalPattern    = `^\s*[0-9]+\s*(?:d|days?|weeks?|months?|years?)\s*$`
+	// NumberPattern is a fraction written as a string: a number, a
+	// percentage or a ratio of like units ("2.1 cm/m"); pasval checks that
+	// the unit is dimensionless.
+	NumberPattern = `^\s*` + number + `\s*(?:%|[^\s0-9.,+-][^\n]*)?$`
+	// PlainNumberPattern is any other number written as a string: no unit.
+	PlainNumberPattern = `^\s*` + number + `\s*$`
+	// DatePattern is an ISO 8601 calendar date; IntervalPattern a calendar
+	// interval (docs/METHOD.md §15.5).
+	DatePattern     = `^[0-9]{4}-[0-9]{2}-[0-9]{2}$`
+	IntervalPattern = `^\s*[0-9]+\s*(?:d|days?|weeks?|months?|years?)\s*$`
 )
 
 type obj = map[string]any
@@ -62,11 +70,15 @@ func node(f plantfile.Field, path string) obj {
 	case plantfile.KindFlow, plantfile.KindConsistency:
 		return obj{"type": "string", "pattern": QuantityPattern, "description": desc + "; a number and its unit, e.g. " + f.Example}
 	case plantfile.KindNumber:
-		return obj{"description": desc, "oneOf": []any{obj{"type": "number"}, obj{"type": "string", "pattern": NumberPattern}}}
+		pattern := PlainNumberPattern
+		if f.Fraction {
+			pattern = NumberPattern
+		}
+		return obj{"description": desc, "oneOf": []any{obj{"type": "number"}, obj{"type": "string", "pattern": pattern}}}
 	case plantfile.KindInteger:
 		return obj{"type": "integer", "minimum": f.Min, "maximum": f.Max, "description": desc}
 	case plantfile.KindText:
-		return obj{"type": "string", "description": desc}
+		return obj{"type": "string", "pattern": oneline.Pattern, "description": desc + " (one line)"}
 	case plantfile.KindBoolean:
 		return obj{"type": "boolean", "description": desc}
 	case plantfile.KindEnum:

@@ -163,8 +163,8 @@ func (p *unitParser) factor() (float64, Dim, bool, error) {
 		p.pos++
 	}
 	if p.pos > ds {
-		e, _ := strconv.Atoi(string(p.src[ds:p.pos]))
-		if e < 1 || e > 4 {
+		e, err := strconv.Atoi(string(p.src[ds:p.pos]))
+		if err != nil || e < 1 || e > 4 {
 			return 0, Dim{}, false, fmt.Errorf("bad power %q on %q", string(p.src[ds:p.pos]), name)
 		}
 		f, d = power(f, d, float64(e))

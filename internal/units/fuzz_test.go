@@ -20,7 +20,8 @@ var fuzzKinds = []Kind{Temperature, TemperatureDifference, Length, Area, VolumeF
 func FuzzParse(f *testing.F) {
 	for _, s := range []string{"72.5 °C", "161 °F", "10000 L/h", "44 gpm", "3.93 kJ/(kg*K)", "0.94 Btu/(lb*°F)",
 		"3300 W/(m2*K)", "580 Btu/(h*ft2*°F)", "0.35 Pa*s^0.7", "2.9 mPa*s", "1e-4 m2*K/W", "92 %", "1.2 bar",
-		"((((m))))", "1 m^1e308", "-0 K", "5 kg K", "1 W/m²/K", "0x10 L/h", "1,5 m", ".5 in", "5. ft", "1e4", "", "60 deg", "60°", "1 rad", "72 °"} {
+		"((((m))))", "1 m^1e308", "-0 K", "5 kg K", "1 W/m²/K", "0x10 L/h", "1,5 m", ".5 in", "5. ft", "1e4", "", "60 deg", "60°", "1 rad", "72 °",
+		"1.7e308 °F", "-1.7e308 degF", "1.7e308 K", "1e308 kW"} {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {

@@ -18,6 +18,7 @@ package units
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 	"unicode"
@@ -215,6 +216,17 @@ func init() {
 	table["µPa"] = unitDef{1e-6, dPress, false, 0}
 }
 
+// Symbols lists every unit symbol the parser knows, sorted (tests swap them
+// into plant files; compounds such as "L/h" are built from them).
+func Symbols() []string {
+	out := make([]string, 0, len(table))
+	for s := range table {
+		out = append(out, s)
+	}
+	sort.Strings(out)
+	return out
+}
+
 // Parse reads "number unit" and returns the value in SI for the given kind.
 // A bare number is refused for any dimensional kind.
 func Parse(s string, k Kind) (Value, error) {
@@ -254,7 +266,13 @@ func Parse(s string, k Kind) (Value, error) {
 			v.SI = num
 		case tempF:
 			v.SI = (num - 32) * 5 / 9
+			if math.IsInf(v.SI, 0) { // 1.7e308 °F: the product overflows, the quotient does not
+				v.SI = (num - 32) / 9 * 5
+			}
 			v.System = US
+		}
+		if math.IsInf(v.SI, 0) || math.IsNaN(v.SI) {
+			return Value{}, errorf(s, "%q is out of range", s)
 		}
 		if v.SI < -273.15 {
 			return Value{}, errorf(s, "%q is below absolute zero", s)
@@ -407,3 +425,14 @@ func splitNumber(s string) (float64, string, error) {
 	}
 	return f, rest, nil
 }
+
+// TemperatureResolution is the one rule for "the same temperature", K: two
+// temperatures closer than this are one. Converting between °C, K and °F
+// leaves differences of about 1e-13 K (20.1 °C and 293.25 K differ by 2e-14 K
+// after conversion), far below it, while no measurement resolves a
+// microkelvin. The plant-file validation and the viscosity curve both use it.
+const TemperatureResolution = 1e-6
+
+// SameTemperature reports whether two temperatures (°C, or two differences in
+// K) are one by TemperatureResolution.
+func SameTemperature(a, b float64) bool { return math.Abs(a-b) < TemperatureResolution }

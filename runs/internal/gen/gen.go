@@ -109,7 +109,9 @@ const (
 func Write(w io.Writer, rows int, seed uint64) error {
 	bw := bufio.NewWriterSize(w, 64<<10)
 	rng := rand.New(rand.NewPCG(seed, 0x5eed))
-	bw.WriteString(Header + "\n")
+	if _, err := bw.WriteString(Header + "\n"); err != nil {
+		return err
+	}
 	buf := make([]byte, 0, 64)
 	for n, k := 0, 0; n < rows; k++ {
 		shift, sec := k/ShiftLength, k%ShiftLength
