@@ -26,9 +26,16 @@ type Document struct {
 	// Attachments are the input files the record carries, the plant file
 	// first; verify re-renders the record from all of them.
 	Attachments []Attachment
-	Cover       Cover
-	Sections    []Section
+	// Kind is what the record documents: "" a plant file (with its line file
+	// when it names one), KindMatrix the products of a line (the line file
+	// first). It is kept in the metadata, so verify knows how to re-render.
+	Kind     string
+	Cover    Cover
+	Sections []Section
 }
+
+// KindMatrix is the Kind of a record of a line's products (pasval matrix).
+const KindMatrix = "matrix"
 
 // Cover is the first page's identification and verdict box.
 type Cover struct {
@@ -49,9 +56,7 @@ type Verdict struct {
 type Section struct {
 	Heading string
 	Blocks  []Block
-	// NewPage starts the section on a page of its own (a part of the record
-	// meant to be taken out, such as a draft for another team).
-	NewPage bool
+	NewPage bool // start on a page of its own
 }
 
 // Block is one element of a section.

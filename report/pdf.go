@@ -67,7 +67,7 @@ func Render(doc *Document) (pdf []byte, pages int, err error) {
 	f.AddUTF8FontFromBytes(fontFamily, "B", bytes.Clone(gobold.TTF))
 	f.AddUTF8FontFromBytes(monoFamily, "", bytes.Clone(gomono.TTF))
 	f.SetTitle(doc.Title+" — "+doc.Header, true)
-	f.SetSubject("pasval validation record; plant file SHA-256 "+doc.SHA256, true)
+	f.SetSubject("pasval validation record; "+hashedFile(doc)+" SHA-256 "+doc.SHA256, true)
 	f.SetKeywords(keywords(doc), false)
 	f.SetCreator("pasval "+doc.Version, true)
 	f.SetAuthor("pasval "+doc.Version, true)
@@ -125,7 +125,7 @@ func (r *renderer) footer() {
 	f.Line(margin, ph-margin+1, margin+r.w, ph-margin+1)
 	r.font("", smallSize)
 	f.SetTextColor(60, 60, 60)
-	f.CellFormat(r.w/3, 4, printable("plant file "+r.doc.ShortHash+"…"), "", 0, "L", false, 0, "")
+	f.CellFormat(r.w/3, 4, printable(hashedFile(r.doc)+" "+r.doc.ShortHash+"…"), "", 0, "L", false, 0, "")
 	f.CellFormat(r.w/3, 4, printable(r.doc.Date.Format("2006-01-02")), "", 0, "C", false, 0, "")
 	f.CellFormat(r.w/3, 4, fmt.Sprintf("page %d of {nb}", f.PageNo()), "", 0, "R", false, 0, "")
 	f.SetTextColor(0, 0, 0)
@@ -321,4 +321,13 @@ func (r *renderer) signOff(s SignOff) {
 		}
 		f.SetY(y + 6)
 	}
+}
+
+// hashedFile names the file whose hash a document carries (SHA256): the
+// plant file, or the line file of a matrix.
+func hashedFile(doc *Document) string {
+	if doc.Kind == KindMatrix {
+		return "line file"
+	}
+	return "plant file"
 }

@@ -87,6 +87,7 @@ const (
 	resultToken  = "pasval-result:"
 	verdictToken = "pasval-verdict:" // label=pass|fail, in the cover's order
 	fileToken    = "pasval-file:"    // name=sha256, in attachment order
+	kindToken    = "pasval-record:"  // the Document's Kind, when not a plant file's record
 )
 
 // keywords is the Keywords entry of a document: the plant file's hash (the
@@ -101,6 +102,9 @@ func keywords(doc *Document) string {
 	for _, a := range doc.Attachments {
 		sum := sha256.Sum256(a.Content)
 		kw = append(kw, fileToken+url.QueryEscape(a.Name)+"="+hex.EncodeToString(sum[:]))
+	}
+	if doc.Kind != "" {
+		kw = append(kw, kindToken+url.QueryEscape(doc.Kind))
 	}
 	return strings.Join(kw, " ")
 }
@@ -125,7 +129,11 @@ type Stored struct {
 	Verdicts    []Verdict
 	HasVerdicts bool
 	Attachments []Attachment // in the order the record lists them; the plant file first
-	Pages       int
+	// FileHashes are the SHA-256 the metadata records for each attached
+	// file, by name (empty in a record that does not carry them).
+	FileHashes map[string]string
+	Kind       string // Document.Kind
+	Pages      int
 }
 
 var (
@@ -170,7 +178,7 @@ func Read(pdf []byte) (st *Stored, err error) {
 			st, err = nil, fmt.Errorf("the PDF cannot be parsed (%v): %w", r, ErrUnreadable)
 		}
 	}()
-	st = &Stored{Pages: ctx.PageCount}
+	st = &Stored{Pages: ctx.PageCount, FileHashes: map[string]string{}}
 	var order []string
 	for _, tok := range strings.Fields(ctx.XRefTable.Keywords) {
 		switch {
@@ -196,11 +204,18 @@ func Read(pdf []byte) (st *Stored, err error) {
 			}
 			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass"})
 		case strings.HasPrefix(tok, fileToken):
-			name, _, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
+			name, sum, _ := strings.Cut(strings.TrimPrefix(tok, fileToken), "=")
 			if n, err := url.QueryUnescape(name); err == nil {
 				name = n // else kept as written: it then names no attachment
 			}
 			order = append(order, name)
+			if hashRe.MatchString(sum) {
+				st.FileHashes[name] = sum
+			}
+		case strings.HasPrefix(tok, kindToken):
+			if k, err := url.QueryUnescape(strings.TrimPrefix(tok, kindToken)); err == nil {
+				st.Kind = k // else left empty: the record is then re-rendered as a plant file's, and differs
+			}
 		}
 	}
 	if st.RecordedSHA256 == "" {

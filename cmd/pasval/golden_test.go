@@ -95,7 +95,89 @@ func goldenCases() []goldenCase {
 			goldenCase{base + ".plates-layout-json", []string{"plates", plant, "--add", "16", "--layout", "channels", "--json"}})
 	}
 	cases = append(cases, goldenCase{"bad-layout-without-pack", []string{"plates", "testdata/demo/cider-us.yaml", "--add", "10", "--layout", "channels"}})
+	// The line demo: product files on a line file, the matrix, the demos' list.
+	const line = "testdata/demo/dairy-line-si/"
+	cases = append(cases,
+		goldenCase{"dairy-line-si.whole-milk.check", []string{"check", line + "whole-milk.yaml"}},
+		goldenCase{"dairy-line-si.whole-milk.check-json", []string{"check", "--json", line + "whole-milk.yaml"}},
+		goldenCase{"dairy-line-si.whole-milk.hold", []string{"hold", line + "whole-milk.yaml"}},
+		goldenCase{"dairy-line-si.chocolate-milk.check", []string{"check", line + "chocolate-milk.yaml"}},
+		goldenCase{"dairy-line-si.cream.check", []string{"check", line + "cream.yaml"}},
+		goldenCase{"dairy-line-si.matrix", []string{"matrix", line + "line.yaml", line + "whole-milk.yaml", line + "chocolate-milk.yaml", line + "cream.yaml"}},
+		goldenCase{"dairy-line-si.matrix-us", []string{"matrix", "--units", "us", line + "line.yaml", line + "whole-milk.yaml", line + "chocolate-milk.yaml"}},
+		goldenCase{"dairy-line-si.matrix-json", []string{"matrix", "--json", line + "line.yaml", line + "whole-milk.yaml", line + "chocolate-milk.yaml", line + "cream.yaml"}},
+		goldenCase{"dairy-line-si.line-alone", []string{"check", line + "line.yaml"}},
+		goldenCase{"init-demo-list", []string{"init", "--demo", "list"}},
+	)
+	for _, bad := range []string{"line-unknown-table", "line-cycle-a", "line-chain", "line-missing"} {
+		cases = append(cases, goldenCase{"bad-" + bad, []string{"check", "testdata/bad/" + bad + ".yaml"}})
+	}
 	return cases
+}
+
+// TestGoldenLineRecords keeps the record of a product file on a line (both
+// files attached) and the matrix record of the line demo, as text and as the
+// SHA-256 of the PDF bytes with a fixed date.
+func TestGoldenLineRecords(t *testing.T) {
+	t.Chdir("../..")
+	const line = "testdata/demo/dairy-line-si/"
+	day := recordDay.Format("2006-01-02")
+	for _, c := range []struct {
+		name string
+		args []string
+		doc  func() (*report.Document, error)
+	}{
+		{"record-dairy-line-si-whole-milk", []string{"report", line + "whole-milk.yaml", "--date", day, "-o"}, func() (*report.Document, error) {
+			p, err := plantfile.Load(line + "whole-milk.yaml")
+			if err != nil {
+				return nil, err
+			}
+			res, err := assess.Run(p)
+			if err != nil {
+				return nil, err
+			}
+			return record.Build(res, record.Options{Date: recordDay, PlantName: "whole-milk.yaml"})
+		}},
+		{"record-dairy-line-si-matrix", []string{"matrix", line + "line.yaml", line + "whole-milk.yaml", line + "chocolate-milk.yaml", line + "cream.yaml",
+			"--date", day, "--record"}, func() (*report.Document, error) {
+			l, err := plantfile.LoadLine(line + "line.yaml")
+			if err != nil {
+				return nil, err
+			}
+			var rows []assess.OnLine
+			for _, n := range []string{"whole-milk", "chocolate-milk", "cream"} {
+				p, err := plantfile.Load(line + n + ".yaml")
+				if err != nil {
+					return nil, err
+				}
+				o, err := assess.RunOnLine(p)
+				if err != nil {
+					return nil, err
+				}
+				rows = append(rows, o)
+			}
+			return record.BuildMatrix(l, rows, record.Options{Date: recordDay}), nil
+		}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			doc, err := c.doc()
+			if err != nil {
+				t.Fatal(err)
+			}
+			text := dumpDocument(doc)
+			rec := filepath.Join(t.TempDir(), "r.pdf")
+			var out, errb bytes.Buffer
+			if code := run(append(c.args, rec), &out, &errb); code > 1 {
+				t.Fatalf("exit %d %s", code, errb.String())
+			}
+			pdf, err := os.ReadFile(rec)
+			if err != nil {
+				t.Fatal(err)
+			}
+			text += fmt.Sprintf("-- pdf --\nsha256 %x\n", sha256.Sum256(pdf))
+			compareGolden(t, filepath.Join(goldenDir, c.name+".txt"), []byte(text))
+		})
+	}
 }
 
 // TestGoldenOutputs runs each case in-process from the repository root, so

@@ -56,6 +56,7 @@ type holdReport struct {
 	Tool          string               `json:"tool"`
 	Version       string               `json:"version"`
 	InputSHA256   string               `json:"input_sha256"`
+	LineFile      *assess.SourceRef    `json:"line_file,omitempty"`
 	HoldingTube   *assess.HoldingTube  `json:"holding_tube"`
 	Lethality     []assess.Lethality   `json:"lethality"`
 	SetpointTable []assess.SetpointRow `json:"setpoint_table"`
@@ -96,7 +97,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 		}
 	}
 	worded := present.ForJSON(&only)
-	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, HoldingTube: res.HoldingTube,
+	rep := holdReport{Tool: res.Tool, Version: res.Version, InputSHA256: res.InputSHA256, LineFile: res.LineFile, HoldingTube: res.HoldingTube,
 		Lethality: res.Lethality, SetpointTable: rows, Checks: []assess.Check{}, Warnings: worded.Warnings,
 		Pass: true, Caution: res.Caution}
 	only.Checks = []assess.Check{}
@@ -112,7 +113,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 			return err
 		}
 	} else {
-		fmt.Fprintf(out, "pasval %s · holding tube of %s\ninput sha256 %s\n", res.Version, p.File, res.InputSHA256)
+		fmt.Fprintf(out, "pasval %s · holding tube of %s\n%s", res.Version, p.File, inputHashes(res))
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
 		writeChecks(out, &only, d, useColour(out))

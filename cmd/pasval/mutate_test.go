@@ -256,7 +256,7 @@ func mutate(b mutBase, leaf uint16, op uint8, x float64, s string) ([]byte, stri
 }
 
 var (
-	errorLine  = regexp.MustCompile(`^pasval: [^:]+\.yaml:\d+:\d+: [A-Za-z_][A-Za-z0-9_.\[\]]*: \S`)
+	errorLine  = regexp.MustCompile(`^pasval: [^:]+\.yaml:\d+:\d+: [A-Za-z_][A-Za-z0-9_.\[\]-]*: \S`)
 	infinities = regexp.MustCompile(`(?:^|[^A-Za-z])(?:[+-]?Inf|NaN)(?:[^A-Za-z]|$)`)
 )
 
@@ -267,14 +267,19 @@ var mutatedCommands = [][]string{{"check", "--json"}, {"check"}, {"hold", "--jso
 // it returns the exit code of check.
 func checkMutated(t *testing.T, src []byte, desc string) int {
 	t.Helper()
-	path := filepath.Join(t.TempDir(), "mutated.yaml")
+	dir := t.TempDir()
+	path := filepath.Join(dir, "mutated.yaml")
 	if err := os.WriteFile(path, src, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	// The line files a base may name (line_file: lines/…), beside it.
+	if err := os.CopyFS(filepath.Join(dir, "lines"), os.DirFS("../../testdata/mutate/lines")); err != nil {
 		t.Fatal(err)
 	}
 	checkCode := -1
 	// A regenerator with a plate pack needs a layout for its added plates.
 	layout := []string{}
-	if pl, err := plantfile.Parse(path, src); err == nil && pl.Regeneration != nil && pl.Regeneration.Pack != nil {
+	if pl, err := plantfile.ParseWith(path, src, plantfile.ReadFile); err == nil && pl.Regeneration != nil && pl.Regeneration.Pack != nil {
 		layout = []string{"--layout", "channels"}
 	}
 	for _, c := range mutatedCommands {

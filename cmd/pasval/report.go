@@ -171,6 +171,11 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if sameFile(path, res.Plant.File) {
 		return usagef("the record %s would overwrite the plant file", path)
 	}
+	if l := res.Plant.Line; l != nil {
+		if sameFile(path, l.File) {
+			return usagef("the record %s would overwrite the line file", path)
+		}
+	}
 	doc, err := record.Build(res, record.Options{Date: date, PlantName: filepath.Base(res.Plant.File)})
 	if err != nil {
 		return err
@@ -195,7 +200,11 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if !res.Pass {
 		verdict = "FAIL"
 	}
-	fmt.Fprintf(out, "wrote %s: %d pages, %s, plant file sha256 %s%s\n", path, pages, verdict, res.InputSHA256, signed)
+	line := ""
+	if l := res.LineFile; l != nil {
+		line = ", line file sha256 " + l.SHA256
+	}
+	fmt.Fprintf(out, "wrote %s: %d pages, %s, plant file sha256 %s%s%s\n", path, pages, verdict, res.InputSHA256, line, signed)
 	return nil
 }
 

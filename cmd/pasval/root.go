@@ -64,13 +64,16 @@ authority and the local regulator.`,
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
-	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newDueCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
+	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout),
+		newMatrixCmd(stdout), newDueCmd(stdout))
 	root.SetHelpCommand(newHelpCmd())
 	refuseUnknownShells(root)
 	for _, c := range root.Commands() {
 		switch c.Name() {
 		case "check", "hold", "report", "plates", "due":
 			c.ValidArgsFunction = completePlantFile
+		case "matrix":
+			c.ValidArgsFunction = completePlantFiles
 		case "verify":
 			c.ValidArgsFunction = completeRecord
 		case "init", "schema":
@@ -213,15 +216,19 @@ func completePlantFile(cmd *cobra.Command, args []string, toComplete string) ([]
 	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
 }
 
-// completeRecord offers a PDF first, then a plant file.
+// completePlantFiles offers *.yaml and *.yml files for every argument (matrix).
+func completePlantFiles(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
+	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
+}
+
+// completeRecord offers a PDF first, then plant files.
 func completeRecord(cmd *cobra.Command, args []string, toComplete string) ([]string, cobra.ShellCompDirective) {
-	switch len(args) {
-	case 0:
+	if len(args) == 0 {
 		return []string{"pdf"}, cobra.ShellCompDirectiveFilterFileExt
-	case 1:
-		return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
 	}
-	return nil, cobra.ShellCompDirectiveNoFileComp
+	// The files the record was made from: the plant file and its line file,
+	// or a matrix's line and product files.
+	return []string{"yaml", "yml"}, cobra.ShellCompDirectiveFilterFileExt
 }
 
 // useColour is true when w is a terminal and neither NO_COLOR nor TERM=dumb

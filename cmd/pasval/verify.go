@@ -24,7 +24,7 @@ var errMismatch = fmt.Errorf("the record does not match: %w", errChecksFailed)
 
 func newVerifyCmd(stdout io.Writer) *cobra.Command {
 	cmd := &cobra.Command{
-		Use:   "verify RECORD.pdf [PLANT.yaml]",
+		Use:   "verify RECORD.pdf [PLANT.yaml [LINE.yaml]]",
 		Short: "Check that a record is exactly what its plant file gives",
 		Long: `verify reads a record written by 'pasval report'. It checks that the plant
 file attached to the record matches the SHA-256 in the record's metadata (and,
@@ -36,23 +36,27 @@ A record made by another version of pasval cannot be re-rendered identically:
 then the verdicts stored in its metadata are compared with the recomputed ones,
 and verify says plainly that the pages were not byte-checked. The record is
 read with a PDF library, so a record re-saved by another program is read (and
-reported as differing from the re-rendered one). ` + fmt.Sprintf(`Both files are read only from
-regular files, a record of at most %d MiB (one is about 70 KB) and a plant
+reported as differing from the re-rendered one).
+
+A record of a plant file that names a line file (line_file) carries both, each
+with its SHA-256, and verify checks both; give the files in the order the
+record lists them (the plant file, then its line file). A matrix record
+('pasval matrix --record') carries the line file first, then each product
+file, and is re-rendered from them all. ` + fmt.Sprintf(`Every file is read only from
+a regular file, a record of at most %d MiB (one is about 70 KB) and each input
 file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20),
 		Example: `  pasval verify line2-record.pdf
-  pasval verify line2-record.pdf line2.yaml`,
+  pasval verify line2-record.pdf line2.yaml
+  pasval verify milk-record.pdf whole-milk.yaml line.yaml
+  pasval verify line3-matrix.pdf line.yaml whole-milk.yaml cream.yaml`,
 		Args: func(cmd *cobra.Command, args []string) error {
-			if len(args) < 1 || len(args) > 2 {
-				return usagef("verify needs a record and optionally a plant file, got %d arguments", len(args))
+			if len(args) < 1 {
+				return usagef("verify needs a record and optionally the files it was made from, got %d arguments", len(args))
 			}
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			plant := ""
-			if len(args) == 2 {
-				plant = args[1]
-			}
-			return runVerify(args[0], plant, stdout)
+			return runVerify(args[0], args[1:], stdout)
 		},
 	}
 	cmd.Long += `
@@ -71,14 +75,14 @@ func sha256Hex(b []byte) string {
 	return hex.EncodeToString(s[:])
 }
 
-func runVerify(recordPath, plantPath string, out io.Writer) error {
+func runVerify(recordPath string, inputPaths []string, out io.Writer) error {
 	pdf, err := readRegular(recordPath, "record", report.ReadRecord)
 	if err != nil {
 		return err
 	}
-	var plant []byte
-	if plantPath != "" {
-		if plant, err = readRegular(plantPath, "plant file", report.ReadPlantFile); err != nil {
+	inputs := make([][]byte, len(inputPaths))
+	for i, path := range inputPaths {
+		if inputs[i], err = readRegular(path, "plant file", report.ReadPlantFile); err != nil {
 			return err
 		}
 	}
@@ -89,15 +93,29 @@ func runVerify(recordPath, plantPath string, out io.Writer) error {
 		}
 		return err
 	}
-	att := st.Attachments[0]
-	attSum := sha256Hex(att.Content)
-	ok := attSum == st.RecordedSHA256
-	fmt.Fprintf(out, "recorded plant-file sha256  %s\n", st.RecordedSHA256)
-	fmt.Fprintf(out, "attached plant-file sha256  %s  %s\n", attSum, okWord(attSum == st.RecordedSHA256))
-	if plantPath != "" {
-		fileSum := sha256Hex(plant)
-		fmt.Fprintf(out, "%-27s %s  %s\n", plantPath, fileSum, okWord(fileSum == st.RecordedSHA256))
-		ok = ok && fileSum == st.RecordedSHA256
+	if len(inputPaths) > len(st.Attachments) {
+		return usagef("%s carries %d input files (%s); %d were given to compare", recordPath, len(st.Attachments), attachmentNames(st), len(inputPaths))
+	}
+	ok := true
+	for i, a := range st.Attachments {
+		role := attachmentRole(st, i)
+		recorded := st.FileHashes[a.Name]
+		if i == 0 {
+			recorded = st.RecordedSHA256
+		}
+		attSum := sha256Hex(a.Content)
+		if recorded == "" {
+			fmt.Fprintf(out, "%-27s %s\n", "recorded "+role+" sha256", "none: the record's metadata lists no hash for "+a.Name)
+		} else {
+			fmt.Fprintf(out, "%-27s %s\n", "recorded "+role+" sha256", recorded)
+		}
+		fmt.Fprintf(out, "%-27s %s  %s\n", "attached "+role+" sha256", attSum, okWord(attSum == recorded))
+		ok = ok && attSum == recorded
+		if i < len(inputPaths) {
+			fileSum := sha256Hex(inputs[i])
+			fmt.Fprintf(out, "%-27s %s  %s\n", inputPaths[i], fileSum, okWord(fileSum == recorded))
+			ok = ok && fileSum == recorded
+		}
 	}
 	ok = verifyContent(st, pdf, out) && ok
 	if !ok {
@@ -106,6 +124,29 @@ func runVerify(recordPath, plantPath string, out io.Writer) error {
 	}
 	fmt.Fprintln(out, "MATCH")
 	return nil
+}
+
+// attachmentRole names an attached file by what it is to the record.
+func attachmentRole(st *report.Stored, i int) string {
+	switch {
+	case st.Kind == report.KindMatrix && i == 0:
+		return "line-file"
+	case st.Kind == report.KindMatrix:
+		return "product"
+	case i == 0:
+		return "plant-file"
+	case i == 1:
+		return "line-file"
+	}
+	return "input-file"
+}
+
+func attachmentNames(st *report.Stored) string {
+	var names []string
+	for _, a := range st.Attachments {
+		names = append(names, a.Name)
+	}
+	return strings.Join(names, ", ")
 }
 
 // verifyContent recomputes the attached plant file, compares the verdicts
@@ -122,7 +163,11 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 	case !st.HasVerdicts:
 		fmt.Fprintf(out, "verdicts                    recomputed %s; the record stores none to compare\n", passWord(cover.Pass))
 	case st.Pass == cover.Pass && reflect.DeepEqual(st.Verdicts, cover.Verdicts):
-		fmt.Fprintf(out, "verdicts                    stored %s, recomputed %s (%d checks)  match\n", passWord(st.Pass), passWord(cover.Pass), len(cover.Verdicts))
+		what := "checks"
+		if st.Kind == report.KindMatrix {
+			what = "products"
+		}
+		fmt.Fprintf(out, "verdicts                    stored %s, recomputed %s (%d %s)  match\n", passWord(st.Pass), passWord(cover.Pass), len(cover.Verdicts), what)
 	default:
 		fmt.Fprintf(out, "verdicts                    stored %s (%s), recomputed %s (%s)  DIFFER\n", passWord(st.Pass), verdictList(st.Verdicts),
 			passWord(cover.Pass), verdictList(cover.Verdicts))

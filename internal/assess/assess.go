@@ -146,6 +146,7 @@ type Result struct {
 	Tool              string       `json:"tool"`
 	Version           string       `json:"version"`
 	InputSHA256       string       `json:"input_sha256"`
+	LineFile          *SourceRef   `json:"line_file,omitempty"` // the line file the plant file names
 	Product           ProductProps `json:"product"`
 	Sections          []Section    `json:"sections"`
 	RegenerationRatio *float64     `json:"regeneration_ratio"`
@@ -169,6 +170,12 @@ type Result struct {
 	Caution        string          `json:"caution"`
 
 	Plant *plantfile.Plant `json:"-"`
+}
+
+// SourceRef names an input file and its SHA-256 (hex).
+type SourceRef struct {
+	File   string `json:"file"`
+	SHA256 string `json:"sha256"`
 }
 
 // Options are what a run needs besides the plant file.
@@ -204,6 +211,9 @@ func runOn(p *plantfile.Plant, on time.Time) (*Result, error) {
 		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
 	if !on.IsZero() {
 		res.ReviewDate = FormatDate(on)
+	}
+	if l := p.Line; l != nil {
+		res.LineFile = &SourceRef{File: l.File, SHA256: l.SHA256}
 	}
 	res.Product = productProps(p)
 	if err := ratesInOrder(p, res.Product); err != nil {

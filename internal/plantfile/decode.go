@@ -3,6 +3,7 @@ package plantfile
 import (
 	"fmt"
 	"math"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -20,6 +21,15 @@ type decoder struct {
 	file   string
 	errs   inputerr.List
 	inputs []Input
+	// read reads a line file named by line_file (nil: line files are refused).
+	read ReadFunc
+	// lineFile and lineNodes are the line file merged under this one: a node
+	// of its tree is positioned in lineFile (docs/METHOD.md §16).
+	lineFile  string
+	lineNodes map[*yaml.Node]bool
+	// lineOnly reads a line file on its own (pasval matrix): the blocks a
+	// product file gives (product, process) are not required.
+	lineOnly bool
 	// consulted holds the table paths the decoding looked up (tests check
 	// that every field of the table is decoded).
 	consulted map[string]bool
@@ -33,6 +43,9 @@ const maxErrors = 50
 func (d *decoder) pos(n *yaml.Node) inputerr.Pos {
 	if n == nil {
 		return inputerr.Pos{File: d.file, Line: 1, Column: 1}
+	}
+	if d.lineNodes[n] {
+		return inputerr.Pos{File: d.lineFile, Line: n.Line, Column: n.Column}
 	}
 	return inputerr.Pos{File: d.file, Line: n.Line, Column: n.Column}
 }
@@ -76,7 +89,7 @@ func (d *decoder) object(n *yaml.Node, path string) *object {
 		d.errorf(n, path, "expected a mapping of %s, found %s", strings.Join(allowed, ", "), describe(n))
 		return nil
 	}
-	o := &object{d: d, path: path, table: listIndex.ReplaceAllString(path, "[]"), node: n,
+	o := &object{d: d, path: path, table: tableOf(path), node: n,
 		values: map[string]*yaml.Node{}, keys: map[string]*yaml.Node{}, suggested: map[string]bool{}}
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, v := n.Content[i], n.Content[i+1]
@@ -85,7 +98,12 @@ func (d *decoder) object(n *yaml.Node, path string) *object {
 			continue
 		}
 		name := k.Value
-		if !contains(allowed, name) {
+		if len(allowed) == 1 && allowed[0] == NameKey {
+			if !namePattern.MatchString(name) {
+				d.errorf(k, join(path, name), "%q is not a name pasval takes here; write letters, digits, - and _ (e.g. high-fat)", name)
+				continue
+			}
+		} else if !contains(allowed, name) {
 			hint := didYouMean(name, allowed)
 			if hint != "" {
 				o.suggested[suggestion(name, allowed)] = true
@@ -100,6 +118,34 @@ func (d *decoder) object(n *yaml.Node, path string) *object {
 		o.keys[name], o.values[name] = k, v
 	}
 	return o
+}
+
+// namePattern is a name the user gives under a KindNamed field (a product
+// class of legal_tables).
+var namePattern = regexp.MustCompile(NamePattern)
+
+// NamePattern is the regular expression a name under a KindNamed field
+// matches (for the JSON Schema too).
+const NamePattern = `^[A-Za-z0-9][A-Za-z0-9_-]{0,63}$`
+
+// names are the keys of a KindNamed mapping, in file order.
+func (o *object) names() []string {
+	if o == nil {
+		return nil
+	}
+	var out []string
+	for i := 0; i+1 < len(o.node.Content); i += 2 {
+		if k := o.node.Content[i]; o.keys[k.Value] == k {
+			out = append(out, k.Value)
+		}
+	}
+	return out
+}
+
+// namedList is the items of the list a KindNamed mapping gives under name.
+func (o *object) namedList(name string) []*yaml.Node {
+	o.field(NameKey)
+	return o.listNode(o.values[name], join(o.path, name))
 }
 
 func contains(list []string, s string) bool {
@@ -311,8 +357,13 @@ func (o *object) sub(key string) *object {
 	f := o.field(key)
 	v := o.values[key]
 	if v == nil {
-		if f.Required && !o.suggested[key] {
-			o.d.errorf(o.node, join(o.path, key), "missing; expected a mapping of %s", strings.Join(allowedKeys(f.Path), ", "))
+		top := o.path == ""
+		if f.Required && !o.suggested[key] && !(top && o.d.lineOnly) {
+			where := ""
+			if top && o.d.lineFile != "" {
+				where = " (neither this file nor its line file " + o.d.lineFile + " gives it)"
+			}
+			o.d.errorf(o.node, join(o.path, key), "missing%s; expected a mapping of %s", where, strings.Join(allowedKeys(f.Path), ", "))
 		}
 		return nil
 	}
@@ -325,16 +376,19 @@ func (o *object) list(key string) []*yaml.Node {
 		return nil
 	}
 	o.field(key)
-	if o.values[key] == nil {
+	return o.listNode(o.values[key], join(o.path, key))
+}
+
+func (o *object) listNode(v *yaml.Node, path string) []*yaml.Node {
+	if v == nil {
 		return nil
 	}
-	v := o.values[key]
 	if v.Kind != yaml.SequenceNode {
-		o.d.errorf(v, join(o.path, key), "expected a list (lines starting with '- '), found %s", describe(v))
+		o.d.errorf(v, path, "expected a list (lines starting with '- '), found %s", describe(v))
 		return nil
 	}
 	if len(v.Content) == 0 {
-		o.d.errorf(v, join(o.path, key), "the list is empty")
+		o.d.errorf(v, path, "the list is empty")
 	}
 	return v.Content
 }
@@ -394,9 +448,14 @@ func editDistance(a, b string) int {
 	return prev[len(rb)]
 }
 
-// sortErrors orders errors by position so the first one shown is the first in the file.
-func sortErrors(l inputerr.List) {
+// sortErrors orders errors by position so the first one shown is the first
+// in the file: those in the file named first (a product file), then those in
+// its line file.
+func sortErrors(l inputerr.List, first string) {
 	sort.SliceStable(l, func(i, j int) bool {
+		if fi, fj := l[i].Pos.File == first, l[j].Pos.File == first; fi != fj {
+			return fi
+		}
 		if l[i].Pos.Line != l[j].Pos.Line {
 			return l[i].Pos.Line < l[j].Pos.Line
 		}

@@ -108,13 +108,52 @@ func (d *decoder) decodeHolding(p *Plant, top *object) {
 		p.Organisms = append(p.Organisms, org)
 	}
 	for i, n := range top.list("legal_minimums") {
-		o := d.object(n, fmt.Sprintf("legal_minimums[%d]", i))
-		if o == nil {
-			continue
+		if r, ok := d.legalRow(n, fmt.Sprintf("legal_minimums[%d]", i)); ok {
+			p.LegalMinimums = append(p.LegalMinimums, r)
 		}
-		p.LegalMinimums = append(p.LegalMinimums, LegalRow{Pos: d.pos(n),
-			Temperature: o.quantity("temperature"),
-			Time:        o.quantity("time")})
+	}
+	d.decodeLegalTables(p, top)
+}
+
+func (d *decoder) legalRow(n *yaml.Node, path string) (LegalRow, bool) {
+	o := d.object(n, path)
+	if o == nil {
+		return LegalRow{}, false
+	}
+	return LegalRow{Pos: d.pos(n), Field: path, Temperature: o.quantity("temperature"), Time: o.quantity("time")}, true
+}
+
+// decodeLegalTables reads legal_tables and legal_table, and puts the rows
+// legal_table picks in LegalMinimums (docs/METHOD.md §16.2); Validate
+// refuses the combinations that leave the rows in doubt.
+func (d *decoder) decodeLegalTables(p *Plant, top *object) {
+	lt := top.sub("legal_tables")
+	if lt != nil && len(lt.node.Content) == 0 {
+		d.errorf(lt.node, "legal_tables", "no product class is given; write each class's rows, e.g. legal_tables: {milk: [{temperature: 72 °C, time: 15 s}]}")
+	}
+	for _, name := range lt.names() {
+		t := LegalTable{Name: name, Pos: d.pos(lt.keys[name])}
+		for i, n := range lt.namedList(name) {
+			if r, ok := d.legalRow(n, fmt.Sprintf("legal_tables.%s[%d]", name, i)); ok {
+				t.Rows = append(t.Rows, r)
+			}
+		}
+		p.LegalTables = append(p.LegalTables, t)
+	}
+	p.LegalTable = top.text("legal_table")
+	for key, pos := range map[string]*inputerr.Pos{"legal_minimums": &p.LegalPos.Minimums, "legal_tables": &p.LegalPos.Tables, "legal_table": &p.LegalPos.Table} {
+		if k := top.keys[key]; k != nil {
+			*pos = d.pos(k)
+		}
+	}
+	if p.LegalTable == "" {
+		return
+	}
+	p.LegalPos.Table = d.pos(top.values["legal_table"])
+	for _, t := range p.LegalTables {
+		if t.Name == p.LegalTable && !top.has("legal_minimums") {
+			p.LegalMinimums = t.Rows
+		}
 	}
 }
 

@@ -23,9 +23,14 @@ const (
 	KindMapping                             // a mapping of the child fields
 	KindList                                // a list of mappings of the child fields ("path[].key")
 	KindWaterOrMapping                      // the word water, or a mapping of the child fields
+	KindNamed                               // a mapping of names the user chooses to values of the one child field NameKey
 	KindDate                                // an ISO 8601 calendar date, YYYY-MM-DD
 	KindInterval                            // a calendar interval: a whole number of d, week, month or year
 )
+
+// NameKey is the key of a KindNamed field's one child: it stands for any name
+// ("legal_tables.*" is every class's list of rows).
+const NameKey = "*"
 
 // String names the kind as the reference table does.
 func (k ValueKind) String() string {
@@ -52,6 +57,8 @@ func (k ValueKind) String() string {
 		return "list"
 	case KindWaterOrMapping:
 		return "water or mapping"
+	case KindNamed:
+		return "named mapping"
 	case KindDate:
 		return "date"
 	case KindInterval:
@@ -110,7 +117,7 @@ func (f Field) Parent() string {
 
 // Container reports whether the field holds other fields.
 func (f Field) Container() bool {
-	return f.Value == KindMapping || f.Value == KindList || f.Value == KindWaterOrMapping
+	return f.Value == KindMapping || f.Value == KindList || f.Value == KindWaterOrMapping || f.Value == KindNamed
 }
 
 // Fields returns the table of plant-file keys in the order the documentation
@@ -119,11 +126,37 @@ func Fields() []Field { return append([]Field(nil), fields...) }
 
 var listIndex = regexp.MustCompile(`\[\d+\]`)
 
-// Lookup finds the field of a concrete path such as "organisms[0].D" or
-// "cooling[1].medium_inlet" (indices are dropped) or of a table path.
+// Lookup finds the field of a concrete path such as "organisms[0].D",
+// "cooling[1].medium_inlet" or "legal_tables.cream[0].time" (indices are
+// dropped, a user's name under a KindNamed field is NameKey) or of a table
+// path.
 func Lookup(path string) (Field, bool) {
-	f, ok := byPath[listIndex.ReplaceAllString(path, "[]")]
+	f, ok := byPath[tableOf(path)]
 	return f, ok
+}
+
+// tableOf turns a concrete path into its table path: list indices become
+// "[]" and a name under a KindNamed field becomes NameKey
+// ("legal_tables.cream[2]" → "legal_tables.*[]").
+func tableOf(concrete string) string {
+	s := listIndex.ReplaceAllString(concrete, "[]")
+	if !strings.Contains(s, ".") {
+		return s
+	}
+	parts := strings.Split(s, ".")
+	out := parts[0]
+	for _, seg := range parts[1:] {
+		name, suffix := seg, ""
+		if i := strings.Index(seg, "["); i >= 0 {
+			name, suffix = seg[:i], seg[i:]
+		}
+		parent := strings.TrimSuffix(out, "[]")
+		if f, ok := byPath[parent]; ok && f.Value == KindNamed {
+			name = NameKey
+		}
+		out += "." + name + suffix
+	}
+	return out
 }
 
 // Children are the fields directly inside the mapping or list at path (a
@@ -151,7 +184,7 @@ func init() {
 // tablePath turns a concrete path into the table path of the mapping it
 // names: "cooling[1]" → "cooling", "cooling[1].medium" → "cooling[].medium".
 func tablePath(concrete string) string {
-	return strings.TrimSuffix(listIndex.ReplaceAllString(concrete, "[]"), "[]")
+	return strings.TrimSuffix(tableOf(concrete), "[]")
 }
 
 // allowedKeys are the keys of the mapping at a table path, in table order.
@@ -336,6 +369,14 @@ func table() []Field {
 	add(Field{Path: "holding_tube.credit_heat_loss", Value: KindBoolean, Default: "false",
 		Description: "judge the log reduction with the heat-loss profile (hotter upstream) instead of the tube isothermal at the judged temperature: a process authority's decision", Example: "true"},
 		q("product.freezing_point", units.Temperature, "freezing point, for the warning on product cooled below it (default 0 °C)", "-0.5 °C"))
+	// Products on a shared line (docs/METHOD.md §16).
+	add(text("line_file", "the line file (path relative to this file) that supplies every top-level block this file does not give; a block given here replaces the line's whole", "line.yaml"),
+		Field{Path: "legal_tables", Value: KindNamed,
+			Description: "legal rows by product class: each class's name (letters, digits, - and _) and its rows; a product picks one with legal_table"},
+		list("legal_tables."+NameKey, "one product class's legal time–temperature rows (never interpolated)"),
+		q("legal_tables."+NameKey+"[].temperature", units.Temperature, "row temperature", "75 °C").required(),
+		q("legal_tables."+NameKey+"[].time", units.Time, "row time", "15 s").required(),
+		text("legal_table", "the product class whose rows of legal_tables apply (instead of legal_minimums)", "high-fat"))
 	add(acceptanceFields()...)
 	return t
 }

@@ -47,9 +47,15 @@ type Plant struct {
 	File   string // path as given
 	SHA256 string // of the file's bytes, hex
 	Source []byte // the file's bytes exactly as read (attached to records)
-	System units.System
-	Record []RecordField
-	Inputs []Input // every quantity in file order
+	// LineFile is line_file as written ("" without one) and Line the file it
+	// names, which supplies every top-level block this file does not give
+	// (docs/METHOD.md §16). Records attach and hash both.
+	LineFile    string
+	LineFilePos inputerr.Pos // of line_file's value
+	Line        *SourceFile
+	System      units.System
+	Record      []RecordField
+	Inputs      []Input // every quantity in file order
 
 	Product      Product
 	Flow         Flow
@@ -58,16 +64,47 @@ type Plant struct {
 	Heating      *Heating
 	Cooling      []CoolingStage
 
-	HoldingTube   *HoldingTube
-	Organisms     []Organism
+	HoldingTube *HoldingTube
+	Organisms   []Organism
+	// LegalMinimums are the legal rows judged: legal_minimums as entered, or
+	// the rows of legal_tables that legal_table picks (LegalTable names it).
 	LegalMinimums []LegalRow
-	Economics     *Economics
+	LegalTable    string
+	LegalTables   []LegalTable // as given, every class
+	// LegalPos are where legal_minimums and legal_tables (their keys) and
+	// legal_table (its value) were written; Line 0 when absent.
+	LegalPos  struct{ Minimums, Tables, Table inputerr.Pos }
+	Economics *Economics
 
 	// Acceptance are the acceptance-test results in file order; Diversion
 	// and HACCP are nil when not given (docs/METHOD.md §15).
 	Acceptance []AcceptanceTest
 	Diversion  *Diversion
 	HACCP      *HACCP
+}
+
+// SourceFile is one file a plant was read from.
+type SourceFile struct {
+	File   string // path: as given, or a line file's resolved against the naming file's folder
+	SHA256 string // of Source, hex
+	Source []byte // the bytes exactly as read
+}
+
+// Sources are the files the plant was read from: the plant file, then its
+// line file when it names one.
+func (p *Plant) Sources() []SourceFile {
+	out := []SourceFile{{File: p.File, SHA256: p.SHA256, Source: p.Source}}
+	if p.Line != nil {
+		out = append(out, *p.Line)
+	}
+	return out
+}
+
+// LegalTable is one product class's legal rows (legal_tables).
+type LegalTable struct {
+	Name string
+	Rows []LegalRow
+	Pos  inputerr.Pos // of the name
 }
 
 // Economics prices energy and plates for the what-if of added regeneration plates.
@@ -329,6 +366,7 @@ type LegalRow struct {
 	Temperature Quantity
 	Time        Quantity
 	Pos         inputerr.Pos
+	Field       string // concrete path: "legal_minimums[0]", "legal_tables.cream[1]"
 }
 
 // Pressure is the regenerator pressure check's inputs.

@@ -63,6 +63,8 @@ func valueText(f Field) string {
 		return "list of mappings"
 	case KindWaterOrMapping:
 		return "`" + strings.Join(f.Values, "` or `") + "`, or a mapping"
+	case KindNamed:
+		return "mapping of names (`" + NameKey + "` below stands for each)"
 	case KindDate:
 		return "date YYYY-MM-DD, e.g. `" + f.Example + "`"
 	case KindInterval:

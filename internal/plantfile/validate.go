@@ -2,6 +2,7 @@ package plantfile
 
 import (
 	"fmt"
+	"strings"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/units"
@@ -48,7 +49,7 @@ func Validate(p *Plant) error {
 			e.Pos.File = p.File
 		}
 	}
-	sortErrors(v.errs)
+	sortErrors(v.errs, p.File)
 	return v.errs
 }
 
@@ -319,8 +320,16 @@ func (v *validator) holding(p *Plant) {
 			v.add(o.Pos, f+".required_log_reduction", "expected a number of log reductions from 0 to 100, found %g", o.RequiredLogReduction)
 		}
 	}
-	for i, r := range p.LegalMinimums {
-		v.positive(r.Time, fmt.Sprintf("legal_minimums[%d].time", i))
+	v.legalChoice(p)
+	if p.LegalTable == "" {
+		for _, r := range p.LegalMinimums {
+			v.positive(r.Time, r.Field+".time")
+		}
+	}
+	for _, t := range p.LegalTables {
+		for _, r := range t.Rows {
+			v.positive(r.Time, r.Field+".time")
+		}
 	}
 	h := p.HoldingTube
 	if h == nil {
@@ -376,5 +385,48 @@ func (v *validator) holding(p *Plant) {
 	}
 	if !p.Flow.Rate.Set && !p.Flow.MaxRate.Set {
 		v.add(h.Pos, "flow.max_rate", "missing; the holding time is judged at the sealed maximum flow")
+	}
+}
+
+// legalChoice checks that the legal rows are given one way
+// (docs/METHOD.md §16.2): legal_minimums, or legal_tables with legal_table
+// naming one of its classes. Both at once, a pick without tables or of an
+// unknown class, and tables without a pick are refused.
+func (v *validator) legalChoice(p *Plant) {
+	at := p.LegalPos
+	var names []string
+	for _, t := range p.LegalTables {
+		names = append(names, t.Name)
+	}
+	has := func(pos inputerr.Pos) bool { return pos.Line > 0 }
+	switch {
+	case p.LegalTable != "" && has(at.Minimums):
+		v.add(at.Table, "legal_table", "give legal_table or legal_minimums, not both (legal_minimums at %s)", at.Minimums)
+	case has(at.Minimums) && has(at.Tables):
+		// Pointed at the one written in the file checked, when the other is its line file's.
+		pos, field := at.Minimums, "legal_minimums"
+		if at.Minimums.File != p.File && at.Tables.File == p.File {
+			pos, field = at.Tables, "legal_tables"
+		}
+		v.add(pos, field, "give legal_minimums (one table) or legal_tables (rows by product class, picked with legal_table), not both: legal_minimums at %s, legal_tables at %s",
+			at.Minimums, at.Tables)
+	case p.LegalTable != "" && !has(at.Tables):
+		where := "this file gives no legal_tables"
+		if p.Line != nil {
+			where = "neither this file nor its line file " + p.Line.File + " gives legal_tables"
+		}
+		v.add(at.Table, "legal_table", "%q names a class of legal_tables, but %s", p.LegalTable, where)
+	case p.LegalTable != "":
+		for _, n := range names {
+			if n == p.LegalTable {
+				return
+			}
+		}
+		v.add(at.Table, "legal_table", "no class %q in legal_tables (at %s)%s; the classes are %s", p.LegalTable, at.Tables,
+			didYouMean(p.LegalTable, names), strings.Join(names, ", "))
+	case has(at.Tables) && p.Product.Name != "":
+		v.add(inputerr.Pos{File: p.File, Line: 1, Column: 1}, "legal_table",
+			"missing; legal_tables (at %s) gives the legal rows by product class: pick this product's with legal_table: NAME, one of %s",
+			at.Tables, strings.Join(names, ", "))
 	}
 }

@@ -12,6 +12,7 @@ package record
 
 import (
 	"fmt"
+	"path/filepath"
 	"strings"
 	"time"
 
@@ -27,6 +28,19 @@ import (
 type Options struct {
 	Date      time.Time // the record date; also the PDF creation date
 	PlantName string    // file name for the attachment
+	// LineName is the line file's attachment name (the plant file names one);
+	// default LineAttachmentName.
+	LineName string
+}
+
+// LineAttachmentName is the name a plant's line file is attached under: its
+// base name, or "line-" and it when that is the plant file's own.
+func LineAttachmentName(p *plantfile.Plant, plantName string) string {
+	name := filepath.Base(p.Line.File)
+	if name == plantName {
+		name = "line-" + name
+	}
+	return name
 }
 
 // Build makes the document from check results. The plant file travels in the
@@ -107,6 +121,14 @@ func build(res *assess.Result, opts Options, whatIf *assess.WhatIf) *report.Docu
 		Attachments: []report.Attachment{{Name: opts.PlantName, Content: p.Source,
 			Description: "plant file, SHA-256 " + res.InputSHA256}},
 	}
+	if l := p.Line; l != nil {
+		name := opts.LineName
+		if name == "" {
+			name = LineAttachmentName(p, opts.PlantName)
+		}
+		doc.Attachments = append(doc.Attachments, report.Attachment{Name: name, Content: l.Source,
+			Description: "line file named by the plant file (line_file), SHA-256 " + l.SHA256})
+	}
 	if p.System == units.US {
 		doc.PageSize = "Letter"
 	}
@@ -122,7 +144,7 @@ func build(res *assess.Result, opts Options, whatIf *assess.WhatIf) *report.Docu
 	}
 	doc.Cover = buildCover(res, doc)
 	doc.Sections = []report.Section{
-		inputsSection(res),
+		inputsSection(res, doc),
 		methodSection(res),
 	}
 	if len(res.Sections) > 0 {
@@ -162,8 +184,13 @@ func buildCover(res *assess.Result, doc *report.Document) report.Cover {
 		[2]string{"Record date", doc.Date.Format("2006-01-02")},
 		[2]string{"Plant file", doc.Attachments[0].Name},
 		[2]string{"Plant file SHA-256", res.InputSHA256},
-		[2]string{"Tool", "pasval " + res.Version},
 	)
+	if l := p.Line; l != nil {
+		c.Fields = append(c.Fields,
+			[2]string{"Line file", doc.Attachments[1].Name + " (line_file: " + p.LineFile + "; every block the plant file does not give)"},
+			[2]string{"Line file SHA-256", l.SHA256})
+	}
+	c.Fields = append(c.Fields, [2]string{"Tool", "pasval " + res.Version})
 	for _, ch := range res.Checks {
 		c.Verdicts = append(c.Verdicts, report.Verdict{Check: present.CheckLabel(ch), Pass: ch.Pass})
 	}
@@ -171,16 +198,29 @@ func buildCover(res *assess.Result, doc *report.Document) report.Cover {
 	return c
 }
 
-func inputsSection(res *assess.Result) report.Section {
+func inputsSection(res *assess.Result, doc *report.Document) report.Section {
 	t := report.Table{Caption: "Every quantity entered in the plant file, as written and in SI, with what the field means.",
 		Columns: []report.Column{{Title: "field"}, {Title: "as entered"}, {Title: "SI value", Right: true}, {Title: "SI unit"}, {Title: "meaning"}}}
+	line := res.Plant.Line
+	if line != nil {
+		t.Caption = "Every quantity entered in the plant file and in the blocks its line file gives, as written and in SI, with the file and what the field means."
+		t.Columns = append(t.Columns[:4:4], report.Column{Title: "file"}, t.Columns[4])
+	}
 	for _, in := range res.Plant.Inputs {
 		f, _ := plantfile.Lookup(in.Field)
 		unit := in.SIUnit
 		if unit == "1" || unit == "" {
 			unit = "— (a number)" // dimensionless: no unit to print
 		}
-		t.Rows = append(t.Rows, []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), unit, f.Description})
+		row := []string{in.Field, in.Text, fmt.Sprintf("%.6g", in.SI), unit, f.Description}
+		if line != nil {
+			from := doc.Attachments[0].Name
+			if in.Pos.File == line.File {
+				from = doc.Attachments[1].Name
+			}
+			row = append(row[:4:4], from, f.Description)
+		}
+		t.Rows = append(t.Rows, row)
 	}
 	pp := res.Product
 	kv := report.KeyValues{Pairs: [][2]string{

@@ -47,6 +47,16 @@ type obj = map[string]any
 func PlantFile() map[string]any {
 	s := node(plantfile.Field{Value: plantfile.KindMapping,
 		Description: "A pasval plant file: a continuous pasteurizer described once, every quantity with its unit."}, "")
+	// A file names its line file, or gives product and process itself, or
+	// is a line file (neither product nor process): docs/METHOD.md §16.1.
+	if req, ok := s["required"]; ok {
+		delete(s, "required")
+		s["anyOf"] = []any{
+			obj{"required": req},
+			obj{"required": []any{"line_file"}},
+			obj{"not": obj{"anyOf": []any{obj{"required": []any{"product"}}, obj{"required": []any{"process"}}}}},
+		}
+	}
 	s["$schema"] = "https://json-schema.org/draft/2020-12/schema"
 	s["$id"] = ID
 	s["title"] = "pasval plant file"
@@ -87,6 +97,10 @@ func node(f plantfile.Field, path string) obj {
 		return object(desc, path, f.OneOf)
 	case plantfile.KindList:
 		return obj{"type": "array", "minItems": 1, "description": desc, "items": object(f.Description, path, nil)}
+	case plantfile.KindNamed:
+		item := plantfile.Children(path)[0]
+		return obj{"type": "object", "minProperties": 1, "description": desc, "properties": obj{},
+			"propertyNames": obj{"pattern": plantfile.NamePattern}, "additionalProperties": node(item, item.Path)}
 	case plantfile.KindDate:
 		return obj{"type": "string", "format": "date", "pattern": DatePattern, "description": desc + " (an ISO 8601 date YYYY-MM-DD, e.g. " + f.Example + ")"}
 	case plantfile.KindInterval:

@@ -77,9 +77,10 @@ func datesAsText(v any) any {
 func TestDemosAndStartersMatchTheSchema(t *testing.T) {
 	s := compile(t)
 	files, _ := filepath.Glob("../../testdata/demo/*.yaml")
+	sets, _ := filepath.Glob("../../testdata/demo/*/*.yaml") // a line file and its product files
 	more, _ := filepath.Glob("../../testdata/equivalence/*.yaml")
 	starters, _ := filepath.Glob("../../cmd/pasval/starter/*.yaml")
-	files = append(append(files, more...), starters...)
+	files = append(append(append(files, sets...), more...), starters...)
 	if len(files) < 6 {
 		t.Fatalf("only %d files", len(files))
 	}
@@ -119,6 +120,9 @@ var (
 		"no-u-value", "plate-pack-plates-mismatch", "plate-pack-angle-range", "plate-pack-angle-celsius", "plate-pack-one-side-passes",
 		"plate-pack-no-conductivity", "plate-pack-missing-side", "plate-pack-unequal-channels", "plate-pack-enlargement",
 		"plate-pack-medium-no-viscosity",
+		// Product files on a line: rules across files (the line file alone,
+		// a cycle, a chain, a missing file, a legal class or both ways of rows).
+		"line-for-bad", "line-unknown-table", "line-cycle-a", "line-cycle-b", "line-chain", "line-chain-middle", "line-missing", "line-both-legal",
 		"below-absolute-zero", "cocurrent-regenerator", "cocurrent-regenerator-half", "composition-sum", "cooling-cross", "economics-hours",
 		"economics-negative-price", "heating-cross", "heating-starved", "holding-ambient-above-setpoint", "holding-heat-loss-absurd",
 		"holding-heat-loss-no-od", "holding-credit-without-heat-loss", "holding-no-viscosity", "holding-ratio-below-one", "holding-rise-above-length",
