@@ -1,5 +1,8 @@
 package main
 
+// Expected outcomes come from the record's own definition (docs/METHOD.md §13.7:
+// byte comparison after re-rendering); no external source applies to them.
+
 import (
 	"bytes"
 	"os"
