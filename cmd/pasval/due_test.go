@@ -20,9 +20,9 @@ func TestDueCommand(t *testing.T) {
 		code int
 		frag string
 	}{
-		{"today: nothing overdue", []string{"due", milk}, exitPass, "2 due within 30 days"},
-		// 2026-06-09 + 6 months = 2026-12-09, overdue on 2027-01-15.
-		{"later: overdue", []string{"due", milk, "--on", "2027-01-15"}, exitFail, "2 overdue, 0 never done"},
+		{"today: nothing overdue", []string{"due", milk}, exitPass, "nothing overdue or never done (7 tests, 1 with no interval entered)"},
+		// 2026-11-10 + 2 years = 2028-11-10, overdue on 2028-11-15.
+		{"later: overdue", []string{"due", milk, "--on", "2028-11-15"}, exitFail, "1 overdue, 0 never done"},
 		// The frozen-dessert demo enters only its holding-time test.
 		{"never done", []string{"due", filepath.Join(demoDir, "frozen-dessert-si.yaml")}, exitFail, "0 overdue, 5 never done"},
 		{"a date that is not one", []string{"due", milk, "--on", "15/01/2027"}, exitInput, "--on must be a date YYYY-MM-DD"},
@@ -37,7 +37,7 @@ func TestDueCommand(t *testing.T) {
 		})
 	}
 	var out bytes.Buffer
-	if code := run([]string{"due", milk, "--json", "--on", "2027-01-15"}, &out, &bytes.Buffer{}); code != exitFail {
+	if code := run([]string{"due", milk, "--json", "--on", "2028-11-15"}, &out, &bytes.Buffer{}); code != exitFail {
 		t.Fatalf("json: exit %d", code)
 	}
 	var rep struct {
@@ -48,8 +48,8 @@ func TestDueCommand(t *testing.T) {
 		t.Fatal(err)
 	}
 	first := rep.Tests[0]
-	if rep.On != "2027-01-15" || len(rep.Tests) != 7 || first["test"] != "holding-time" || first["last_date"] != "2026-06-09" ||
-		first["last_pass"] != true || first["next_due"] != "2026-12-09" || first["state"] != "overdue" {
+	if rep.On != "2028-11-15" || len(rep.Tests) != 7 || first["test"] != "holding-time" || first["last_date"] != "2026-11-10" ||
+		first["last_pass"] != true || first["next_due"] != "2028-11-10" || first["state"] != "overdue" {
 		t.Errorf("json %+v", rep)
 	}
 }
@@ -66,5 +66,21 @@ func TestSourceDateEpoch(t *testing.T) {
 	if code := run([]string{"due", filepath.Join(demoDir, "htst-milk-si.yaml")}, &bytes.Buffer{}, &errb); code != exitInput ||
 		!strings.Contains(errb.String(), "SOURCE_DATE_EPOCH must be a whole number of seconds") {
 		t.Errorf("exit %d %q", code, errb.String())
+	}
+}
+
+func TestDemoStaysCurrent(t *testing.T) {
+	// The README's quick start checks the SI demo on the day it is run: its
+	// acceptance results must not fall stale for years (the invented demo
+	// results are dated 2026-11 with intervals of two years and more), so
+	// check passes on each of these review dates, for the demo and its exact
+	// US-unit twin.
+	for _, plant := range []string{filepath.Join(demoDir, "htst-milk-si.yaml"), "../../testdata/equivalence/htst-milk-us.yaml"} {
+		for _, on := range []string{"2026-12-01", "2027-06-01", "2027-12-10", "2028-06-01", "2028-10-01"} {
+			var out, errb bytes.Buffer
+			if code := run([]string{"check", plant, "--date", on}, &out, &errb); code != exitPass {
+				t.Errorf("%s on %s: exit %d\n%s%s", filepath.Base(plant), on, code, out.String(), errb.String())
+			}
+		}
 	}
 }
