@@ -8,10 +8,12 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -401,5 +403,47 @@ holding_tube:
 	out, _, _ := runBinary(t, "check", path)
 	if !regexp.MustCompile(`Holding tube \(judged at the sealed maximum, 10[0-9]{3} L/h at the setpoint density \(10000 L/h at 10[0-9]{2}\.[0-9] kg/m³\)\)`).MatchString(out) {
 		t.Errorf("heading:\n%s", out)
+	}
+}
+
+func TestPrintedRiseMeetsTheRow(t *testing.T) {
+	// The dessert base (17.12 s in the tube, TestSensorAccuracyIsJudged) set
+	// at 72.25 °C with a ±0.5 °C sensor is judged at 71.75 °C, where only the
+	// 63 °C/30 min row applies and fails; the 72 °C/15 s row needs the
+	// setpoint 0.25 K (0.45 °F) higher. The printed rise is rounded up at its
+	// precision (0.3 K, 0.5 °F), so that the setpoint raised by exactly what
+	// is printed meets the row (hand calculation; docs/METHOD.md §10.1).
+	src, err := os.ReadFile(filepath.Join(judgingDir, "dessert-accuracy-si.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	plant := func(setpoint string) string {
+		text := strings.NewReplacer("hold_setpoint: 86 °C", "hold_setpoint: "+setpoint,
+			"  - {temperature: 80 °C, time: 25 s}\n  - {temperature: 83 °C, time: 25 s}\n  - {temperature: 86 °C, time: 15 s}\n",
+			"  - {temperature: 63 °C, time: 30 min}\n  - {temperature: 72 °C, time: 15 s}\n").Replace(string(src))
+		path := filepath.Join(t.TempDir(), "rise.yaml")
+		if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return path
+	}
+	rise := regexp.MustCompile(`the (\S+) (°C|°F) row would be met with the setpoint (\S+) (K|°F) higher`)
+	for _, c := range []struct {
+		units, want string
+		toK         float64
+	}{{"si", "0.3", 1}, {"us", "0.5", 5.0 / 9}} {
+		out, _, code := runBinary(t, "check", plant("72.25 °C"), "--units", c.units)
+		m := rise.FindStringSubmatch(strings.Join(strings.Fields(out), " "))
+		if code != exitFail || m == nil || m[3] != c.want {
+			t.Fatalf("%s: exit %d, rise %q, want %s:\n%s", c.units, code, m, c.want, out)
+		}
+		printed, err := strconv.ParseFloat(m[3], 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, _ := judged(t, plant(fmt.Sprintf("%.6f °C", 72.25+printed*c.toK)))
+		if pass, _, _ := r.check(t, "holding-time"); !pass {
+			t.Errorf("%s: the setpoint raised by the printed %s %s still fails the row", c.units, m[3], m[4])
+		}
 	}
 }

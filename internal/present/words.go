@@ -227,14 +227,22 @@ func (d Display) flow(q float64) string {
 // non-zero (a small flow is not printed "0 gpm").
 func (d Display) Flow(q float64) string { return d.flow(q) }
 
-// riseText is a setpoint rise, with enough digits to be non-zero.
+// riseText is a setpoint rise that is enough: rounded up at the printed
+// precision (0.25 K prints "0.3 K", never "0.2 K", which would not reach the
+// row), with enough digits to be non-zero.
 func (d Display) riseText(k float64) string {
-	for prec := 1; prec < 6; prec++ {
-		if s := d.With(k, units.TemperatureDifference, prec); strings.Trim(d.Num(k, units.TemperatureDifference, prec), "0.") != "" {
-			return s
+	prec := 1
+	for ; prec < 6; prec++ {
+		if strings.Trim(d.Num(k, units.TemperatureDifference, prec), "0.") != "" {
+			break
 		}
 	}
-	return d.With(k, units.TemperatureDifference, 6)
+	unit := d.Unit(units.TemperatureDifference)
+	scale := math.Pow(10, float64(prec))
+	// Up, but not past a value that is whole at this precision by the last
+	// bits of rounding (3.0000000001 K stays "3.0 K").
+	v := math.Ceil(units.FromSI(k, units.TemperatureDifference, unit)*scale-1e-6) / scale
+	return fmt.Sprintf("%.*f %s", prec, v, unit)
 }
 
 // coldLimit is the cold outlet limit: 7 °C, or 45 °F in US units.
