@@ -131,7 +131,7 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 	if len(res.Acceptance) > 0 {
 		writeAcceptance(w, res, d)
 	}
-	writeChecks(w, res, d, colour)
+	writeChecks(w, res, d, colour, present.Overall(res))
 	writeWarnings(w, present.Warnings(res, d))
 	writeNotes(w, present.Notes(res, d))
 	fmt.Fprint(w, "\n"+wrap(res.Caution, "Caution:", 88))
@@ -153,7 +153,9 @@ func writeSections(w io.Writer, res *assess.Result, d present.Display) {
 	}
 }
 
-func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool) {
+// writeChecks prints the checks and the Result line, overall (the checks of
+// check, or hold's of the holding tube alone).
+func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool, overall string) {
 	fmt.Fprintln(w, "\nChecks")
 	if len(res.Checks) == 0 {
 		fmt.Fprintln(w, "  none apply: every section is in sizing mode and no holding tube or kinetics are described")
@@ -163,7 +165,7 @@ func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool
 	t := tableOf(present.Checks(res, d))
 	t.colour = colour
 	t.write(w)
-	fmt.Fprintf(w, "\nResult: %s\n", present.Overall(res))
+	fmt.Fprintf(w, "\nResult: %s\n", overall)
 	if res.Margins != nil {
 		fmt.Fprintf(w, "Margins: %s\n", present.MarginsLine(res.Margins, d)) // one line; pasval margins has the tables
 	}

@@ -33,10 +33,11 @@ meet each legal row; and a table of each organism's log reduction and the
 legal table for diversion setpoints from 1 K below to 2 K above the entered
 one (whole °F in US units).
 
-Only the holding-tube checks (holding-time, log-reduction, tube-slope, and
-acceptance-holding-time: a measured holding-time test converted to the
-product, judged on today's date) decide the exit status here; 'pasval check'
-judges the whole line.`,
+Only the holding-tube checks (holding-time, log-reduction, tube-slope,
+diversion-timing: the fastest particle from the diversion sensor to the
+valve, and acceptance-holding-time: a measured holding-time test converted
+to the product, judged on today's date) decide the exit status here, and the
+Result line says so; 'pasval check' judges every check of the line.`,
 		Example: `  pasval hold testdata/demo/frozen-dessert-si.yaml
   pasval hold line2.yaml --units us
   pasval hold line2.yaml --json`,
@@ -116,7 +117,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 		fmt.Fprintf(out, "pasval %s · holding tube of %s\n%s", res.Version, p.File, inputHashes(res))
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
-		writeChecks(out, &only, d, useColour(out))
+		writeChecks(out, &only, d, useColour(out), present.HoldingOverall(&only))
 		writeWarnings(out, present.Warnings(&only, d))
 		writeNotes(out, present.Notes(res, d))
 		fmt.Fprint(out, "\n"+wrap(res.Caution, "Caution:", 88))

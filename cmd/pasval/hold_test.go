@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -192,5 +193,49 @@ func TestHoldCommand(t *testing.T) {
 	_, errs, code = runBinary(t, "hold", p)
 	if code != 2 || !strings.Contains(errs, "holding_tube") {
 		t.Errorf("hold without a tube: exit %d %q", code, errs)
+	}
+}
+
+func TestHoldJudgesTheHoldingTubeOnly(t *testing.T) {
+	// The SI demo with a valve that takes 2.0 s to divert: the fastest
+	// particle needs 1.68 s from the diversion sensor to the valve (README,
+	// docs/METHOD.md §15.4), so diversion-timing fails. It belongs to the
+	// holding tube, whose end the diversion sensor and valve are: hold fails
+	// too. Its Result line says that it judges the holding tube alone.
+	src, err := os.ReadFile(filepath.Join(demoDir, "htst-milk-si.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	slow := strings.Replace(string(src), "time: 0.9 s", "time: 2.0 s", 1)
+	if slow == string(src) {
+		t.Fatal("the demo's valve-response test was not found")
+	}
+	path := filepath.Join(t.TempDir(), "slow-valve.yaml")
+	if err := os.WriteFile(path, []byte(slow), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	r, code := holdOf(t, "hold", path)
+	found := false
+	for _, c := range r.Checks {
+		if c.ID == "diversion-timing" {
+			found = true
+			closeTo(t, "travel time", c.Actual, 1.68, 0.005)
+			if c.Pass {
+				t.Error("diversion-timing passes with a 2.0 s valve")
+			}
+		}
+	}
+	if !found || code != exitFail || r.Pass {
+		t.Errorf("hold: diversion-timing shown %v, exit %d, pass %v; want shown, 1, false", found, code, r.Pass)
+	}
+	// The cream on the demo line fails its regenerator's pressure drop, a
+	// check of the line: hold passes it, and says what it left out.
+	cream := filepath.Join(demoDir, "dairy-line-si", "cream.yaml")
+	out, _, code := runBinary(t, "hold", cream)
+	if code != exitPass || !strings.Contains(out, "Result: PASS, all 3 checks of the holding tube pass; hold judges the holding tube only: 'pasval check' judges every check") {
+		t.Errorf("hold of the cream: exit %d\n%s", code, out)
+	}
+	if _, _, code := runBinary(t, "check", cream); code != exitFail {
+		t.Errorf("check of the cream: exit %d, want 1", code)
 	}
 }

@@ -41,8 +41,9 @@ const (
 // checks, in the order they are printed.
 type CheckDef struct {
 	ID CheckID
-	// Holding is true for checks that judge the holding tube alone: 'pasval
-	// hold' shows these and decides its exit status by them.
+	// Holding is true for checks that judge the holding tube alone (with the
+	// diversion sensor and valve at its end): 'pasval hold' shows these and
+	// decides its exit status by them.
 	Holding    bool
 	Limit      Limit
 	Unit       string // of Required and Actual: "°C", "s", "Pa", "slope", "log"
@@ -84,7 +85,7 @@ var checkDefs = []CheckDef{
 	{AcceptanceRegeneratorPressure, false, AtLeast, "Pa", "Pa",
 		"(latest `regenerator-pressure` result) the measured difference ≥ the required margin, not past its interval", ""},
 	{AcceptanceOther, false, AtLeast, "pass", "pass", "(latest `other` result of each name) passed as entered, not past its interval", ""},
-	{DiversionTiming, false, AtLeast, "s", "s",
+	{DiversionTiming, true, AtLeast, "s", "s",
 		"(`diversion` entered) the fastest particle's travel time from the sensor to the valve at the worst flow ≥ the valve's response time", ""},
 }
 

@@ -99,8 +99,12 @@ func TestHoldingChecksComeFromTheRegistry(t *testing.T) {
 			holding = append(holding, d.ID)
 		}
 	}
-	// The measured holding time converted to the product judges the tube too.
-	if len(holding) != 4 || holding[0] != TubeSlope || holding[1] != HoldingTime || holding[2] != LogReduction || holding[3] != AcceptanceHoldingTime {
+	// The measured holding time converted to the product judges the tube
+	// too, and so does the diversion timing: the diversion sensor and valve
+	// are the tube's end, and the fastest particle's travel between them is
+	// the tube's hydraulics (docs/METHOD.md §15.4).
+	if len(holding) != 5 || holding[0] != TubeSlope || holding[1] != HoldingTime || holding[2] != LogReduction ||
+		holding[3] != AcceptanceHoldingTime || holding[4] != DiversionTiming {
 		t.Errorf("holding checks %v", holding)
 	}
 }

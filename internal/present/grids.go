@@ -146,6 +146,26 @@ func Overall(res *assess.Result) string {
 	return fmt.Sprintf("FAIL, %d of %d checks fail", failed, len(res.Checks))
 }
 
+// HoldingOverall is the one-line result of hold, whose checks are the
+// holding tube's alone (res holds only those): it says so, and names the
+// command that judges every check.
+func HoldingOverall(res *assess.Result) string {
+	failed := 0
+	for _, c := range res.Checks {
+		if !c.Pass {
+			failed++
+		}
+	}
+	const only = "; hold judges the holding tube only: 'pasval check' judges every check"
+	switch {
+	case len(res.Checks) == 0:
+		return "no check of the holding tube applies: nothing was judged" + only
+	case failed == 0:
+		return fmt.Sprintf("PASS, all %d checks of the holding tube pass", len(res.Checks)) + only
+	}
+	return fmt.Sprintf("FAIL, %d of %d checks of the holding tube fail", failed, len(res.Checks)) + only
+}
+
 // HoldingFacts are the holding tube's labelled values.
 func HoldingFacts(res *assess.Result, d Display) [][2]string {
 	h := res.HoldingTube
