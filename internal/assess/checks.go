@@ -61,7 +61,7 @@ var checkDefs = []CheckDef{
 	{TubeSlope, true, AtLeast, "slope", "slope", "(rise entered) rise/length ≥ `min_slope`",
 		"continuous upward slope of the holding tube (rise/length)"},
 	{HoldingTime, true, AtLeast, "s", "s",
-		"(legal rows entered) some row has temperature ≤ setpoint and time ≤ the fastest particle's time", ""},
+		"(legal rows entered) some row has temperature ≤ the judged temperature (setpoint − sensor accuracy) and time ≤ the fastest particle's time at the worst flow", ""},
 	{LogReduction, true, AtLeast, "log", "log", "(per organism with `required_log_reduction`) fastest-particle log reduction ≥ required", ""},
 	{HeatingMedium, false, AtLeast, "°C", "K",
 		"(heating in rating mode) the medium inlet needed by the installed plates ≤ the hottest available", ""},

@@ -109,6 +109,17 @@ func TestHoldingChecksComeFromTheRegistry(t *testing.T) {
 	}
 }
 
+func TestHoldingTimeRuleNamesTheJudgedTemperature(t *testing.T) {
+	// The legal table is met at the judged temperature, the setpoint less the
+	// sensor accuracy, at the worst flow (docs/METHOD.md §10.1): the README's
+	// rule must not say "setpoint".
+	rule := DefOf(HoldingTime).PassesWhen
+	if !strings.Contains(rule, "temperature ≤ the judged temperature") || !strings.Contains(rule, "worst flow") ||
+		strings.Contains(rule, "≤ setpoint") {
+		t.Errorf("holding-time passes when %q", rule)
+	}
+}
+
 func TestReadmeChecksTable(t *testing.T) {
 	path := "../../README.md"
 	data, err := os.ReadFile(path)
