@@ -88,9 +88,13 @@ type Lethality struct {
 	Organism string `json:"organism"`
 	// LogReduction is the judged value: at the judged temperature and the
 	// worst flow, the tube isothermal unless the heat-loss credit is taken.
-	LogReduction         float64 `json:"log_reduction"`
-	RequiredLogReduction float64 `json:"required_log_reduction"`
-	LogReductionAtSet    float64 `json:"log_reduction_at_setpoint"`
+	LogReduction float64 `json:"log_reduction"`
+	// RequiredLogReduction is organisms[].required_log_reduction; null when
+	// none is entered: the reduction is then reported, not judged (Judged
+	// false, Pass null).
+	RequiredLogReduction *float64 `json:"required_log_reduction"`
+	Judged               bool     `json:"judged"`
+	LogReductionAtSet    float64  `json:"log_reduction_at_setpoint"`
 	LogReductionAtSeal   float64 `json:"log_reduction_at_seal"`
 	LogReductionIso      float64 `json:"log_reduction_isothermal"`
 	// LogReductionCredit is with the heat-loss profile; absent without heat loss.
@@ -99,7 +103,7 @@ type Lethality struct {
 	EquivalentTimeS    float64  `json:"equivalent_time_s"` // at the organism's D_temperature, judged case
 	DAtSetpointS       float64  `json:"D_at_setpoint_s"`
 	DAtJudgedS         float64  `json:"D_at_judged_temperature_s"`
-	Pass               bool     `json:"pass"`
+	Pass               *bool    `json:"pass"` // null when not judged
 	// Along is the accumulated log reduction of the judged case at
 	// AlongStations+1 stations from the tube inlet to its outlet, for the
 	// record's plot.
@@ -185,10 +189,13 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 	}
 	for i, org := range in.Organisms {
 		o := ev.Organisms[i]
-		l := Lethality{Organism: org.Name, LogReduction: o.LogReduction, RequiredLogReduction: org.RequiredLogReduction,
+		l := Lethality{Organism: org.Name, LogReduction: o.LogReduction,
 			LogReductionAtSet: o.AtSetpoint, LogReductionAtSeal: o.AtSeal, LogReductionIso: o.Isothermal, FlowM3s: o.FlowM3s,
-			EquivalentTimeS: o.EquivTime, DAtSetpointS: org.DAt(in.Setpoint), DAtJudgedS: org.DAt(ev.JudgedC),
-			Pass: NewCheck(LogReduction, org.RequiredLogReduction, o.LogReduction).Pass, Along: o.Along}
+			EquivalentTimeS: o.EquivTime, DAtSetpointS: org.DAt(in.Setpoint), DAtJudgedS: org.DAt(ev.JudgedC), Along: o.Along}
+		if in.Judged[i] {
+			req, pass := org.RequiredLogReduction, NewCheck(LogReduction, org.RequiredLogReduction, o.LogReduction).Pass
+			l.RequiredLogReduction, l.Judged, l.Pass = &req, true, &pass
+		}
 		if !math.IsNaN(o.Credit) {
 			c := o.Credit
 			l.LogReductionCredit = &c

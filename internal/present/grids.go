@@ -269,10 +269,10 @@ func Lethality(res *assess.Result, d Display) Grid {
 	}
 	headers = append(headers, ">required", ">equivalent time at D temperature")
 	g := grid(headers...)
-	for i, l := range res.Lethality {
+	for _, l := range res.Lethality {
 		req := "—"
-		if res.Plant.Organisms[i].RequiredSet {
-			req = fmt.Sprintf("%.2f", l.RequiredLogReduction)
+		if l.RequiredLogReduction != nil {
+			req = fmt.Sprintf("%.2f", *l.RequiredLogReduction)
 		}
 		cells := []string{l.Organism, fmt.Sprintf("%.4g s", l.DAtJudgedS), LogText(l.LogReduction)}
 		if atSeal {

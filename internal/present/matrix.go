@@ -68,8 +68,8 @@ func MatrixLethality(ps []assess.OnLine) Grid {
 		name := ProductName(o)
 		for _, l := range o.Result.Lethality {
 			req := "—"
-			if l.RequiredLogReduction > 0 {
-				req = fmt.Sprintf("%.2f", l.RequiredLogReduction)
+			if l.RequiredLogReduction != nil {
+				req = fmt.Sprintf("%.2f", *l.RequiredLogReduction)
 			}
 			g.add(name, l.Organism, fmt.Sprintf("%.2f", l.LogReduction), req)
 			name = ""
