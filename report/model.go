@@ -56,17 +56,25 @@ const KindMatrix = "matrix"
 
 // Cover is the first page's identification and verdict box.
 type Cover struct {
-	Fields    [][2]string // label, value
-	Verdicts  []Verdict
-	Overall   string
-	Pass      bool
+	Fields   [][2]string // label, value
+	Verdicts []Verdict
+	Overall  string
+	Pass     bool
+	// NotJudged is true when nothing was judged (no check applies): Pass is
+	// then true, and the record says NOT JUDGED, never PASS.
+	NotJudged bool
+	// Margins is a line under the verdicts (the margins under uncertainty),
+	// when there is one.
+	Margins   string
 	Statement string // what the record is and is not
 }
 
-// Verdict is one line of the verdict box.
+// Verdict is one line of the verdict box; NotJudged: nothing was judged
+// (a product no check applies to).
 type Verdict struct {
-	Check string
-	Pass  bool
+	Check     string
+	Pass      bool
+	NotJudged bool
 }
 
 // Section is a numbered part of the record.

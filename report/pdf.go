@@ -154,6 +154,12 @@ func (r *renderer) cover() {
 	c := r.doc.Cover
 	rows := len(c.Verdicts)
 	boxH := float64(rows)*5.5 + 17
+	var margins []string
+	if c.Margins != "" {
+		r.font("", bodySize)
+		margins = r.f.SplitText(printable(c.Margins), r.w-8)
+		boxH += float64(len(margins))*lineH + 1
+	}
 	x, y := margin, f.GetY()
 	if y+boxH > 260 {
 		f.AddPage()
@@ -172,7 +178,10 @@ func (r *renderer) cover() {
 		r.font("B", bodySize)
 		col := colPass
 		word := "PASS"
-		if !v.Pass {
+		switch {
+		case v.NotJudged:
+			col, word = [3]int{0, 0, 0}, "NOT JUDGED"
+		case !v.Pass:
 			col, word = colFail, "FAIL"
 		}
 		f.SetTextColor(col[0], col[1], col[2])
@@ -182,6 +191,11 @@ func (r *renderer) cover() {
 	f.SetX(x + 4)
 	r.font("B", 10)
 	f.CellFormat(r.w-8, 7, printable(c.Overall), "T", 1, "L", false, 0, "")
+	r.font("", bodySize)
+	for _, l := range margins {
+		f.SetX(x + 4)
+		f.CellFormat(r.w-8, lineH, l, "", 1, "L", false, 0, "")
+	}
 	f.SetY(y + boxH + 5)
 	r.para(c.Statement, bodySize, "")
 	f.Ln(2)

@@ -97,9 +97,9 @@ const (
 // overall result, each verdict and each attached file's hash.
 func keywords(doc *Document) string {
 	kw := []string{KeywordPrefix + doc.SHA256, versionToken + url.QueryEscape(doc.Version), dateToken + doc.Date.Format("2006-01-02"),
-		resultToken + passWord(doc.Cover.Pass)}
+		resultToken + resultWord(doc.Cover.Pass, doc.Cover.NotJudged)}
 	for _, v := range doc.Cover.Verdicts {
-		kw = append(kw, verdictToken+url.QueryEscape(v.Check)+"="+passWord(v.Pass))
+		kw = append(kw, verdictToken+url.QueryEscape(v.Check)+"="+resultWord(v.Pass, v.NotJudged))
 	}
 	for _, a := range doc.Attachments {
 		sum := sha256.Sum256(a.Content)
@@ -117,8 +117,15 @@ func keywords(doc *Document) string {
 	return strings.Join(kw, " ")
 }
 
-func passWord(pass bool) string {
-	if pass {
+// notJudgedWord is the metadata's result of a record, or a verdict, where
+// nothing was judged.
+const notJudgedWord = "not-judged"
+
+func resultWord(pass, notJudged bool) string {
+	switch {
+	case notJudged:
+		return notJudgedWord
+	case pass:
 		return "pass"
 	}
 	return "fail"
@@ -131,9 +138,11 @@ type Stored struct {
 	RecordedSHA256 string // the plant file's hash in the metadata
 	// Version, Date, Pass and Verdicts are empty (HasVerdicts false) in a
 	// record that does not carry them.
-	Version     string
-	Date        time.Time
-	Pass        bool
+	Version string
+	Date    time.Time
+	Pass    bool
+	// NotJudged is a record of which nothing was judged (Pass is then true).
+	NotJudged   bool
 	Verdicts    []Verdict
 	HasVerdicts bool
 	Attachments []Attachment // in the order the record lists them; the plant file first
@@ -206,14 +215,15 @@ func Read(pdf []byte) (st *Stored, err error) {
 				st.Date = d // a malformed date leaves the zero date, which no record carries
 			}
 		case strings.HasPrefix(tok, resultToken):
-			st.Pass = strings.TrimPrefix(tok, resultToken) == "pass"
+			word := strings.TrimPrefix(tok, resultToken)
+			st.Pass, st.NotJudged = word == "pass" || word == notJudgedWord, word == notJudgedWord
 			st.HasVerdicts = true
 		case strings.HasPrefix(tok, verdictToken):
 			label, word, _ := strings.Cut(strings.TrimPrefix(tok, verdictToken), "=")
 			if l, err := url.QueryUnescape(label); err == nil {
 				label = l // else kept as written: it then matches no recomputed check
 			}
-			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass"})
+			st.Verdicts = append(st.Verdicts, Verdict{Check: label, Pass: word == "pass" || word == notJudgedWord, NotJudged: word == notJudgedWord})
 		case strings.HasPrefix(tok, inputToken):
 			name, sum, _ := strings.Cut(strings.TrimPrefix(tok, inputToken), "=")
 			if n, err := url.QueryUnescape(name); err == nil {

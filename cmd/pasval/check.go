@@ -110,8 +110,7 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 	pp := res.Product
 	fmt.Fprintf(w, "Product  %s: density %s, specific heat %s%s\n", p.Product.Name,
 		d.With(pp.Density, units.Density, 1), d.With(pp.SpecificHeat, units.SpecificHeat, 3), map[bool]string{true: " (from composition)"}[pp.FromComposition])
-	fmt.Fprintf(w, "Flow     %s normal, %s sealed maximum\n",
-		d.With(pp.MassFlow/pp.Density, units.VolumeFlow, 0), d.With(pp.MaxMassFlow/pp.Density, units.VolumeFlow, 0))
+	fmt.Fprintf(w, "Flow     %s\n", present.FlowText(res, d))
 	pr := p.Process
 	fmt.Fprintf(w, "Process  raw %s → hold setpoint %s", d.With(pr.RawInlet.SI, units.Temperature, 1), d.With(pr.HoldSetpoint.SI, units.Temperature, 1))
 	if pr.OutletTarget.Set {
@@ -159,7 +158,7 @@ func writeChecks(w io.Writer, res *assess.Result, d present.Display, colour bool
 	fmt.Fprintln(w, "\nChecks")
 	if len(res.Checks) == 0 {
 		fmt.Fprintln(w, "  none apply: every section is in sizing mode and no holding tube or kinetics are described")
-		fmt.Fprintln(w, "\nResult: no check failed (nothing was judged)")
+		fmt.Fprintf(w, "\nResult: %s\n", overall)
 		return
 	}
 	t := tableOf(present.Checks(res, d))

@@ -407,7 +407,10 @@ func writeMatrixRecord(line *plantfile.Plant, rows []assess.OnLine, path string,
 		return usagef("%v", err)
 	}
 	verdict := "PASS"
-	if !doc.Cover.Pass {
+	switch {
+	case doc.Cover.NotJudged:
+		verdict = present.NotJudged
+	case !doc.Cover.Pass:
 		verdict = "FAIL"
 	}
 	fmt.Fprintf(out, "wrote %s: %d pages, %s, line file sha256 %s and %d product files\n", path, pages, verdict, line.SHA256, len(rows))

@@ -15,6 +15,7 @@ import (
 	"pasval/internal/assess"
 	"pasval/internal/fileout"
 	"pasval/internal/plantfile"
+	"pasval/internal/present"
 	"pasval/internal/record"
 	"pasval/internal/units"
 	"pasval/report"
@@ -213,9 +214,9 @@ func writeRecord(res *assess.Result, path string, date time.Time, force bool, ou
 	if err := fileout.Write(path, pdf, force); err != nil {
 		return usagef("%v", err)
 	}
-	verdict := "PASS"
-	if !res.Pass {
-		verdict = "FAIL"
+	verdict := present.VerdictWord(res)
+	if !res.Judged {
+		verdict = present.NotJudged
 	}
 	line := ""
 	if l := res.LineFile; l != nil {

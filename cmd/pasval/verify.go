@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"reflect"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -183,16 +182,17 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 	ok := true
 	switch {
 	case !st.HasVerdicts:
-		fmt.Fprintf(out, "verdicts                    recomputed %s; the record stores none to compare\n", passWord(cover.Pass))
-	case st.Pass == cover.Pass && reflect.DeepEqual(st.Verdicts, cover.Verdicts):
+		fmt.Fprintf(out, "verdicts                    recomputed %s; the record stores none to compare\n", resultWord(cover.Pass, cover.NotJudged))
+	case st.Pass == cover.Pass && st.NotJudged == cover.NotJudged && equalVerdicts(st.Verdicts, cover.Verdicts):
 		what := "checks"
 		if st.Kind == report.KindMatrix {
 			what = "products"
 		}
-		fmt.Fprintf(out, "verdicts                    stored %s, recomputed %s (%d %s)  match\n", passWord(st.Pass), passWord(cover.Pass), len(cover.Verdicts), what)
+		fmt.Fprintf(out, "verdicts                    stored %s, recomputed %s (%d %s)  match\n", resultWord(st.Pass, st.NotJudged),
+			resultWord(cover.Pass, cover.NotJudged), len(cover.Verdicts), what)
 	default:
-		fmt.Fprintf(out, "verdicts                    stored %s (%s), recomputed %s (%s)  DIFFER\n", passWord(st.Pass), verdictList(st.Verdicts),
-			passWord(cover.Pass), verdictList(cover.Verdicts))
+		fmt.Fprintf(out, "verdicts                    stored %s (%s), recomputed %s (%s)  DIFFER\n", resultWord(st.Pass, st.NotJudged),
+			verdictList(st.Verdicts), resultWord(cover.Pass, cover.NotJudged), verdictList(cover.Verdicts))
 		ok = false
 	}
 	signed := report.Signed(pdf)
@@ -276,17 +276,27 @@ func verifySignatures(pdf []byte, out io.Writer) bool {
 	return ok
 }
 
-func passWord(pass bool) string {
-	if pass {
+// resultWord is a stored or recomputed result: PASS, FAIL, or NOT JUDGED
+// when nothing was judged.
+func resultWord(pass, notJudged bool) string {
+	switch {
+	case notJudged:
+		return "NOT JUDGED"
+	case pass:
 		return "PASS"
 	}
 	return "FAIL"
 }
 
+func passWord(pass bool) string { return resultWord(pass, false) }
+
 func verdictList(vs []report.Verdict) string {
 	var s []string
 	for _, v := range vs {
-		s = append(s, v.Check+" "+passWord(v.Pass))
+		s = append(s, v.Check+" "+resultWord(v.Pass, v.NotJudged))
+	}
+	if len(s) == 0 {
+		return "no checks"
 	}
 	return strings.Join(s, ", ")
 }

@@ -166,7 +166,11 @@ type Result struct {
 	CriticalLimits []CriticalLimit `json:"critical_limits"`
 	Checks         []Check         `json:"checks"`
 	Warnings       []Warning       `json:"warnings"`
-	Pass           bool            `json:"pass"`
+	// Pass is true when no check fails; Judged is false when no check
+	// applies at all (Pass is then true, and every output says "NOT
+	// JUDGED", never PASS).
+	Pass   bool `json:"pass"`
+	Judged bool `json:"judged"`
 	// Margins are the holding tube's margins under the plant file's
 	// uncertainty block (RunMargins with the default samples and seed),
 	// filled by the commands that show them; absent without the block.
@@ -229,7 +233,11 @@ func runOn(p *plantfile.Plant, on time.Time) (*Result, error) {
 		if heatingOutlet, err = runHolding(p, res); err != nil {
 			return nil, err
 		}
+		if len(p.LegalMinimums) == 0 {
+			res.warn(WarnHoldingTimeNotJudged, "legal_minimums", nil)
+		}
 	}
+	rateNotes(p, res)
 	if p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0 {
 		if err := runLine(p, res, heatingOutlet); err != nil {
 			return nil, err
@@ -241,7 +249,7 @@ func runOn(p *plantfile.Plant, on time.Time) (*Result, error) {
 	runAcceptance(p, res, on)
 	res.CriticalLimits = criticalLimits(p, res, DueList(res, on))
 	sanityWarnings(p, res)
-	res.Pass = true
+	res.Pass, res.Judged = true, len(res.Checks) > 0
 	for _, c := range res.Checks {
 		res.Pass = res.Pass && c.Pass
 	}
@@ -280,6 +288,23 @@ func productProps(p *plantfile.Plant) ProductProps {
 	pp.MassFlow, pp.MaxMassFlow = toMass(rate), toMass(maxRate)
 	pp.ProductCapacity = pp.MassFlow * pp.SpecificHeat
 	return pp
+}
+
+// rateNotes states a rate taken for the other where it is used: the normal
+// rate as the sealed maximum of a holding tube, the sealed maximum as the
+// normal rate of the heat-exchange sections or of the heater's target
+// through a tube that loses heat (docs/METHOD.md §2.3).
+func rateNotes(p *plantfile.Plant, res *Result) {
+	r, m := p.Flow.Rate, p.Flow.MaxRate
+	switch {
+	case r.Set && !m.Set && p.HoldingTube != nil:
+		res.Warnings = append(res.Warnings, Warning{Code: NoteSealFromRate, Field: "flow.max_rate", Note: true,
+			Values: map[string]float64{"rate_m3_s": res.Product.MaxMassFlow / res.Product.Density}})
+	case m.Set && !r.Set && (p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0 ||
+		(p.HoldingTube != nil && p.HoldingTube.OuterCoefficient.Set)):
+		res.Warnings = append(res.Warnings, Warning{Code: NoteRateFromSeal, Field: "flow.rate", Note: true,
+			Values: map[string]float64{"rate_m3_s": res.Product.MassFlow / res.Product.Density}})
+	}
 }
 
 // ratesInOrder refuses a normal rate above the sealed maximum, compared as

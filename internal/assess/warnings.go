@@ -46,6 +46,16 @@ const (
 	// temperature of a water test outside the property range). Values:
 	// test_index.
 	WarnAcceptanceNotJudged WarningCode = "acceptance-not-judged"
+
+	// WarnHoldingTimeNotJudged is a holding tube without legal rows: its
+	// time is computed and shown, never judged. No values.
+	WarnHoldingTimeNotJudged WarningCode = "holding-time-not-judged"
+	// NoteSealFromRate and NoteRateFromSeal are notes: one rate is entered
+	// and stands for the other (flow.max_rate defaults to flow.rate and
+	// back). Values: rate_m3_s, the rate taken (volumetric at the entry
+	// density).
+	NoteSealFromRate WarningCode = "sealed-maximum-from-rate"
+	NoteRateFromSeal WarningCode = "rate-from-sealed-maximum"
 )
 
 // WarningCodes lists every code (tests walk each through the wording).
@@ -54,7 +64,7 @@ var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, War
 	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient,
 	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated,
 	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm,
-	WarnAcceptanceNotJudged}
+	WarnAcceptanceNotJudged, WarnHoldingTimeNotJudged, NoteSealFromRate, NoteRateFromSeal}
 
 // Warning is something the user should look at that is not a failed check.
 // assess fills Code, Field and Values (SI, each key naming its unit);

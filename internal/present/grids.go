@@ -129,6 +129,37 @@ func Checks(res *assess.Result, d Display) Grid {
 	return g
 }
 
+// NotJudged is the result of a plant no check applies to: never PASS.
+const NotJudged = "NOT JUDGED: no check applies"
+
+// VerdictWord is a result's verdict in one word: PASS, FAIL, or NOT JUDGED
+// when no check applies.
+func VerdictWord(res *assess.Result) string {
+	switch {
+	case !res.Judged:
+		return "NOT JUDGED"
+	case res.Pass:
+		return "PASS"
+	}
+	return "FAIL"
+}
+
+// FlowText is the product rates as entered: a rate the file leaves out is
+// said to be the other one, and no rate at all is "not entered".
+func FlowText(res *assess.Result, d Display) string {
+	f, pp := res.Plant.Flow, res.Product
+	normal, seal := d.With(pp.MassFlow/pp.Density, units.VolumeFlow, 0), d.With(pp.MaxMassFlow/pp.Density, units.VolumeFlow, 0)
+	switch {
+	case f.Rate.Set && f.MaxRate.Set:
+		return normal + " normal, " + seal + " sealed maximum"
+	case f.Rate.Set:
+		return normal + " normal, taken as the sealed maximum (flow.max_rate not entered)"
+	case f.MaxRate.Set:
+		return seal + " sealed maximum, taken as the normal rate (flow.rate not entered)"
+	}
+	return "not entered (nothing here needs it: no heat-exchange section or holding tube)"
+}
+
 // Overall is the one-line result of the checks.
 func Overall(res *assess.Result) string {
 	failed := 0
@@ -139,7 +170,7 @@ func Overall(res *assess.Result) string {
 	}
 	switch {
 	case len(res.Checks) == 0:
-		return "no check applies: nothing was judged"
+		return NotJudged
 	case failed == 0:
 		return fmt.Sprintf("PASS, all %d checks pass", len(res.Checks))
 	}
@@ -159,7 +190,7 @@ func HoldingOverall(res *assess.Result) string {
 	const only = "; hold judges the holding tube only: 'pasval check' judges every check"
 	switch {
 	case len(res.Checks) == 0:
-		return "no check of the holding tube applies: nothing was judged" + only
+		return "NOT JUDGED: no check of the holding tube applies" + only
 	case failed == 0:
 		return fmt.Sprintf("PASS, all %d checks of the holding tube pass", len(res.Checks)) + only
 	}
@@ -302,6 +333,9 @@ func HoldingHeading(res *assess.Result, d Display) string {
 	seal := d.Flow(h.MaxFlowM3s)
 	if entered := pp.MaxMassFlow / pp.Density; math.Abs(entered/h.MaxFlowM3s-1) > 1e-9 {
 		seal += fmt.Sprintf(" at the setpoint density (%s at %s)", d.Flow(entered), d.With(pp.Density, units.Density, 1))
+	}
+	if f := res.Plant.Flow; f.Rate.Set && !f.MaxRate.Set {
+		seal += ", the normal rate: flow.max_rate is not entered"
 	}
 	if h.WorstFlowAtSeal {
 		return fmt.Sprintf("judged at the sealed maximum, %s", seal)

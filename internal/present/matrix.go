@@ -125,10 +125,7 @@ func MatrixVerdicts(ps []assess.OnLine, d Display) Grid {
 	g := grid("product", "result", "limiting check", ">margin", ">relative margin")
 	for _, o := range ps {
 		res := o.Result
-		verdict := "PASS"
-		if !res.Pass {
-			verdict = "FAIL"
-		}
+		verdict := VerdictWord(res)
 		if !o.LimitingOK {
 			g.add(ProductName(o), verdict, "none applies", "—", "—")
 			continue
@@ -233,12 +230,22 @@ func MatrixFailing(ps []assess.OnLine, d Display) Grid {
 // MatrixOverall is the matrix's one-line result.
 func MatrixOverall(ps []assess.OnLine) string {
 	var failed []string
+	var unjudged []string
 	for _, o := range ps {
-		if !o.Result.Pass {
+		switch {
+		case !o.Result.Pass:
 			failed = append(failed, ProductName(o))
+		case !o.Result.Judged:
+			unjudged = append(unjudged, ProductName(o))
 		}
 	}
-	if len(failed) == 0 {
+	switch {
+	case len(failed) == 0 && len(unjudged) == len(ps):
+		return NotJudged + " to any product"
+	case len(failed) == 0 && len(unjudged) > 0:
+		return fmt.Sprintf("PASS, %d of %d products pass; %d NOT JUDGED (no check applies): %s", len(ps)-len(unjudged), len(ps),
+			len(unjudged), strings.Join(unjudged, ", "))
+	case len(failed) == 0:
 		return fmt.Sprintf("PASS, all %d products pass", len(ps))
 	}
 	s := fmt.Sprintf("FAIL, %d of %d products fail: ", len(failed), len(ps))

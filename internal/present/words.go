@@ -166,6 +166,14 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 			"(%s) allows on purpose", d.temp(v["outlet_C"]), d.coldLimit(v["limit_C"]), d.temp(v["target_C"]))
 	case assess.WarnAcceptanceNotJudged:
 		return notJudgedText(w, p, d)
+	case assess.WarnHoldingTimeNotJudged:
+		return "no legal time–temperature rows are entered (legal_minimums, or legal_table with its line's legal_tables): the holding " +
+			"time is shown but NOT JUDGED against a legal minimum; enter the rows your regulator applies (a schedule judged by its " +
+			"log reduction alone has none)"
+	case assess.NoteSealFromRate:
+		return fmt.Sprintf("flow.max_rate is not entered: the normal rate %s is taken as the sealed maximum, at which the holding tube is judged", d.flow(v["rate_m3_s"]))
+	case assess.NoteRateFromSeal:
+		return fmt.Sprintf("flow.rate is not entered: the sealed maximum %s is taken as the normal rate, at which the sections are computed", d.flow(v["rate_m3_s"]))
 	}
 	if text, ok := packWarningText(w, p, d); ok {
 		return text

@@ -77,9 +77,11 @@ func BuildMatrix(line *plantfile.Plant, rows []assess.OnLine, opts Options) *rep
 		[2]string{"Line file SHA-256", line.SHA256},
 		[2]string{"Product files", fmt.Sprintf("%d, each attached and listed with its SHA-256 in section 1", len(rows))},
 		[2]string{"Tool", "pasval " + doc.Version})
+	c.NotJudged = true
 	for _, o := range rows {
-		c.Verdicts = append(c.Verdicts, report.Verdict{Check: present.ProductName(o), Pass: o.Result.Pass})
+		c.Verdicts = append(c.Verdicts, report.Verdict{Check: present.ProductName(o), Pass: o.Result.Pass, NotJudged: !o.Result.Judged})
 		c.Pass = c.Pass && o.Result.Pass
+		c.NotJudged = c.NotJudged && !o.Result.Judged
 	}
 	c.Overall = "Result: " + present.MatrixOverall(rows) + "."
 	doc.Cover = c

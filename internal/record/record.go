@@ -207,7 +207,12 @@ func buildCover(res *assess.Result, doc *report.Document) report.Cover {
 	for _, ch := range res.Checks {
 		c.Verdicts = append(c.Verdicts, report.Verdict{Check: present.CheckLabel(ch), Pass: ch.Pass})
 	}
+	c.NotJudged = !res.Judged
 	c.Overall = "Result: " + present.Overall(res) + "."
+	if res.Margins != nil {
+		c.Margins = "Margins: " + present.MarginsLine(res.Margins, present.Display{Sys: p.System}) +
+			" (the margins page gives the tables)."
+	}
 	return c
 }
 
@@ -242,6 +247,14 @@ func inputsSection(res *assess.Result, doc *report.Document) report.Section {
 		{"specific heat used", fmt.Sprintf("%.1f J/(kg·K)", pp.SpecificHeat)},
 		{"mass flow (normal, sealed maximum)", fmt.Sprintf("%.4f kg/s, %.4f kg/s", pp.MassFlow, pp.MaxMassFlow)},
 	}}
+	switch f := res.Plant.Flow; {
+	case !f.Rate.Set && !f.MaxRate.Set:
+		kv.Pairs[3][1] = "none entered (nothing here needs it: no heat-exchange section or holding tube)"
+	case !f.MaxRate.Set:
+		kv.Pairs[3][1] += " (flow.max_rate not entered: the normal rate is taken as the sealed maximum)"
+	case !f.Rate.Set:
+		kv.Pairs[3][1] += " (flow.rate not entered: the sealed maximum is taken as the normal rate)"
+	}
 	if pp.FromComposition {
 		kv.Pairs = append(kv.Pairs, [2]string{"properties", "Choi–Okos (1986) from the composition entered"})
 	}

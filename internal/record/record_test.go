@@ -456,3 +456,22 @@ func TestAcceptanceAndCriticalLimitPages(t *testing.T) {
 		}
 	}
 }
+
+func TestCoverCarriesTheMargins(t *testing.T) {
+	// The SI demo has an uncertainty block: the cover's verdict box gives the
+	// margins line that check prints (worst case and P(all hold), the default
+	// samples and seed; README "Margins under uncertainty"), so the page a
+	// reader signs shows how close the plant runs. A plant without the block
+	// has no such line.
+	res, doc := demo(t, "htst-milk-si")
+	want := "Margins: worst case: all checks hold; P(all hold) = 0.9952 ± 0.0002 (100000 samples, seed 14)"
+	if !strings.HasPrefix(doc.Cover.Margins, want) {
+		t.Errorf("cover margins %q, want it to begin %q", doc.Cover.Margins, want)
+	}
+	if res.Margins != nil {
+		t.Error("Build changed the result it was given")
+	}
+	if _, doc := demo(t, "cider-us"); doc.Cover.Margins != "" {
+		t.Errorf("cider cover margins %q", doc.Cover.Margins)
+	}
+}
