@@ -27,10 +27,11 @@ check wherever a holding tube is described; the regenerator pressure test
 wherever a regeneration section is; each other test by name as entered), with
 its latest result in the plant file's acceptance: block, that result's
 verdict, the next due date (the result's date plus its interval) and its state
-on the review date: ok, due within 30 days, overdue, never done, or no
-interval entered. Intervals come only from the plant file (the regulator's or
-the plant's), never from pasval. A result dated after the review date is
-refused.`,
+on the review date: ok, due within 30 days, overdue, never done, no interval
+entered, or, for a latest result that failed its check, "FAILED — repeat the
+test" (JSON state "failed"). Intervals come only from the plant file (the
+regulator's or the plant's), never from pasval. A result dated after the
+review date is refused.`,
 		Example: `  pasval due testdata/demo/htst-milk-si.yaml
   pasval due line2.yaml --on 2027-03-01
   pasval due line2.yaml --json`,
@@ -43,8 +44,8 @@ refused.`,
 	cmd.Long += `
 
 Exit status:
-  0  nothing is overdue or never done
-  1  some test is overdue or has never been done
+  0  nothing failed, is overdue or was never done
+  1  some test's latest result failed, is overdue or was never done
   2  bad input or usage (the message names the file, line and field)`
 	cmd.Flags().StringVar(&opts.on, "on", "", "review date YYYY-MM-DD (default: today)")
 	cmd.Flags().BoolVar(&opts.json, "json", false, "print the list as JSON")

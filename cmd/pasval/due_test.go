@@ -20,7 +20,7 @@ func TestDueCommand(t *testing.T) {
 		code int
 		frag string
 	}{
-		{"today: nothing overdue", []string{"due", milk}, exitPass, "nothing overdue or never done (7 tests, 1 with no interval entered)"},
+		{"today: nothing overdue", []string{"due", milk}, exitPass, "nothing failed, overdue or never done (7 tests, 1 with no interval entered)"},
 		// 2026-11-10 + 2 years = 2028-11-10, overdue on 2028-11-15.
 		{"later: overdue", []string{"due", milk, "--on", "2028-11-15"}, exitFail, "1 overdue, 0 never done"},
 		// The frozen-dessert demo enters only its holding-time test.
@@ -80,6 +80,68 @@ func TestDemoStaysCurrent(t *testing.T) {
 			var out, errb bytes.Buffer
 			if code := run([]string{"check", plant, "--date", on}, &out, &errb); code != exitPass {
 				t.Errorf("%s on %s: exit %d\n%s%s", filepath.Base(plant), on, code, out.String(), errb.String())
+			}
+		}
+	}
+}
+
+func TestDueShowsAFailedResult(t *testing.T) {
+	// The frozen-dessert demo's holding-time test, converted to the mix,
+	// fails its legal row (README, docs/METHOD.md §15.2): due must not call
+	// it ok. It is shown as failed, to be repeated, and due exits 1 as for
+	// an overdue test; JSON keeps last_pass false and gives the state.
+	dessert := filepath.Join(demoDir, "frozen-dessert-si.yaml")
+	var out, errb bytes.Buffer
+	code := run([]string{"due", dessert}, &out, &errb)
+	line := ""
+	for _, l := range strings.Split(out.String(), "\n") {
+		if strings.HasPrefix(strings.TrimSpace(l), "holding-time") {
+			line = l
+		}
+	}
+	if code != exitFail || !strings.Contains(line, "FAILED — repeat the test") || strings.Contains(line, " ok") ||
+		!strings.Contains(out.String(), "1 failed") {
+		t.Errorf("exit %d, holding-time line %q:\n%s", code, line, out.String())
+	}
+	out.Reset()
+	if code := run([]string{"due", dessert, "--json"}, &out, &errb); code != exitFail {
+		t.Errorf("json: exit %d", code)
+	}
+	var rep struct{ Tests []map[string]any }
+	if err := json.Unmarshal(out.Bytes(), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if first := rep.Tests[0]; first["test"] != "holding-time" || first["last_pass"] != false || first["state"] != "failed" {
+		t.Errorf("json %v", first)
+	}
+}
+
+func TestFailingScheduleIsNotCalledValidated(t *testing.T) {
+	// The frozen-dessert demo fails its holding time: its critical-limit
+	// table is drafted from a schedule that is not validated, and says so;
+	// the SI demo's, which passes, is validated.
+	for _, c := range []struct {
+		plant     string
+		validated bool
+	}{{"frozen-dessert-si.yaml", false}, {"htst-milk-si.yaml", true}} {
+		out, _, _ := runBinary(t, "check", "--json", filepath.Join(demoDir, c.plant))
+		var r struct {
+			CriticalLimits []struct {
+				ID        string `json:"id"`
+				Validated bool   `json:"validated"`
+				LimitText string `json:"limit_text"`
+			} `json:"critical_limits"`
+		}
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		if len(r.CriticalLimits) == 0 {
+			t.Fatalf("%s: no critical limits", c.plant)
+		}
+		for _, l := range r.CriticalLimits {
+			said := strings.Contains(l.LimitText, "NOT VALIDATED: some checks fail")
+			if l.Validated != c.validated || said == c.validated || (!c.validated && strings.Contains(l.LimitText, "validated at")) {
+				t.Errorf("%s %s: validated %v, %q", c.plant, l.ID, l.Validated, l.LimitText)
 			}
 		}
 	}

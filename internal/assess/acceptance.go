@@ -29,8 +29,9 @@ type AcceptanceResult struct {
 	// Latest is true for the latest result of its kind (of its name, for
 	// other tests): the one a check judges.
 	Latest bool `json:"latest"`
-	// State is the due state on the review date (the latest result only;
-	// "superseded" for an older one; absent without a review date).
+	// State is the due state on the review date (the latest result only:
+	// "failed" when its values fail, else by its dates; "superseded" for an
+	// older one; absent without a review date).
 	State DueState `json:"state,omitempty"`
 	// Judged is false when the plant file lacks what the result is judged
 	// against (NotJudgedFor names it); Pass is then absent.
@@ -177,6 +178,9 @@ func runAcceptance(p *plantfile.Plant, res *Result, on time.Time) {
 		default:
 			a.State = dueState(a.nextDue, t.Interval != nil, on)
 			a.Stale = a.State == DueOverdue
+			if a.Pass != nil && !*a.Pass {
+				a.State = DueFailed // to be repeated, whatever its dates
+			}
 		}
 		res.Acceptance = append(res.Acceptance, a)
 	}

@@ -247,12 +247,12 @@ func runOn(p *plantfile.Plant, on time.Time) (*Result, error) {
 		regeneratorPressure(p, res)
 	}
 	runAcceptance(p, res, on)
-	res.CriticalLimits = criticalLimits(p, res, DueList(res, on))
-	sanityWarnings(p, res)
 	res.Pass, res.Judged = true, len(res.Checks) > 0
 	for _, c := range res.Checks {
 		res.Pass = res.Pass && c.Pass
 	}
+	res.CriticalLimits = criticalLimits(p, res, DueList(res, on))
+	sanityWarnings(p, res)
 	return res, nil
 }
 

@@ -18,16 +18,20 @@ const (
 	DueNever      DueState = "never-done"  // a kind that applies to the plant has no result
 	DueNoInterval DueState = "no-interval" // the latest result has no interval: no due date
 	DueSuperseded DueState = "superseded"  // a result with a later one of its kind
+	// DueFailed is a latest result that was judged and failed: the test must
+	// be repeated (it passes no check whatever its due date).
+	DueFailed DueState = "failed"
 )
 
 // DueStates lists every state (tests walk each through the wording).
-var DueStates = []DueState{DueOK, DueSoon, DueOverdue, DueNever, DueNoInterval, DueSuperseded}
+var DueStates = []DueState{DueOK, DueSoon, DueOverdue, DueNever, DueNoInterval, DueSuperseded, DueFailed}
 
 // DueSoonDays is how close a due date is "due soon".
 const DueSoonDays = 30
 
 // dueState is the state of a latest result whose next due date is next
-// (hasInterval false: none) on the review date on:
+// (hasInterval false: none) on the review date on, by the dates alone (a
+// failed result is DueFailed whatever its dates: runAcceptance):
 //
 //	overdue    on > next
 //	due-soon   next − on ≤ 30 days
@@ -116,11 +120,11 @@ func DueList(res *Result, on time.Time) []DueItem {
 	return out
 }
 
-// DueFails reports whether anything in the list is overdue or never done:
-// 'pasval due' then exits 1.
+// DueFails reports whether anything in the list failed, is overdue or was
+// never done: 'pasval due' then exits 1.
 func DueFails(items []DueItem) bool {
 	for _, it := range items {
-		if it.State == DueOverdue || it.State == DueNever {
+		if it.State == DueOverdue || it.State == DueNever || it.State == DueFailed {
 			return true
 		}
 	}

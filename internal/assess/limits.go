@@ -30,6 +30,10 @@ type CriticalLimit struct {
 	// Tests are the acceptance tests that verify the limit, with their due
 	// state on the review date.
 	Tests []LimitTest `json:"verification_tests"`
+	// Validated is true when every check passes (and some check applies):
+	// the limits are then those of a validated schedule. When false the
+	// words say NOT VALIDATED.
+	Validated bool `json:"validated"`
 
 	// The words, made by internal/present (SI in JSON): what is limited, the
 	// limit in words, and the plan's four columns (the haccp: block's text,
@@ -61,7 +65,8 @@ var verifiedBy = map[plantfile.CriticalLimitID][]plantfile.TestKind{
 	plantfile.LimitCoolingOutlet:       nil,
 }
 
-// criticalLimits makes the table from the validated schedule: the setpoint,
+// criticalLimits makes the table from the schedule (validated when every
+// check passes: res.Pass and res.Judged are set before): the setpoint,
 // the seal and the holding time with a holding tube, the regenerator margin
 // with a regeneration section, the cooling outlet with an outlet target and
 // cooling.
@@ -81,6 +86,7 @@ func criticalLimits(p *plantfile.Plant, res *Result, due []DueItem) []CriticalLi
 		if p.HACCP != nil {
 			c.Entered = p.HACCP.Limits[c.ID]
 		}
+		c.Validated = res.Pass && res.Judged
 		out = append(out, c)
 	}
 	f := func(v float64) *float64 { return &v }

@@ -148,6 +148,8 @@ func stateWords(s assess.DueState) string {
 		return "no interval entered"
 	case assess.DueSuperseded:
 		return "superseded"
+	case assess.DueFailed:
+		return "FAILED — repeat the test"
 	case "":
 		return "—"
 	}
@@ -307,8 +309,8 @@ func DueSummary(items []assess.DueItem) string {
 	for _, it := range items {
 		count[it.State]++
 	}
-	if count[assess.DueOverdue]+count[assess.DueNever] == 0 {
-		s := fmt.Sprintf("nothing overdue or never done (%d tests", len(items))
+	if count[assess.DueOverdue]+count[assess.DueNever]+count[assess.DueFailed] == 0 {
+		s := fmt.Sprintf("nothing failed, overdue or never done (%d tests", len(items))
 		if n := count[assess.DueSoon]; n > 0 {
 			s += fmt.Sprintf(", %d due within 30 days", n)
 		}
@@ -317,5 +319,9 @@ func DueSummary(items []assess.DueItem) string {
 		}
 		return s + ")"
 	}
-	return fmt.Sprintf("%d overdue, %d never done (of %d tests)", count[assess.DueOverdue], count[assess.DueNever], len(items))
+	s := fmt.Sprintf("%d overdue, %d never done (of %d tests)", count[assess.DueOverdue], count[assess.DueNever], len(items))
+	if n := count[assess.DueFailed]; n > 0 {
+		s = fmt.Sprintf("%d failed (repeat the test), ", n) + s
+	}
+	return s
 }

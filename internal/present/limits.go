@@ -86,6 +86,9 @@ func CriticalLimits(res *assess.Result, d Display) []assess.CriticalLimit {
 		}
 		c.Parameter = limitParameter[c.ID]
 		c.LimitText = d.limitText(c, res)
+		if !c.Validated {
+			c.LimitText += "; " + NotValidated(res)
+		}
 		c.Monitoring = pick(c.Entered.Monitoring, def.Monitoring)
 		c.CorrectiveAction = pick(c.Entered.CorrectiveAction, def.CorrectiveAction)
 		c.Verification = pick(c.Entered.Verification, def.Verification) + testsWords(c.Tests)
@@ -101,7 +104,11 @@ func (d Display) limitText(c assess.CriticalLimit, res *assess.Result) string {
 	case plantfile.LimitSetpoint:
 		s := fmt.Sprintf("≥ %s at the diversion sensor", d.With(c.Value, units.Temperature, 2))
 		if c.JudgedTemperatureC != nil && *c.JudgedTemperatureC < c.Value {
-			s += fmt.Sprintf("; validated at %s, the setpoint less the sensor's stated accuracy", d.With(*c.JudgedTemperatureC, units.Temperature, 2))
+			verb := "validated"
+			if !c.Validated {
+				verb = "judged"
+			}
+			s += fmt.Sprintf("; %s at %s, the setpoint less the sensor's stated accuracy", verb, d.With(*c.JudgedTemperatureC, units.Temperature, 2))
 		}
 		return s
 	case plantfile.LimitMaxFlow:
@@ -145,6 +152,15 @@ func testsWords(tests []assess.LimitTest) string {
 		}
 	}
 	return " Tests: " + strings.Join(parts, "; ") + "."
+}
+
+// NotValidated says why a schedule's critical limits are not those of a
+// validated schedule.
+func NotValidated(res *assess.Result) string {
+	if !res.Judged {
+		return "NOT VALIDATED: no check applies"
+	}
+	return "NOT VALIDATED: some checks fail"
 }
 
 // CriticalLimitsGrid is the critical-limit table for the record.

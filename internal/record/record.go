@@ -455,9 +455,14 @@ func checkOf(res *assess.Result, id assess.CheckID) (assess.Check, bool) {
 // each limit's monitoring, corrective action, verification and records.
 func limitsSection(res *assess.Result, d present.Display) report.Section {
 	limits := present.CriticalLimits(res, d)
-	t := report.Table{Caption: "The critical limits of the validated schedule.", Columns: []report.Column{{Title: "what is limited"}, {Title: "critical limit"}}}
+	caption, from := "The critical limits of the validated schedule.", "the schedule this record validates"
+	if !res.Pass || !res.Judged {
+		caption = "The critical limits of the schedule, " + present.NotValidated(res) + "."
+		from = "the schedule this record judges, which is " + present.NotValidated(res) + " (see the checks)"
+	}
+	t := report.Table{Caption: caption, Columns: []report.Column{{Title: "what is limited"}, {Title: "critical limit"}}}
 	blocks := []report.Block{
-		report.Paragraph{Text: "DRAFT for the HACCP team. The limits are taken from the schedule this record validates; the monitoring, " +
+		report.Paragraph{Text: "DRAFT for the HACCP team. The limits are taken from " + from + "; the monitoring, " +
 			"corrective actions, verification and records are the plant file's haccp: block where it gives them and plain defaults " +
 			"otherwise. The HACCP team decides the plan.", Emphasis: true},
 	}
