@@ -115,8 +115,8 @@ type matrixProduct struct {
 }
 
 type matrixLogRed struct {
-	Organism string  `json:"organism"`
-	Log      float64 `json:"log_reduction"`
+	Organism string   `json:"organism"`
+	Log      float64  `json:"log_reduction"`
 	Required *float64 `json:"required_log_reduction"` // null: reported, not judged
 }
 

@@ -95,8 +95,8 @@ type Lethality struct {
 	RequiredLogReduction *float64 `json:"required_log_reduction"`
 	Judged               bool     `json:"judged"`
 	LogReductionAtSet    float64  `json:"log_reduction_at_setpoint"`
-	LogReductionAtSeal   float64 `json:"log_reduction_at_seal"`
-	LogReductionIso      float64 `json:"log_reduction_isothermal"`
+	LogReductionAtSeal   float64  `json:"log_reduction_at_seal"`
+	LogReductionIso      float64  `json:"log_reduction_isothermal"`
 	// LogReductionCredit is with the heat-loss profile; absent without heat loss.
 	LogReductionCredit *float64 `json:"log_reduction_with_heat_loss_credit,omitempty"`
 	FlowM3s            float64  `json:"judged_flow_m3_s"`
