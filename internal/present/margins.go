@@ -166,7 +166,11 @@ func MarginsLine(m *assess.Margins, d Display) string {
 	var fails []string
 	for _, w := range m.WorstCase.Checks {
 		if c := w.Check(); !c.Pass {
-			fails = append(fails, CheckLabel(c)+" fails by "+CheckMargin(c, d))
+			if words, ok := FailWords(c); ok {
+				fails = append(fails, CheckLabel(c)+" fails ("+words+")")
+			} else {
+				fails = append(fails, CheckLabel(c)+" fails by "+CheckMargin(c, d))
+			}
 		}
 	}
 	mc := m.MonteCarlo

@@ -130,7 +130,7 @@ func MatrixVerdicts(ps []assess.OnLine, d Display) Grid {
 			g.add(ProductName(o), verdict, "none applies", "—", "—")
 			continue
 		}
-		g.add(ProductName(o), verdict, CheckLabel(o.Limiting), CheckMargin(o.Limiting, d), RelativeText(o.LimitingRelative))
+		g.add(ProductName(o), verdict, CheckLabel(o.Limiting), CheckMargin(o.Limiting, d), RelativeMarginText(o.Limiting, o.LimitingRelative))
 	}
 	return g
 }

@@ -107,7 +107,14 @@ func atLimit(c assess.Check) bool {
 // CheckMargin formats a check's margin with its sign, in display units, with
 // enough decimals to show the sign of a small margin; a margin at the limit
 // (within the tolerance rule) prints as an unsigned zero.
+//
+// A check that fails without a shortfall (its value is on the right side of
+// the limit, but it fails for another reason) never shows a positive
+// margin: it shows why (FailWords).
 func CheckMargin(c assess.Check, d Display) string {
+	if words, ok := FailWords(c); ok {
+		return words
+	}
 	if c.MarginUnit == "pass" {
 		return "—"
 	}
@@ -123,6 +130,33 @@ func CheckMargin(c assess.Check, d Display) string {
 			return Signed(num) + unit
 		}
 	}
+}
+
+// FailWords says why a check fails when its margin is not negative: no
+// legal row applies at the judged temperature (holding-time and the
+// converted holding-time test), or the result is past its interval (stale
+// acceptance tests); "—" for any other. ok is false for a check that passes
+// or falls short of its limit, whose margin tells.
+func FailWords(c assess.Check) (string, bool) {
+	if c.Pass || c.Margin < -assess.Tolerance*math.Abs(c.Required) {
+		return "", false
+	}
+	switch {
+	case c.Detail.BelowEveryRow:
+		return "no row applies", true
+	case c.Stale:
+		return "stale: past due", true
+	}
+	return "—", true
+}
+
+// RelativeMarginText is a check's relative margin as a signed percentage,
+// or what FailWords says when it fails without a shortfall.
+func RelativeMarginText(c assess.Check, r float64) string {
+	if words, ok := FailWords(c); ok {
+		return words
+	}
+	return RelativeText(r)
 }
 
 // marginNumber is a margin's number (unsigned form from %f) and its unit.

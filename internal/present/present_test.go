@@ -192,3 +192,37 @@ func TestSmallMarginsShowTheirSign(t *testing.T) {
 		t.Errorf("huge log reduction: %q %q %q", req, act, CheckMargin(l, si))
 	}
 }
+
+func TestFailingCheckShowsNoPositiveMargin(t *testing.T) {
+	// A check can fail while its time or temperature is above the limit:
+	// the holding time when no legal row applies at the judged temperature
+	// (docs/METHOD.md §10.1), and an acceptance result past its interval
+	// (§15.5). Such a FAIL never shows a positive margin; a failing check
+	// with a shortfall shows it, signed.
+	for _, c := range []struct {
+		name  string
+		check assess.Check
+		want  string
+	}{
+		{"no row applies", func() assess.Check {
+			c := assess.NewCheck(assess.HoldingTime, 15, 17.54)
+			c.Pass, c.Detail.BelowEveryRow = false, true
+			return c
+		}(), "no row applies"},
+		{"stale", func() assess.Check {
+			c := assess.NewCheck(assess.AcceptanceHoldingTime, 15, 16.24)
+			c.Pass, c.Stale = false, true
+			return c
+		}(), "stale: past due"},
+		{"no row applies and short", func() assess.Check {
+			c := assess.NewCheck(assess.HoldingTime, 15, 14)
+			c.Pass, c.Detail.BelowEveryRow = false, true
+			return c
+		}(), "−1.00 s"},
+		{"passing", assess.NewCheck(assess.HoldingTime, 15, 16.34), "+1.34 s"},
+	} {
+		if got := CheckMargin(c.check, si); got != c.want {
+			t.Errorf("%s: margin %q, want %q", c.name, got, c.want)
+		}
+	}
+}

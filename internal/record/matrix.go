@@ -140,7 +140,7 @@ func productPage(o assess.OnLine, file string, d present.Display) report.Section
 	}
 	if o.LimitingOK {
 		kv = append(kv, [2]string{"limiting check", fmt.Sprintf("%s, margin %s (%s relative)", present.CheckLabel(o.Limiting),
-			present.CheckMargin(o.Limiting, d), present.RelativeText(o.LimitingRelative))})
+			present.CheckMargin(o.Limiting, d), present.RelativeMarginText(o.Limiting, o.LimitingRelative))})
 	}
 	env := present.MatrixEnvelope([]assess.OnLine{o}, d).Rows[0]
 	kv = append(kv,
