@@ -2,6 +2,7 @@ package main
 
 import (
 	"crypto"
+	"errors"
 	"crypto/x509"
 	"fmt"
 	"io"
@@ -65,7 +66,11 @@ signature too.`,
 				return err
 			}
 			if len(opts.logs) > 0 {
-				return runReviewRecord(opts, stdout, cmd.ErrOrStderr())
+				err := runReviewRecord(opts, stdout, cmd.ErrOrStderr())
+				if err == nil || errors.Is(err, errChecksFailed) {
+					writeCaution(stdout) // after the "wrote" line: the record was written
+				}
+				return err
 			}
 			return runReport(opts, stdout)
 		},
@@ -144,10 +149,17 @@ func runReport(opts reportOptions, out io.Writer) error {
 	if err := writeRecord(res, opts.output, date, opts.force, out, sg); err != nil {
 		return err
 	}
+	writeCaution(out)
 	if !res.Pass {
 		return errChecksFailed
 	}
 	return nil
+}
+
+// writeCaution prints the caution after a verdict that has none of its own
+// around it (report's "wrote" line, verify's result).
+func writeCaution(w io.Writer) {
+	fmt.Fprint(w, "\n"+wrap(assess.Caution, "Caution:", 88))
 }
 
 // recordSigner is a key and certificate chain to sign records with.

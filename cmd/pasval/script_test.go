@@ -6,6 +6,7 @@ package main
 
 import (
 	"os"
+	"os/exec"
 	"path/filepath"
 	"regexp"
 	"strings"
@@ -230,4 +231,44 @@ func contains(list []string, s string) bool {
 		}
 	}
 	return false
+}
+
+// TestReadmeWroteComments runs each command of a README shell block that a
+// "# wrote …" comment follows, in a copy of the demos, and compares the
+// comment with the first line the command prints ("…" stands for the rest
+// of a hash), so that a hash or page count shown there is the real one.
+func TestReadmeWroteComments(t *testing.T) {
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	root, err := filepath.Abs("../..")
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	if err := os.CopyFS(filepath.Join(dir, "testdata", "demo"), os.DirFS(filepath.Join(root, "testdata", "demo"))); err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(string(data), "\n")
+	n := 0
+	for i := 1; i < len(lines); i++ {
+		comment, ok := strings.CutPrefix(lines[i], "# wrote ")
+		if !ok || !strings.HasPrefix(lines[i-1], "pasval ") {
+			continue
+		}
+		n++
+		cmd := exec.Command(binPath, strings.Fields(normalize(lines[i-1]))[1:]...)
+		cmd.Dir = dir
+		cmd.Env = append(os.Environ(), "SOURCE_DATE_EPOCH="+testEpoch)
+		out, _ := cmd.Output()
+		first, _, _ := strings.Cut(string(out), "\n")
+		want := "wrote " + strings.TrimSuffix(comment, "…")
+		if !strings.HasPrefix(first, want) || (!strings.HasSuffix(comment, "…") && first != want) {
+			t.Errorf("README line %d: %q\nbut %q prints %q", i+1, lines[i], lines[i-1], first)
+		}
+	}
+	if n < 2 {
+		t.Errorf("only %d \"# wrote\" comments found in the README", n)
+	}
 }

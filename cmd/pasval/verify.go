@@ -141,9 +141,11 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 	}
 	if !ok {
 		fmt.Fprintln(out, "MISMATCH: the record is not what its plant file gives; do not rely on it")
+		writeCaution(out)
 		return errMismatch
 	}
 	fmt.Fprintln(out, "MATCH")
+	writeCaution(out)
 	return nil
 }
 
