@@ -2,8 +2,8 @@ package main
 
 import (
 	"crypto"
-	"errors"
 	"crypto/x509"
+	"errors"
 	"fmt"
 	"io"
 	"os"
