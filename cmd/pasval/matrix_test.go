@@ -13,6 +13,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -157,10 +158,32 @@ func TestMatrixRecordVerifies(t *testing.T) {
 	if code != 0 || strings.Count(out, "matches") != 6 || !strings.Contains(out, "identical, byte for byte") || !strings.Contains(out, "(2 products)") {
 		t.Errorf("verify: exit %d\n%s", code, out)
 	}
-	// An input edited after the record: its hash differs, exit 1.
+	// The files in any order: each is matched to the attachment with its
+	// content, and named by the product it is.
+	out, _, code = runBinary(t, "verify", rec, in("cream"), in("line"), in("whole-milk"))
+	if code != 0 || strings.Count(out, "matches") != 6 || !strings.Contains(out, "\nMATCH\n") {
+		t.Errorf("verify, files in another order: exit %d\n%s", code, out)
+	}
+	// The paths given are long (a temporary folder): the hashes still line
+	// up in one column.
+	hash := regexp.MustCompile(`[0-9a-f]{64}`)
+	for _, l := range strings.Split(out, "\n") {
+		if loc := hash.FindStringIndex(l); loc != nil && loc[0] != 28 {
+			t.Errorf("a hash at column %d, not 28: %q", loc[0], l)
+		}
+	}
+	for _, want := range []string{"whole milk 3.5 % (whole-milk.yaml)", "whipping cream 36 % (cream.yaml)",
+		"re-rendered from its line and product files"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("verify does not say %q:\n%s", want, out)
+		}
+	}
+	// An input edited after the record: its hash differs, exit 1; the file
+	// given is at fault, not the record.
 	b, _ := os.ReadFile(in("cream"))
 	writeFile(t, in("cream"), string(b)+"# edited\n")
-	if out, _, code := runBinary(t, "verify", rec, in("line"), in("whole-milk"), in("cream")); code != 1 || !strings.Contains(out, "DIFFERS") {
+	if out, _, code := runBinary(t, "verify", rec, in("line"), in("whole-milk"), in("cream")); code != 1 ||
+		!strings.Contains(out, "DIFFERS: this file is not one the record carries") || strings.Contains(out, "not what its") {
 		t.Errorf("edited input: exit %d\n%s", code, out)
 	}
 	// More files than the record carries: a usage error.
@@ -187,9 +210,14 @@ func TestRecordOfAProductOnALine(t *testing.T) {
 	if code != 0 || !strings.Contains(out, "attached line-file sha256") || strings.Count(out, "matches") != 4 {
 		t.Errorf("verify: exit %d\n%s", code, out)
 	}
-	// The line file given in the plant file's place: it differs.
-	if out, _, code := runBinary(t, "verify", rec, line); code != 1 || !strings.Contains(out, "DIFFERS") {
+	// The files are matched by content: the line file alone, or both in the
+	// other order, match; a plant file the record does not carry differs.
+	if out, _, code := runBinary(t, "verify", rec, line, prod); code != 0 || strings.Count(out, "matches") != 4 {
 		t.Errorf("swapped files: exit %d\n%s", code, out)
+	}
+	if out, _, code := runBinary(t, "verify", rec, filepath.Join(demoDir, "htst-milk-si.yaml")); code != 1 ||
+		!strings.Contains(out, "DIFFERS: this file is not one the record carries") {
+		t.Errorf("another plant file: exit %d\n%s", code, out)
 	}
 	// A record refuses to overwrite the line file.
 	if _, errs, code := runBinary(t, "report", prod, "-o", line, "--force"); code != 2 || !strings.Contains(errs, "would overwrite the line file") {

@@ -39,10 +39,11 @@ read with a PDF library, so a record re-saved by another program is read (and
 reported as differing from the re-rendered one).
 
 A record of a plant file that names a line file (line_file) carries both, each
-with its SHA-256, and verify checks both; give the files in the order the
-record lists them (the plant file, then its line file). A matrix record
-('pasval matrix --record') carries the line file first, then each product
-file, and is re-rendered from them all. ` + fmt.Sprintf(`Every file is read only from
+with its SHA-256, and verify checks both. A matrix record ('pasval matrix
+--record') carries the line file first, then each product file (named by its
+product), and is re-rendered from them all. The files given are matched to
+the files the record carries by their content, in any order; one that matches
+none is reported as not one the record carries. ` + fmt.Sprintf(`Every file is read only from
 a regular file, a record of at most %d MiB (one is about 70 KB) and each input
 file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20),
 		Example: `  pasval verify line2-record.pdf
@@ -66,13 +67,20 @@ file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20)
 A run-review record (report --log) carries its plant file but not its
 recorded runs: verify re-reads the runs given with --log (matched by their
 SHA-256, read with the options the record stores) and re-renders the
-record; without them it checks the plant file and says that the pages
-could not be byte-checked.`
+record; without them it checks the plant file and ends PARTIAL MATCH: the
+pages could not be byte-checked.`
 	cmd.Long += `
 
+The last line is MATCH only when the record is byte for byte its re-render;
+PARTIAL MATCH when what could be checked agrees but the pages could not be
+compared (a record of another version, or a run review without its runs);
+MISMATCH otherwise.
+
 Exit status:
-  0  the record is identical to the one its plant file gives (or, made by
-     another version, its plant file and verdicts agree; pages not byte-checked)
+  0  MATCH: the record is identical to the one its plant file gives; or
+     PARTIAL MATCH: made by another version, its plant file and verdicts
+     agree, or a run review given without its runs, its plant file agrees
+     (pages not byte-checked)
   1  anything differs: the attachment, the plant file given, a verdict, a page,
      or any other byte of the file
   2  the record or plant file cannot be read`
@@ -105,7 +113,25 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 	if len(inputPaths) > len(st.Attachments) {
 		return usagef("%s carries %d input files (%s); %d were given to compare", recordPath, len(st.Attachments), attachmentNames(st), len(inputPaths))
 	}
-	ok := true
+	// Each file given is matched to the attachment with its content, in any
+	// order; one that matches none is at fault, not the record.
+	sums := make([]string, len(inputs))
+	for i := range inputs {
+		sums[i] = sha256Hex(inputs[i])
+	}
+	given := make([]int, len(st.Attachments)) // the input matched to each attachment, or −1
+	used := make([]bool, len(inputs))
+	for i, a := range st.Attachments {
+		given[i] = -1
+		sum := sha256Hex(a.Content)
+		for j := range inputs {
+			if !used[j] && sums[j] == sum {
+				given[i], used[j] = j, true
+				break
+			}
+		}
+	}
+	ok, filesOK := true, true
 	for i, a := range st.Attachments {
 		role := attachmentRole(st, i)
 		recorded := st.FileHashes[a.Name]
@@ -116,16 +142,24 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 		if recorded == "" {
 			fmt.Fprintf(out, "%-27s %s\n", "recorded "+role+" sha256", "none: the record's metadata lists no hash for "+a.Name)
 		} else {
-			fmt.Fprintf(out, "%-27s %s\n", "recorded "+role+" sha256", recorded)
+			fmt.Fprintf(out, "%-27s %s  %s\n", "recorded "+role+" sha256", recorded, attachmentWhat(st, i))
 		}
 		fmt.Fprintf(out, "%-27s %s  %s\n", "attached "+role+" sha256", attSum, okWord(attSum == recorded))
 		ok = ok && attSum == recorded
-		if i < len(inputPaths) {
-			fileSum := sha256Hex(inputs[i])
-			fmt.Fprintf(out, "%-27s %s  %s\n", inputPaths[i], fileSum, okWord(fileSum == recorded))
-			ok = ok && fileSum == recorded
+		if j := given[i]; j >= 0 {
+			writePathLine(out, inputPaths[j], sums[j]+"  "+okWord(sums[j] == recorded))
+			ok = ok && sums[j] == recorded
 		}
 	}
+	for j, path := range inputPaths {
+		if !used[j] {
+			writePathLine(out, path, sums[j]+"  DIFFERS: this file is not one the record carries")
+			filesOK = false
+		}
+	}
+	// partial names what was not checked when the pages could not be
+	// compared byte for byte ("" when they were).
+	partial := ""
 	switch st.Kind {
 	case report.KindRunReview:
 		okRuns, err := verifyRunReview(st, pdf, logs, out, diag)
@@ -133,20 +167,76 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 			return err
 		}
 		ok = okRuns && ok
+		if len(logs) == 0 {
+			partial = "the attachments agree; verdicts and pages not checked (give --log with each recorded run to re-render it)"
+		}
 	default:
 		if len(logs) > 0 {
 			return usagef("%s is not a run-review record: --log does not apply", recordPath)
 		}
-		ok = verifyContent(st, pdf, out) && ok
+		okContent, byteChecked := verifyContent(st, pdf, out)
+		ok = okContent && ok
+		if !byteChecked {
+			partial = fmt.Sprintf("attachments and verdicts agree; pages not byte-checked (the record was made by %s, this is pasval %s)",
+				madeBy(st), version.Version)
+		}
 	}
-	if !ok {
-		fmt.Fprintln(out, "MISMATCH: the record is not what its plant file gives; do not rely on it")
+	switch {
+	case !ok:
+		fmt.Fprintf(out, "MISMATCH: the record is not what %s %s; do not rely on it\n", attachedFiles(st), giveVerb(st))
 		writeCaution(out)
 		return errMismatch
+	case !filesOK:
+		fmt.Fprintf(out, "MISMATCH: a file given is not one the record carries (the record itself is what %s %s)\n", attachedFiles(st), giveVerb(st))
+		writeCaution(out)
+		return errMismatch
+	case partial != "":
+		fmt.Fprintln(out, "PARTIAL MATCH: "+partial)
+	default:
+		fmt.Fprintln(out, "MATCH")
 	}
-	fmt.Fprintln(out, "MATCH")
 	writeCaution(out)
 	return nil
+}
+
+// writePathLine prints a file given on the command line and what was found
+// of it; a path too long for the label column goes on a line of its own, so
+// that the hashes stay in one column.
+func writePathLine(out io.Writer, path, found string) {
+	if len([]rune(path)) > 27 {
+		fmt.Fprintf(out, "%s\n%-27s %s\n", path, "", found)
+		return
+	}
+	fmt.Fprintf(out, "%-27s %s\n", path, found)
+}
+
+// attachmentWhat says which file an attachment is: its name, and for a
+// matrix's product file the product, as the record's verdicts name it.
+func attachmentWhat(st *report.Stored, i int) string {
+	name := st.Attachments[i].Name
+	if st.Kind == report.KindMatrix && i > 0 && len(st.Verdicts) == len(st.Attachments)-1 {
+		return st.Verdicts[i-1].Check + " (" + name + ")"
+	}
+	return "(" + name + ")"
+}
+
+// attachedFiles names what a record is re-rendered from.
+func attachedFiles(st *report.Stored) string {
+	switch {
+	case st.Kind == report.KindMatrix:
+		return "its line and product files"
+	case st.Kind != report.KindRunReview && len(st.Attachments) > 1:
+		return "its plant and line files"
+	}
+	return "its plant file"
+}
+
+// giveVerb agrees with attachedFiles.
+func giveVerb(st *report.Stored) string {
+	if attachedFiles(st) == "its plant file" {
+		return "gives"
+	}
+	return "give"
 }
 
 // attachmentRole names an attached file by what it is to the record.
@@ -172,16 +262,26 @@ func attachmentNames(st *report.Stored) string {
 	return strings.Join(names, ", ")
 }
 
+// madeBy names the version that made a record.
+func madeBy(st *report.Stored) string {
+	if st.Version == "" {
+		return "an unstated version"
+	}
+	return "pasval " + st.Version
+}
+
 // verifyContent recomputes the attached plant file, compares the verdicts
-// and, for a record of this version, the whole file with its re-render.
-func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
+// and, for a record of this version, the whole file with its re-render;
+// byteChecked is false when the pages could not be compared (a record of
+// another version).
+func verifyContent(st *report.Stored, pdf []byte, out io.Writer) (ok, byteChecked bool) {
 	rep, err := record.Reproduce(st)
 	if err != nil {
 		fmt.Fprintf(out, "recomputed                  the attached plant file does not compute: %s\n", strings.ReplaceAll(err.Error(), "\n", "; "))
-		return false
+		return false, true
 	}
 	cover := rep.Doc.Cover
-	ok := true
+	ok = true
 	switch {
 	case !st.HasVerdicts:
 		fmt.Fprintf(out, "verdicts                    recomputed %s; the record stores none to compare\n", resultWord(cover.Pass, cover.NotJudged))
@@ -201,18 +301,12 @@ func verifyContent(st *report.Stored, pdf []byte, out io.Writer) bool {
 	if signed {
 		ok = verifySignatures(pdf, out) && ok
 	}
-	made := st.Version
-	if made == "" {
-		made = "an unstated version"
-	} else {
-		made = "pasval " + made
-	}
 	if st.Version != version.Version || rep.PDF == nil {
 		fmt.Fprintf(out, "pages                       NOT byte-checked: the record was made by %s, this is pasval %s; only its plant file and verdicts were checked\n",
-			made, version.Version)
-		return ok
+			madeBy(st), version.Version)
+		return ok, false
 	}
-	return comparePages(st, pdf, rep.PDF, signed, "its plant file", out) && ok
+	return comparePages(st, pdf, rep.PDF, signed, attachedFiles(st), out) && ok, true
 }
 
 // comparePages compares a record with its re-render (from what: "its plant

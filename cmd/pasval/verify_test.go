@@ -226,7 +226,8 @@ func TestVerifyRecordOfAnotherVersion(t *testing.T) {
 		t.Fatal(err)
 	}
 	out, _, code := runBinary(t, "verify", path)
-	if code != 0 || !strings.Contains(out, "NOT byte-checked") || !strings.Contains(out, "stored FAIL, recomputed FAIL") {
+	if code != 0 || !strings.Contains(out, "NOT byte-checked") || !strings.Contains(out, "stored FAIL, recomputed FAIL") ||
+		!strings.Contains(out, "\nPARTIAL MATCH: attachments and verdicts agree; pages not byte-checked") || strings.Contains(out, "\nMATCH") {
 		t.Errorf("other version: exit %d\n%s", code, out)
 	}
 	// The stored result edited to pass: the recomputed verdicts disagree, exit 1.
@@ -237,5 +238,25 @@ func TestVerifyRecordOfAnotherVersion(t *testing.T) {
 	out, _, code = runBinary(t, "verify", path)
 	if code != 1 || !strings.Contains(out, "DIFFER") {
 		t.Errorf("other version, verdict edited: exit %d\n%s", code, out)
+	}
+}
+
+func TestVerifyRunReviewWithoutItsRunsIsPartial(t *testing.T) {
+	// A run review carries its plant file, not its runs: without --log the
+	// pages cannot be byte-checked, so verify says PARTIAL MATCH (exit 0),
+	// never a plain MATCH; with the run it is byte for byte, MATCH.
+	dir := t.TempDir()
+	rec := filepath.Join(dir, "review.pdf")
+	plant, shift := filepath.Join(demoDir, "htst-milk-si.yaml"), filepath.Join(demoDir, "runs", "htst-milk-si-shift.csv")
+	if _, errs, code := runBinary(t, "report", plant, "--log", shift, "-o", rec); code > 1 {
+		t.Fatalf("report: exit %d %s", code, errs)
+	}
+	out, _, code := runBinary(t, "verify", rec)
+	if code != exitPass || !strings.Contains(out, "\nPARTIAL MATCH: ") || !strings.Contains(out, "give --log") || strings.Contains(out, "\nMATCH") {
+		t.Errorf("without the run: exit %d\n%s", code, out)
+	}
+	out, _, code = runBinary(t, "verify", rec, "--log", shift)
+	if code != exitPass || !strings.Contains(out, "\nMATCH\n") || strings.Contains(out, "PARTIAL") {
+		t.Errorf("with the run: exit %d\n%s", code, out)
 	}
 }
