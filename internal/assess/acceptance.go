@@ -130,6 +130,14 @@ func keyOf(t plantfile.AcceptanceTest) testKey {
 	return k
 }
 
+// TimingTestTolerance is how far a measured holding time may lie from the
+// model's prediction for the test before a warning, as a fraction either
+// way: further apart, the tube as described or the test is wrong
+// (docs/METHOD.md §15.2). The project's choice: a timing test repeats to a
+// few per cent, and the model's inputs (length, diameter, flow) are known
+// better than that.
+const TimingTestTolerance = 0.20
+
 // RefuseFutureTests refuses a result dated after the review date on (none
 // when on is zero).
 func RefuseFutureTests(p *plantfile.Plant, on time.Time) error {
@@ -189,6 +197,12 @@ func runAcceptance(p *plantfile.Plant, res *Result, on time.Time) {
 			a := &res.Acceptance[i]
 			if a.Test != d.Kind || !a.Latest {
 				continue
+			}
+			if m := a.Timing; m != nil {
+				if diff := *a.TimeS/m.ModelTestTimeS - 1; math.Abs(diff) > TimingTestTolerance {
+					res.warn(WarnTimingTestDiffers, fmt.Sprintf("acceptance[%d].time", a.Index), map[string]float64{"test_index": float64(a.Index),
+						"measured_s": *a.TimeS, "model_s": m.ModelTestTimeS, "difference": diff})
+				}
 			}
 			if !a.Judged {
 				res.warn(WarnAcceptanceNotJudged, a.NotJudgedFor, map[string]float64{"test_index": float64(a.Index)})

@@ -236,6 +236,9 @@ func runOn(p *plantfile.Plant, on time.Time) (*Result, error) {
 		if len(p.LegalMinimums) == 0 {
 			res.warn(WarnHoldingTimeNotJudged, "legal_minimums", nil)
 		}
+		if !p.Process.SensorAccuracy.Set {
+			res.Warnings = append(res.Warnings, Warning{Code: NoteExactSensor, Field: "process.sensor_accuracy", Note: true})
+		}
 	}
 	rateNotes(p, res)
 	if p.Regeneration != nil || p.Heating != nil || len(p.Cooling) > 0 {

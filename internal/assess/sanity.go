@@ -5,6 +5,7 @@ import (
 
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
+	"pasval/internal/units"
 )
 
 // Typical ranges for the sanity warnings. They are not limits: a value
@@ -51,6 +52,7 @@ func sanityWarnings(p *plantfile.Plant, res *Result) {
 		plates(fmt.Sprintf("cooling[%d]", i), c.Plates)
 	}
 	productSanity(p, res)
+	scaleWarnings(p, res)
 	if h := res.HoldingTube; h != nil {
 		if h.MinResidenceS > holdingTimeMax {
 			res.warn(WarnHoldingTimeLong, "", map[string]float64{"min_residence_s": h.MinResidenceS})
@@ -81,6 +83,7 @@ func productSanity(p *plantfile.Plant, res *Result) {
 		res.warn(WarnSpecificHeat, field(p.Product.SpecificHeat, "specific_heat"),
 			map[string]float64{"value_J_kgK": pp.SpecificHeat, "low_J_kgK": cpMin, "high_J_kgK": cpMax})
 	}
+	viscosityRises(p, res)
 	for i, v := range p.Product.Viscosity {
 		if !v.At.Set || !v.Value.Set {
 			continue
@@ -91,4 +94,63 @@ func productSanity(p *plantfile.Plant, res *Result) {
 				map[string]float64{"value_Pa_s": v.Value.SI, "at_C": v.At.SI, "water_Pa_s": water})
 		}
 	}
+}
+
+// viscosityRises flags each Newtonian viscosity point above the point next
+// below it in temperature (the points in any order): liquid foods thin as
+// they warm, so a rise is most often a typo (22 mPa·s for 0.22).
+func viscosityRises(p *plantfile.Plant, res *Result) {
+	pts := p.Product.Viscosity
+	for i, v := range pts {
+		below := -1 // the point next below v in temperature
+		for j, u := range pts {
+			if u.At.SI < v.At.SI && (below < 0 || u.At.SI > pts[below].At.SI) {
+				below = j
+			}
+		}
+		if below >= 0 && v.Value.SI > pts[below].Value.SI {
+			res.warn(WarnViscosityRises, fmt.Sprintf("product.viscosity[%d].value", i), map[string]float64{"at_C": v.At.SI,
+				"value_Pa_s": v.Value.SI, "below_at_C": pts[below].At.SI, "below_value_Pa_s": pts[below].Value.SI})
+		}
+	}
+}
+
+// LegalRowFloorC is the coolest legal row that is plausible, °C: below any
+// pasteurization temperature the trade uses. The coolest published row is
+// liquid egg white's 132 °F (55.6 °C) for 6.2 min (9 CFR 590.570, Table I;
+// docs/METHOD.md §10.2); 50 °C leaves room below it for any row a regulator
+// may write, while 72 °F (22.2 °C), the PMO's 72 °C row typed in °F, falls
+// far below.
+const LegalRowFloorC = 50.0
+
+// scaleWarnings flag the unit mix-ups a temperature scale invites: a legal
+// row below LegalRowFloorC, and temperature points written in both °C (or
+// K) and °F.
+func scaleWarnings(p *plantfile.Plant, res *Result) {
+	for i, r := range p.LegalMinimums {
+		if r.Temperature.SI < LegalRowFloorC {
+			res.warn(WarnLegalRowCool, r.Field+".temperature",
+				map[string]float64{"row_index": float64(i), "temperature_C": r.Temperature.SI, "floor_C": LegalRowFloorC})
+		}
+	}
+	celsius, fahrenheit := TemperatureFields(p)
+	if len(celsius) > 0 && len(fahrenheit) > 0 {
+		res.warn(WarnScalesMixed, "", map[string]float64{"celsius_fields": float64(len(celsius)), "fahrenheit_fields": float64(len(fahrenheit))})
+	}
+}
+
+// TemperatureFields are the fields whose temperature points (not
+// differences) are written in °C or K, and in °F, in input order.
+func TemperatureFields(p *plantfile.Plant) (celsius, fahrenheit []string) {
+	for _, in := range p.Inputs {
+		if in.SIUnit != units.Temperature.SIUnit {
+			continue
+		}
+		if in.System == units.US {
+			fahrenheit = append(fahrenheit, in.Field)
+		} else {
+			celsius = append(celsius, in.Field)
+		}
+	}
+	return celsius, fahrenheit
 }

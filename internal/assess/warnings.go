@@ -56,6 +56,31 @@ const (
 	// density).
 	NoteSealFromRate WarningCode = "sealed-maximum-from-rate"
 	NoteRateFromSeal WarningCode = "rate-from-sealed-maximum"
+
+	// Unit mix-ups (docs/METHOD.md §19.2).
+	// WarnLegalRowCool is a legal row below LegalRowFloorC, below any
+	// pasteurization temperature (a °C value written in °F?). Field: the
+	// row's temperature. Values: row_index (in the rows judged),
+	// temperature_C, floor_C.
+	WarnLegalRowCool WarningCode = "legal-row-below-pasteurization"
+	// WarnScalesMixed is a plant whose temperature points are written in
+	// both °C (or K) and °F; the words name the fields (from the plant's
+	// inputs). Values: celsius_fields, fahrenheit_fields (counts).
+	WarnScalesMixed WarningCode = "temperature-scales-mixed"
+	// WarnTimingTestDiffers is a latest holding-time test whose measured time
+	// differs from the model's prediction for it by more than
+	// TimingTestTolerance either way. Field: acceptance[i].time. Values:
+	// test_index, measured_s, model_s, difference (measured/model − 1).
+	WarnTimingTestDiffers WarningCode = "holding-time-test-differs"
+	// WarnViscosityRises is a Newtonian viscosity point above the point
+	// next below it in temperature: liquid foods thin as they warm. Field:
+	// the warmer point's value. Values: at_C, value_Pa_s, below_at_C,
+	// below_value_Pa_s.
+	WarnViscosityRises WarningCode = "viscosity-rises-with-temperature"
+	// NoteExactSensor is a holding tube judged at the bare setpoint because
+	// process.sensor_accuracy is not given: the judgement assumes an exact
+	// diversion sensor. No values.
+	NoteExactSensor WarningCode = "judged-at-the-setpoint"
 )
 
 // WarningCodes lists every code (tests walk each through the wording).
@@ -64,7 +89,8 @@ var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, War
 	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient,
 	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated,
 	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm,
-	WarnAcceptanceNotJudged, WarnHoldingTimeNotJudged, NoteSealFromRate, NoteRateFromSeal}
+	WarnAcceptanceNotJudged, WarnHoldingTimeNotJudged, NoteSealFromRate, NoteRateFromSeal,
+	WarnLegalRowCool, WarnScalesMixed, WarnTimingTestDiffers, WarnViscosityRises, NoteExactSensor}
 
 // Warning is something the user should look at that is not a failed check.
 // assess fills Code, Field and Values (SI, each key naming its unit);

@@ -288,7 +288,7 @@ const (
 )
 
 func (d *decoder) record(field string, q Quantity, k units.Kind) {
-	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit, Pos: q.Pos})
+	d.inputs = append(d.inputs, Input{Field: field, Text: q.Text, SI: q.SI, SIUnit: k.SIUnit, Pos: q.Pos, System: q.System})
 }
 
 // flowRate reads a product or medium rate, volumetric or by mass.

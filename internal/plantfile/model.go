@@ -40,6 +40,8 @@ type Input struct {
 	SI     float64
 	SIUnit string
 	Pos    inputerr.Pos
+	// System is the unit system the value was written in (US for °F, lb, …).
+	System units.System
 }
 
 // Plant is a validated plant file.

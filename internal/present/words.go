@@ -170,6 +170,29 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 		return "no legal time–temperature rows are entered (legal_minimums, or legal_table with its line's legal_tables): the holding " +
 			"time is shown but NOT JUDGED against a legal minimum; enter the rows your regulator applies (a schedule judged by its " +
 			"log reduction alone has none)"
+	case assess.WarnLegalRowCool:
+		inF := false
+		if i := int(v["row_index"]); i >= 0 && i < len(p.LegalMinimums) {
+			inF = p.LegalMinimums[i].Temperature.System == units.US
+		}
+		return fmt.Sprintf("%s %s (%s) is below %s, below any pasteurization temperature the trade uses (the coolest published row is "+
+			"liquid egg white's 132 °F, 55.6 °C, for 6.2 min: 9 CFR 590.570): a temperature meant in the other scale? check the row's unit",
+			w.Field, entered(p, w.Field), otherScale(v["temperature_C"], inF), d.With(v["floor_C"], units.Temperature, 0))
+	case assess.WarnScalesMixed:
+		celsius, fahrenheit := assess.TemperatureFields(p)
+		return fmt.Sprintf("temperatures are written in both °C (%s) and °F (%s): each is converted as written, but a mix often means "+
+			"a value typed in the wrong scale; check each", fieldList(celsius), fieldList(fahrenheit))
+	case assess.WarnTimingTestDiffers:
+		return timingDiffersText(w, p, d)
+	case assess.WarnViscosityRises:
+		point := strings.TrimSuffix(w.Field, ".value")
+		return fmt.Sprintf("%s: %s at %s is above %s at %s: liquid foods thin as they warm (unless starch or egg proteins set), "+
+			"so a rise is most often a typo; check the points", point, d.g4(v["value_Pa_s"], units.Viscosity), d.temp(v["at_C"]),
+			d.g4(v["below_value_Pa_s"], units.Viscosity), d.temp(v["below_at_C"]))
+	case assess.NoteExactSensor:
+		return "process.sensor_accuracy is not given: the holding time, the legal row and the log reductions are judged at the setpoint " +
+			"itself, which assumes an exact diversion sensor; enter the sensor's stated accuracy to judge them at the lowest temperature " +
+			"that may go forward"
 	case assess.NoteSealFromRate:
 		return fmt.Sprintf("flow.max_rate is not entered: the normal rate %s is taken as the sealed maximum, at which the holding tube is judged", d.flow(v["rate_m3_s"]))
 	case assess.NoteRateFromSeal:
@@ -179,6 +202,44 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 		return text
 	}
 	panic(fmt.Sprintf("%sno words for warning %q", panicPrefix, w.Code))
+}
+
+// otherScale is a temperature in the scale it was not written in: °C for
+// one written in °F (72 °F: "22.2 °C"), °F for one in °C (72 °C: "161.6 °F").
+func otherScale(c float64, writtenInF bool) string {
+	if writtenInF {
+		return fmt.Sprintf("%.1f °C", c)
+	}
+	return fmt.Sprintf("%.1f °F", units.FromSI(c, units.Temperature, "°F"))
+}
+
+// fieldList names fields: every one up to five, else the first four and
+// how many more.
+func fieldList(fields []string) string {
+	if len(fields) <= 5 {
+		return strings.Join(fields, ", ")
+	}
+	return strings.Join(fields[:4], ", ") + fmt.Sprintf(" and %d more", len(fields)-4)
+}
+
+// timingDiffersText words a holding-time test far from the model: which way,
+// and what each way points to.
+func timingDiffersText(w assess.Warning, p *plantfile.Plant, d Display) string {
+	v := w.Values
+	i := int(v["test_index"])
+	what := "a holding-time test"
+	if i >= 0 && i < len(p.Acceptance) {
+		what = fmt.Sprintf("the holding-time test of %s (acceptance[%d])", p.Acceptance[i].Date.Format(units.DateLayout), i)
+	}
+	diff := v["difference"] * 100
+	if diff > 0 {
+		return fmt.Sprintf("%s measured %.2f s, %.1f %% LONGER than the %.2f s the model gives for that test: the model or the test is wrong "+
+			"(a tube longer or wider than entered, a test flow other than entered, or a timing error); find which before relying on either",
+			what, v["measured_s"], diff, v["model_s"])
+	}
+	return fmt.Sprintf("%s measured %.2f s, %.1f %% SHORTER than the %.2f s the model gives for that test: the model or the test is wrong, "+
+		"and the model may overstate the holding time (a tube shorter or narrower than entered, a flow above the one entered, or a timing "+
+		"error); find which before relying on either", what, v["measured_s"], -diff, v["model_s"])
 }
 
 // Warnings are a result's warnings in words (notes left out).
