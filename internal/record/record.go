@@ -321,12 +321,13 @@ func heatSection(res *assess.Result, d present.Display) report.Section {
 	return report.Section{Heading: "Heat exchange", Blocks: blocks}
 }
 
-// warningsAbout are the result's warnings in words: those that concern a
-// heat-exchange section (sections true), or all the others.
+// warningsAbout are the result's warnings in words (notes left out: they
+// are listed as notes): those that concern a heat-exchange section
+// (sections true), or all the others.
 func warningsAbout(res *assess.Result, d present.Display, sections bool) []string {
 	var out []string
 	for _, w := range res.Warnings {
-		if (w.Section != "") == sections {
+		if !w.Note && (w.Section != "") == sections {
 			out = append(out, present.WarningText(w, res.Plant, d))
 		}
 	}
@@ -418,6 +419,16 @@ func checksSection(res *assess.Result, d present.Display) report.Section {
 		blocks = []report.Block{report.Paragraph{Text: "No check applies: every section is in sizing mode and no holding tube, kinetics or pressures are described."}}
 	}
 	blocks = append(blocks, report.Paragraph{Text: "Result: " + present.Overall(res) + ".", Emphasis: true})
+	if res.HoldingTube == nil {
+		// The warnings and notes that no section concerns are on the holding
+		// tube's page; without one, they are here.
+		if w := warningsAbout(res, d, false); len(w) > 0 {
+			blocks = append(blocks, report.Paragraph{Text: "Warnings:", Emphasis: true}, report.Bullets{Items: w})
+		}
+		if n := present.Notes(res, d); len(n) > 0 {
+			blocks = append(blocks, report.Paragraph{Text: "Notes:", Emphasis: true}, report.Bullets{Items: n})
+		}
+	}
 	return report.Section{Heading: "Checks", Blocks: blocks}
 }
 

@@ -475,3 +475,88 @@ func TestCoverCarriesTheMargins(t *testing.T) {
 		t.Errorf("cider cover margins %q", doc.Cover.Margins)
 	}
 }
+
+func TestEveryWarningIsInTheRecord(t *testing.T) {
+	// A plant without a holding tube still has its warnings in the record
+	// (they sit on the holding tube's page when there is one), and a note
+	// is listed once, as a note. The regeneration section's U of 33 000
+	// W/(m²·K) is outside the usual range (docs/METHOD.md §19.1).
+	src := `product:
+  name: juice
+  density: 1045 kg/m3
+  specific_heat: 3.8 kJ/(kg*K)
+flow: {rate: 5000 L/h}
+process:
+  raw_inlet: 8 °C
+  hold_setpoint: 85 °C
+regeneration:
+  ratio: 0.8
+  plate_area: 0.5 m2
+  u_value: 33000 W/(m2*K)
+`
+	p, err := plantfile.Parse("juice.yaml", []byte(src))
+	if err == nil {
+		err = plantfile.Validate(p)
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := assess.Run(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc, err := Build(res, Options{Date: day, PlantName: "juice.yaml"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := dump(doc)
+	if !strings.Contains(text, "regeneration.u_value 33000 W/(m2*K) is outside") {
+		t.Errorf("the warning is not in the record:\n%s", text)
+	}
+	// The SI demo without its sensor accuracy: the note once.
+	milk, err := os.ReadFile("../../testdata/demo/htst-milk-si.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err = plantfile.Parse("milk.yaml", []byte(strings.Replace(string(milk), "  sensor_accuracy: 0.25 °C", "", 1)))
+	if err == nil {
+		err = plantfile.Validate(p)
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res, err = assess.Run(p); err != nil {
+		t.Fatal(err)
+	}
+	if doc, err = Build(res, Options{Date: day, PlantName: "milk.yaml"}); err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(dump(doc), "which assumes an exact diversion sensor"); n != 1 {
+		t.Errorf("the note %d times in the record", n)
+	}
+}
+
+// dump is the text of a document's paragraphs, bullets, key values and
+// table cells.
+func dump(doc *report.Document) string {
+	var b strings.Builder
+	for _, s := range doc.Sections {
+		for _, bl := range s.Blocks {
+			switch v := bl.(type) {
+			case report.Paragraph:
+				b.WriteString(v.Text + "\n")
+			case report.Bullets:
+				b.WriteString(strings.Join(v.Items, "\n") + "\n")
+			case report.KeyValues:
+				for _, p := range v.Pairs {
+					b.WriteString(p[0] + ": " + p[1] + "\n")
+				}
+			case report.Table:
+				for _, r := range v.Rows {
+					b.WriteString(strings.Join(r, " | ") + "\n")
+				}
+			}
+		}
+	}
+	return b.String()
+}
