@@ -80,10 +80,12 @@ type matrixReport struct {
 	Tool     string           `json:"tool"`
 	Version  string           `json:"version"`
 	LineFile assess.SourceRef `json:"line_file"`
-	Products []matrixProduct  `json:"products"`
-	Search   matrixSearch     `json:"envelope_search"`
-	Pass     bool             `json:"pass"`
-	Caution  string           `json:"caution"`
+	// LineWarnings are the line file's own (a product block it gives).
+	LineWarnings []assess.Warning `json:"line_warnings"`
+	Products     []matrixProduct  `json:"products"`
+	Search       matrixSearch     `json:"envelope_search"`
+	Pass         bool             `json:"pass"`
+	Caution      string           `json:"caution"`
 }
 
 type matrixProduct struct {
@@ -291,6 +293,12 @@ func writeMatrix(w io.Writer, line *plantfile.Plant, rows []assess.OnLine, d pre
 		ft.colour = colour
 		ft.write(w)
 	}
+	if lw := present.MatrixLineWarnings(line, rows, d); len(lw) > 0 {
+		fmt.Fprintln(w, "\nWarnings on the line file")
+		for _, m := range lw {
+			fmt.Fprint(w, wrap(m, "  !", 88))
+		}
+	}
 	var warned []string
 	for _, o := range rows {
 		if n := len(o.Result.Warnings); n > 0 {
@@ -338,7 +346,15 @@ func matrixJSON(line *plantfile.Plant, rows []assess.OnLine, pass bool) matrixRe
 		Search: matrixSearch{FlowStep: assess.EnvelopeFlowStep, FlowCap: assess.EnvelopeFlowCap, FlowFloor: assess.EnvelopeFlowFloor,
 			FlowTolerance: assess.EnvelopeFlowTol, SetpointFromC: assess.EnvelopeSetpointFrom, SetpointToC: assess.EnvelopeSetpointTo,
 			SetpointStepK: assess.EnvelopeSetpointStep, SetpointToleranceK: assess.EnvelopeSetpointTol},
-		Pass: pass}
+		Pass: pass, LineWarnings: []assess.Warning{}}
+	var plants []*plantfile.Plant
+	for _, o := range rows {
+		plants = append(plants, o.Result.Plant)
+	}
+	for _, w := range assess.LineWarnings(line, plants) {
+		w.Message = present.WarningText(w, line, present.Display{Sys: units.SI})
+		rep.LineWarnings = append(rep.LineWarnings, w)
+	}
 	for _, o := range rows {
 		res := o.Result
 		p := res.Plant

@@ -227,3 +227,44 @@ func TestRecordOfAProductOnALine(t *testing.T) {
 		t.Error("the line file was overwritten")
 	}
 }
+
+func TestMatrixWarnsOfProductBlocksInTheLineFile(t *testing.T) {
+	// A line file that gives organisms (a product's block): the cream left
+	// without its own inherits the line's whole, which matrix warns of,
+	// naming the block and the product file; the whole milk gives its own.
+	dir := t.TempDir()
+	for _, f := range []string{"line", "whole-milk", "cream"} {
+		b, _ := os.ReadFile(lineDemoFile(f))
+		text := string(b)
+		switch f {
+		case "line":
+			text += "organisms:\n  - {name: Listeria monocytogenes, D: 0.9 s, D_temperature: 71.7 °C, z: 6.3 °C, required_log_reduction: 5}\n"
+		case "cream":
+			i, j := strings.Index(text, "organisms:"), strings.Index(text, "legal_table:")
+			text = text[:i] + text[j:]
+		}
+		writeFile(t, filepath.Join(dir, f+".yaml"), text)
+	}
+	in := func(n string) string { return filepath.Join(dir, n+".yaml") }
+	out, _, _ := runBinary(t, "matrix", in("line"), in("whole-milk"), in("cream"))
+	flat := strings.Join(strings.Fields(out), " ")
+	if !strings.Contains(flat, "line.yaml gives organisms, a block of a product") || !strings.Contains(flat, "(1 of the products here do)") ||
+		!strings.Contains(flat, "cream.yaml takes organisms") || strings.Contains(flat, "whole-milk.yaml takes") {
+		t.Errorf("matrix:\n%s", out)
+	}
+	js, _, _ := runBinary(t, "matrix", in("line"), in("whole-milk"), in("cream"), "--json")
+	var r struct {
+		LineWarnings []struct{ Code, Field, Message string } `json:"line_warnings"`
+	}
+	if err := json.Unmarshal([]byte(js), &r); err != nil {
+		t.Fatal(err)
+	}
+	if len(r.LineWarnings) != 1 || r.LineWarnings[0].Code != "line-file-gives-product-block" || !strings.Contains(r.LineWarnings[0].Message, "gives organisms") {
+		t.Errorf("JSON line warnings %+v", r.LineWarnings)
+	}
+	// The demo line gives none.
+	out, _, _ = runBinary(t, "matrix", lineDemoFile("line"), lineDemoFile("whole-milk"))
+	if strings.Contains(out, "a block of a product") {
+		t.Errorf("the demo line:\n%s", out)
+	}
+}

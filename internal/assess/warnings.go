@@ -81,6 +81,12 @@ const (
 	// process.sensor_accuracy is not given: the judgement assumes an exact
 	// diversion sensor. No values.
 	NoteExactSensor WarningCode = "judged-at-the-setpoint"
+	// WarnLineProductBlock is a line file that gives blocks of a product
+	// (product, flow, process, organisms, legal_table; LineBlocks names
+	// them): each product file that leaves one out inherits it whole
+	// (LineWarnings). Values: inheriting (how many of the products judged
+	// take one).
+	WarnLineProductBlock WarningCode = "line-file-gives-product-block"
 )
 
 // WarningCodes lists every code (tests walk each through the wording).
@@ -90,7 +96,7 @@ var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, War
 	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated,
 	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm,
 	WarnAcceptanceNotJudged, WarnHoldingTimeNotJudged, NoteSealFromRate, NoteRateFromSeal,
-	WarnLegalRowCool, WarnScalesMixed, WarnTimingTestDiffers, WarnViscosityRises, NoteExactSensor}
+	WarnLegalRowCool, WarnScalesMixed, WarnTimingTestDiffers, WarnViscosityRises, NoteExactSensor, WarnLineProductBlock}
 
 // Warning is something the user should look at that is not a failed check.
 // assess fills Code, Field and Values (SI, each key naming its unit);

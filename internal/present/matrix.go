@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"pasval/internal/assess"
+	"pasval/internal/plantfile"
 	"pasval/internal/units"
 	"pasval/regen"
 )
@@ -256,4 +257,28 @@ func MatrixOverall(ps []assess.OnLine) string {
 		s += n
 	}
 	return s
+}
+
+// MatrixLineWarnings are the line file's warnings in words, each followed by
+// the product files it concerns.
+func MatrixLineWarnings(line *plantfile.Plant, ps []assess.OnLine, d Display) []string {
+	var out []string
+	var plants []*plantfile.Plant
+	for _, o := range ps {
+		plants = append(plants, o.Result.Plant)
+	}
+	for _, w := range assess.LineWarnings(line, plants) {
+		text := WarningText(w, line, d)
+		var files []string
+		for _, p := range plants {
+			if b := assess.Inherited(p); len(b) > 0 {
+				files = append(files, filepath.Base(p.File)+" takes "+strings.Join(b, ", "))
+			}
+		}
+		if len(files) > 0 {
+			text += ": " + strings.Join(files, "; ")
+		}
+		out = append(out, text)
+	}
+	return out
 }

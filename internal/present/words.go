@@ -3,6 +3,7 @@ package present
 import (
 	"fmt"
 	"math"
+	"path/filepath"
 	"strings"
 
 	"pasval/internal/assess"
@@ -189,6 +190,15 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 		return fmt.Sprintf("%s: %s at %s is above %s at %s: liquid foods thin as they warm (unless starch or egg proteins set), "+
 			"so a rise is most often a typo; check the points", point, d.g4(v["value_Pa_s"], units.Viscosity), d.temp(v["at_C"]),
 			d.g4(v["below_value_Pa_s"], units.Viscosity), d.temp(v["below_at_C"]))
+	case assess.WarnLineProductBlock:
+		blocks := assess.LineBlocks(p)
+		what := "a block of a product"
+		if len(blocks) > 1 {
+			what = "blocks of a product"
+		}
+		return fmt.Sprintf("%s gives %s, %s, not of the line's equipment: a product file that leaves one out inherits the line's, "+
+			"whole (%.0f of the products here do); give each product file its own", filepath.Base(p.File), strings.Join(blocks, ", "), what,
+			v["inheriting"])
 	case assess.NoteExactSensor:
 		return "process.sensor_accuracy is not given: the holding time, the legal row and the log reductions are judged at the setpoint " +
 			"itself, which assumes an exact diversion sensor; enter the sensor's stated accuracy to judge them at the lowest temperature " +

@@ -113,6 +113,9 @@ func BuildMatrix(line *plantfile.Plant, rows []assess.OnLine, opts Options) *rep
 	if g := present.MatrixFailing(rows, d); len(g.Rows) > 0 {
 		summary = append(summary, tableFrom("Failing checks.", g))
 	}
+	if lw := present.MatrixLineWarnings(line, rows, d); len(lw) > 0 {
+		summary = append(summary, report.Paragraph{Text: "Warnings on the line file:", Emphasis: true}, report.Bullets{Items: lw})
+	}
 	summary = append(summary, report.Paragraph{Text: "Result: " + present.MatrixOverall(rows) + ".", Emphasis: true})
 	doc.Sections = append(doc.Sections, report.Section{Heading: "Products on the line", Blocks: summary})
 
