@@ -224,10 +224,15 @@ func TestMissingFileAndUsage(t *testing.T) {
 		{[]string{"frobnicate"}, "unknown command"},
 		{[]string{"init", "--units", "metric"}, "--units must be si or us"},
 		{[]string{"check", badDir}, "../../testdata/bad: cannot read ../../testdata/bad: is a directory"},
+		// A flag's value that is not a number says what is expected, in words
+		// (not the parser's "strconv.ParseUint: parsing …").
+		{[]string{"margins", "--seed", "abc", filepath.Join(demoDir, "htst-milk-si.yaml")},
+			`invalid argument "abc" for "--seed" flag: expected a whole number, 0 or more (see 'pasval margins --help')`},
+		{[]string{"margins", "--samples", "1e99", filepath.Join(demoDir, "htst-milk-si.yaml")}, `for "--samples" flag: expected a whole number`},
 	}
 	for _, tc := range tests {
 		var out, errb bytes.Buffer
-		if code := run(tc.args, &out, &errb); code != exitInput || !strings.Contains(errb.String(), tc.frag) {
+		if code := run(tc.args, &out, &errb); code != exitInput || !strings.Contains(errb.String(), tc.frag) || strings.Contains(errb.String(), "strconv") {
 			t.Errorf("%v: exit %d, stderr %q; want 2 and %q", tc.args, code, errb.String(), tc.frag)
 		}
 	}

@@ -105,7 +105,7 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 	if len(ids) > 0 {
 		fmt.Fprintln(w, strings.Join(ids, " · "))
 	}
-	fmt.Fprint(w, inputHashes(res)+"\n")
+	fmt.Fprint(w, inputHashes(res.InputSHA256, res.LineFile)+"\n")
 
 	pp := res.Product
 	fmt.Fprintf(w, "Product  %s: density %s, specific heat %s%s\n", p.Product.Name,
@@ -216,9 +216,9 @@ func writeWarnings(w io.Writer, warnings []string) {
 
 // inputHashes are the lines that name the input files by their SHA-256: the
 // plant file, and the line file it names.
-func inputHashes(res *assess.Result) string {
-	s := fmt.Sprintf("input sha256 %s\n", res.InputSHA256)
-	if l := res.LineFile; l != nil {
+func inputHashes(sha string, line *assess.SourceRef) string {
+	s := fmt.Sprintf("input sha256 %s\n", sha)
+	if l := line; l != nil {
 		s += fmt.Sprintf("line file %s sha256 %s\n", l.File, l.SHA256)
 	}
 	return s

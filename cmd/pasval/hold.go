@@ -114,7 +114,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 			return err
 		}
 	} else {
-		fmt.Fprintf(out, "pasval %s · holding tube of %s\n%s", res.Version, p.File, inputHashes(res))
+		fmt.Fprintf(out, "pasval %s · holding tube of %s\n%s", res.Version, p.File, inputHashes(res.InputSHA256, res.LineFile))
 		writeHolding(out, res, d)
 		writeSetpointTable(out, res, rep.SetpointTable, d)
 		writeChecks(out, &only, d, useColour(out), present.HoldingOverall(&only))

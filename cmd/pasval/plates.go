@@ -13,6 +13,7 @@ import (
 	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
+	"pasval/internal/version"
 )
 
 type platesOptions struct {
@@ -161,7 +162,7 @@ func runPlates(opts platesOptions, out io.Writer) error {
 }
 
 func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.Display, sweep bool) {
-	fmt.Fprintf(w, "pasval · added regeneration plates for %s\n", p.File)
+	fmt.Fprintf(w, "pasval %s · added regeneration plates for %s\n%s", version.Version, p.File, inputHashes(p.SHA256, lineRef(p)))
 	duty := d.DutyUnit()
 	tu := d.Unit(units.Temperature)
 	all := append([]assess.PlatesOption{wi.Baseline}, wi.Options...)
@@ -227,4 +228,13 @@ func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.D
 		}
 	}
 	fmt.Fprint(w, "\n"+wrap(wi.Caution, "Caution:", 88))
+}
+
+// lineRef is the line file a plant names, for the header's hashes (nil
+// without one).
+func lineRef(p *plantfile.Plant) *assess.SourceRef {
+	if p.Line == nil {
+		return nil
+	}
+	return &assess.SourceRef{File: p.Line.File, SHA256: p.Line.SHA256}
 }

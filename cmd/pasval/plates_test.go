@@ -9,6 +9,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
+	"pasval/internal/version"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -198,5 +199,16 @@ func BenchmarkPlatesSweep(b *testing.B) {
 		if code := run([]string{"plates", path, "--sweep", "10:140:10"}, &out, &out); code != 0 {
 			b.Fatal(out.String())
 		}
+	}
+}
+
+func TestPlatesHeaderLikeTheOthers(t *testing.T) {
+	// Like check, hold and margins: the tool's version and the input's hash.
+	path := filepath.Join(demoDir, "cider-us.yaml")
+	out, _, _ := runBinary(t, "plates", path, "--add", "10")
+	js, _ := checkJSON(t, path)
+	want := "pasval " + version.Version + " · added regeneration plates for " + path + "\ninput sha256 " + js.InputSHA256 + "\n"
+	if !strings.HasPrefix(out, want) {
+		t.Errorf("header:\n%s\nwant\n%s", out[:min(len(out), 300)], want)
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -62,7 +63,7 @@ authority and the local regulator.`,
 	root.SetErr(stderr)
 	root.SetVersionTemplate("pasval {{.Version}}\n")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
-		return usagef("%v (see '%s --help')", err, c.CommandPath())
+		return usagef("%s (see '%s --help')", flagErrorWords(err), c.CommandPath())
 	})
 	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout),
 		newMarginsCmd(stdout), newMatrixCmd(stdout), newLogsCmd(stdout), newDueCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout),
@@ -84,6 +85,25 @@ authority and the local regulator.`,
 		}
 	}
 	return root
+}
+
+// flagErrorWords is a flag's parse error with the number parser's own words
+// ("strconv.ParseUint: parsing "abc": invalid syntax") replaced by what the
+// flag expects.
+func flagErrorWords(err error) string {
+	var num *strconv.NumError
+	if !errors.As(err, &num) {
+		return err.Error()
+	}
+	expected := map[string]string{"ParseUint": "a whole number, 0 or more", "ParseInt": "a whole number",
+		"ParseFloat": "a number", "ParseBool": "true or false"}[num.Func]
+	if expected == "" {
+		expected = "another value"
+	}
+	if errors.Is(num.Err, strconv.ErrRange) {
+		expected += " within range"
+	}
+	return strings.TrimSuffix(err.Error(), ": "+num.Error()) + ": expected " + expected
 }
 
 // run executes the command line and maps the outcome to an exit code; it is

@@ -167,8 +167,12 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 			return err
 		}
 		ok = okRuns && ok
-		if len(logs) == 0 {
+		switch {
+		case len(logs) == 0:
 			partial = "the attachments agree; verdicts and pages not checked (give --log with each recorded run to re-render it)"
+		case st.Version != version.Version || st.Date.IsZero():
+			partial = fmt.Sprintf("attachments, runs and verdicts agree; pages not byte-checked (the record was made by %s, this is pasval %s)",
+				madeBy(st), version.Version)
 		}
 	default:
 		if len(logs) > 0 {

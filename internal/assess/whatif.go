@@ -124,14 +124,23 @@ func (e *AddedPlatesError) Error() string {
 // this fraction of what the first 10 saved.
 const DefaultKneeFraction = 0.10
 
-// RegenerationNotRated is returned when the regenerator is sized, not rated.
+// regenerationNotRated is returned when there is no regenerator, or it is
+// sized, not rated: the message suggests the plates the sizing gives.
 func regenerationNotRated(p *plantfile.Plant) error {
-	pos := inputerr.Pos{File: p.File, Line: 1, Column: 1}
-	if p.Regeneration != nil {
-		pos = p.Regeneration.Pos
+	if p.Regeneration == nil {
+		return inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1}, Field: "regeneration",
+			Msg: "the plates what-if needs a regeneration section in rating mode (with its installed plates); this plant has none"}}
 	}
-	return inputerr.List{{Pos: pos, Field: "regeneration.plates",
-		Msg: "the plates what-if needs the regenerator in rating mode: replace ratio with the installed plates (e.g. plates: 112)"}}
+	hint := "the installed plates"
+	if res, err := run(p); err == nil {
+		for _, s := range res.Sections {
+			if s.Kind == regen.RegenerationSection {
+				hint = fmt.Sprintf("the installed plates (plates: %d is what this sizing gives)", s.Plates)
+			}
+		}
+	}
+	return inputerr.List{{Pos: p.Regeneration.Pos, Field: "regeneration.plates",
+		Msg: "the plates what-if needs the regenerator in rating mode: replace ratio with " + hint}}
 }
 
 // AddPlates computes the baseline and each option of added plates (≥ 1,

@@ -4,6 +4,7 @@ package assess
 // case, computed from ε = NTU/(1+NTU) at C_r = 1 (docs/METHOD.md §5.2).
 
 import (
+	"fmt"
 	"math"
 	"os"
 	"strings"
@@ -127,10 +128,17 @@ func TestKnee(t *testing.T) {
 }
 
 func TestAddPlatesNeedsRating(t *testing.T) {
+	// A sized regenerator is refused; the message suggests the plates its own
+	// sizing gives (what check reports), not a number from elsewhere.
 	src := strings.Replace(whatIfPlant, "plates: 30", "ratio: 0.8", 1)
-	_, err := AddPlates(load(t, src), []int{10}, DefaultKneeFraction, LayoutNone)
-	if err == nil || !strings.Contains(err.Error(), "rating mode") {
-		t.Errorf("sized regenerator: %v", err)
+	res, err := Run(load(t, src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := res.Sections[0].Plates
+	_, err = AddPlates(load(t, src), []int{10}, DefaultKneeFraction, LayoutNone)
+	if err == nil || !strings.Contains(err.Error(), "rating mode") || !strings.Contains(err.Error(), fmt.Sprintf("plates: %d is what this sizing gives", n)) {
+		t.Errorf("sized regenerator (%d plates): %v", n, err)
 	}
 }
 

@@ -44,8 +44,18 @@ import (
 	"time"
 )
 
-// ErrExists is returned when the target exists and overwriting was not allowed.
+// ErrExists is matched (errors.Is) by an *ExistsError: the target exists
+// and overwriting was not allowed.
 var ErrExists = errors.New("file exists")
+
+// ExistsError is a target that exists when overwriting was not allowed; its
+// message says what to do, once.
+type ExistsError struct{ Path string }
+
+func (e *ExistsError) Error() string { return e.Path + " already exists; use --force to overwrite it" }
+
+// Is makes errors.Is(err, ErrExists) true.
+func (e *ExistsError) Is(target error) bool { return target == ErrExists }
 
 // ErrNotRegular is matched (errors.Is) by a *NotRegularError.
 var ErrNotRegular = errors.New("not a regular file")
@@ -124,7 +134,7 @@ func Check(path string, force bool) error {
 		return &NotRegularError{Path: path, Mode: st.Mode()}
 	}
 	if !force {
-		return fmt.Errorf("%s already exists; use --force to overwrite it: %w", path, ErrExists)
+		return &ExistsError{Path: path}
 	}
 	return nil
 }
@@ -220,7 +230,7 @@ func commit(name, path string, force bool) error {
 			if err := Check(path, false); err != nil {
 				return err
 			}
-			return fmt.Errorf("%s already exists; use --force to overwrite it: %w", path, ErrExists)
+			return &ExistsError{Path: path}
 		}
 		// A file system without hard links: rename instead.
 		if err := os.Rename(name, path); err != nil {

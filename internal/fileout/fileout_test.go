@@ -206,3 +206,16 @@ func assertNoTemporary(t *testing.T, dir string) {
 		}
 	}
 }
+
+func TestExistsSaysItOnce(t *testing.T) {
+	// The refusal of an existing file says what to do, and no more: not
+	// "…; use --force to overwrite it: file exists".
+	p := filepath.Join(t.TempDir(), "a")
+	if err := Write(p, []byte("a"), false); err != nil {
+		t.Fatal(err)
+	}
+	err := Write(p, []byte("b"), false)
+	if !errors.Is(err, ErrExists) || err.Error() != p+" already exists; use --force to overwrite it" {
+		t.Errorf("%v", err)
+	}
+}

@@ -296,8 +296,21 @@ func (v *validator) uncertainty(p *Plant) {
 		a := t.Half(x)
 		b := t.Field.Vary.Bound
 		if !b.Contains(x-a) || !b.Contains(x+a) {
-			v.add(t.ValuePos, where+".tolerance", "%s %s reaches %s to %s (SI), outside the physical range of %s (%s); a narrower tolerance is needed",
-				t.Path, t.Text, g(x-a), g(x+a), t.Path, b)
+			unit := ""
+			switch {
+			case t.Field.Value == KindFlow && (t.Path == "flow.rate" && p.Flow.Rate.ByMass || t.Path != "flow.rate" && p.Flow.MaxRate.ByMass):
+				unit = " kg/s"
+			case t.Field.Value == KindFlow:
+				unit = " m3/s"
+			case t.Field.Value == KindQuantity && t.Field.Unit.SIUnit != "1" && t.Field.Unit.SIUnit != "":
+				unit = " " + t.Field.Unit.SIUnit
+			}
+			within := b.String()
+			if within != "any value" {
+				within += unit
+			}
+			v.add(t.ValuePos, where+".tolerance", "%s %s reaches %s%s to %s%s, outside the physical range of %s (%s); a narrower tolerance is needed",
+				t.Path, t.Text, g(x-a), unit, g(x+a), unit, t.Path, within)
 			continue
 		}
 		spans[t.Path] = span{x, t.Extent(x), t}

@@ -1,0 +1,25 @@
+package plantfile
+
+import (
+	"os"
+	"strings"
+	"testing"
+)
+
+func TestToleranceBeyondTheRangeNamesItsUnit(t *testing.T) {
+	// The SI demo's 34 m tube with a tolerance of ±500 ft (152.4 m, NIST
+	// SP 811: 1 ft = 0.3048 m) reaches 34 − 152.4 = −118.4 m: the error gives
+	// the ends and the range with their SI unit, not bare numbers.
+	src, err := os.ReadFile("../../testdata/demo/htst-milk-si.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := strings.Replace(string(src), "holding_tube.length: {tolerance: ±0.05 m", "holding_tube.length: {tolerance: ±500 ft", 1)
+	p, err := Parse("milk.yaml", []byte(text))
+	if err == nil {
+		err = Validate(p)
+	}
+	if err == nil || !strings.Contains(err.Error(), "reaches -118.4 m to 186.4 m, outside the physical range of holding_tube.length (greater than 0 m)") {
+		t.Errorf("error %v", err)
+	}
+}
