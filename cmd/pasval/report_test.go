@@ -84,6 +84,11 @@ func TestRecordsOfEveryDemo(t *testing.T) {
 			if strings.Contains(name, "-us") && !bytes.Contains(info, []byte("letter")) {
 				t.Errorf("US plant not on Letter paper:\n%s", info)
 			}
+			// The README and verify's help give a record's size: well under
+			// 150 KB (measured: the SI demo's 19 pages are about 115 KB).
+			if st, err := os.Stat(rec); err != nil || st.Size() > 150<<10 {
+				t.Errorf("record size %v (%v): over the 150 KB the README states", st.Size(), err)
+			}
 		})
 	}
 }

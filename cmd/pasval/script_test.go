@@ -5,10 +5,12 @@ package main
 // output compared, and the output the README shows must be the script's.
 
 import (
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"sort"
 	"strings"
 	"testing"
 
@@ -270,5 +272,32 @@ func TestReadmeWroteComments(t *testing.T) {
 	}
 	if n < 2 {
 		t.Errorf("only %d \"# wrote\" comments found in the README", n)
+	}
+}
+
+func TestReadmeListsEveryCompletionShell(t *testing.T) {
+	// The README's command table names the shells completion writes a
+	// script for: exactly those the command accepts.
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := regexp.MustCompile("`pasval completion ([a-z|\\\\]+)`").FindSubmatch(data)
+	if m == nil {
+		t.Fatal("no completion row in the README")
+	}
+	listed := strings.Split(strings.ReplaceAll(string(m[1]), `\|`, "|"), "|")
+	var shells []string
+	for _, c := range newRootCmd(io.Discard, io.Discard).Commands() {
+		if c.Name() == "completion" {
+			for _, s := range c.Commands() {
+				shells = append(shells, s.Name())
+			}
+		}
+	}
+	sort.Strings(listed)
+	sort.Strings(shells)
+	if strings.Join(listed, " ") != strings.Join(shells, " ") {
+		t.Errorf("the README lists %v, completion writes %v", listed, shells)
 	}
 }

@@ -44,7 +44,7 @@ with its SHA-256, and verify checks both. A matrix record ('pasval matrix
 product), and is re-rendered from them all. The files given are matched to
 the files the record carries by their content, in any order; one that matches
 none is reported as not one the record carries. ` + fmt.Sprintf(`Every file is read only from
-a regular file, a record of at most %d MiB (one is about 70 KB) and each input
+a regular file, a record of at most %d MiB (one is well under 150 KB) and each input
 file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20),
 		Example: `  pasval verify line2-record.pdf
   pasval verify line2-record.pdf line2.yaml

@@ -5,6 +5,8 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -200,5 +202,35 @@ func TestPatterns(t *testing.T) {
 	}
 	if !strings.HasPrefix(ID, "https://") {
 		t.Error("schema id")
+	}
+}
+
+func TestReadmeCountsTheBadFiles(t *testing.T) {
+	// The README's reliability table and its tests section count the
+	// corpus: each count is the length of the list above, and the whole is
+	// every file of testdata/bad.
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	files, _ := filepath.Glob("../../testdata/bad/*.yaml")
+	for _, c := range []struct {
+		what string
+		re   string
+		want int
+	}{
+		{"yaml", `(\d+) bad files \(classed in`, len(notYAML)},
+		{"structural", `(\d+) bad files \(the schema refuses them too\)`, len(structural)},
+		{"semantic", `\| (\d+) bad files \| every quantity finite`, len(semantic)},
+		{"all", "\\(`testdata/bad/`, (\\d+) files", len(files)},
+	} {
+		m := regexp.MustCompile(c.re).FindSubmatch(data)
+		if m == nil {
+			t.Errorf("%s: the README gives no count (%s)", c.what, c.re)
+			continue
+		}
+		if n, _ := strconv.Atoi(string(m[1])); n != c.want {
+			t.Errorf("%s: the README says %d bad files, the corpus has %d", c.what, n, c.want)
+		}
 	}
 }
