@@ -101,7 +101,7 @@ func (r *renderer) diagram(dg Diagram) {
 	f.Line(left, Y(dg.Setpoint), left+width, Y(dg.Setpoint))
 	f.SetDashPattern(nil, 0)
 	f.SetTextColor(colHot[0], colHot[1], colHot[2])
-	f.SetXY(left+width-40, Y(dg.Setpoint)-4)
+	f.SetXY(left+width-42, Y(dg.Setpoint)-4)
 	f.CellFormat(40, 3.6, fmt.Sprintf("diversion setpoint %.1f %s", dg.Setpoint, dg.Unit), "", 0, "R", false, 0, "")
 	f.SetTextColor(0, 0, 0)
 	type valueLabel struct {
@@ -144,10 +144,14 @@ func (r *renderer) diagram(dg Diagram) {
 		f.MultiCell(segW, 3.2, printable(s.Label), "", "C", false)
 	}
 	// value labels last, on white, so that no line crosses them; a label that
-	// would cover one already placed moves down (or up) a step.
+	// would cover one already placed moves down (or up) a step, and none
+	// leaves the frame (where the segment names and the axis are).
 	type box struct{ x0, y0, x1, y1 float64 }
 	var placed []box
 	overlaps := func(b box) bool {
+		if b.y0 < top || b.y1 > top+height || b.x0 < left || b.x1 > left+width {
+			return true
+		}
 		for _, p := range placed {
 			if b.x0 < p.x1 && p.x0 < b.x1 && b.y0 < p.y1 && p.y0 < b.y1 {
 				return true
@@ -169,13 +173,17 @@ func (r *renderer) diagram(dg Diagram) {
 			return box{l.x - w, y - 3.6, l.x, y - 0.4}
 		}
 		y := l.y
-		for _, dy := range []float64{0, -3.6, 3.6, -7.2, 7.2} {
+		for _, dy := range []float64{0, -3.6, 3.6, -7.2, 7.2, -4.9, -10.8, 10.8} {
 			if !overlaps(at(l.y + dy)) {
 				y = l.y + dy
 				break
 			}
 		}
 		placed = append(placed, at(y))
+		if r.trace != nil {
+			b := at(y)
+			r.trace.labels = append(r.trace.labels, [4]float64{b.x0, b.y0, b.x1, b.y1})
+		}
 		f.SetTextColor(l.col[0], l.col[1], l.col[2])
 		r.label(l.x, y, l.v, l.left)
 	}
@@ -184,6 +192,9 @@ func (r *renderer) diagram(dg Diagram) {
 	f.SetDrawColor(0, 0, 0)
 	f.SetLineWidth(0.3)
 	f.Rect(left, top, width, height, "D")
+	if r.trace != nil {
+		r.trace.frame = [4]float64{left, top, left + width, top + height}
+	}
 	// legend
 	ly := top + height + 10
 	r.legend(left, ly, []legendItem{{"product", colProduct, nil}, {"heating medium", colHot, dashHeating},

@@ -48,12 +48,58 @@ type renderer struct {
 	doc  *Document
 	w    float64 // usable width
 	secN int
+	// trace records where things were laid out, for the layout tests; nil
+	// when rendering a record.
+	trace *layoutTrace
+}
+
+// layoutTrace is where the renderer put what the layout rules concern.
+type layoutTrace struct {
+	headings    []place // each section heading
+	firstBlocks []place // the first block of each section, where it starts
+	// diagram: the drawing frame and each value label's box (mm)
+	frame  [4]float64
+	labels [][4]float64
+}
+
+// place is a page and a height on it (mm from the top).
+type place struct {
+	page int
+	y    float64
 }
 
 // Render lays the document out as PDF bytes. The same document gives the
 // same bytes (the page count is returned too): the creation date is the record date, catalog entries are
 // sorted and no random identifier is written.
 func Render(doc *Document) (pdf []byte, pages int, err error) {
+	return render(doc, nil)
+}
+
+// render is Render, recording the layout in trace when it is not nil.
+func render(doc *Document, trace *layoutTrace) (pdf []byte, pages int, err error) {
+	r, err := newRenderer(doc, trace)
+	if err != nil {
+		return nil, 0, err
+	}
+	f := r.f
+	r.cover()
+	for _, s := range doc.Sections {
+		r.section(s)
+	}
+	if err := f.Error(); err != nil {
+		return nil, 0, fmt.Errorf("report: %w", err)
+	}
+	pages = f.PageNo()
+	var buf bytes.Buffer
+	if err := f.Output(&buf); err != nil {
+		return nil, 0, fmt.Errorf("report: %w", err)
+	}
+	return buf.Bytes(), pages, nil
+}
+
+// newRenderer sets up the PDF of a document: page size, fonts, metadata,
+// attachments, header and footer.
+func newRenderer(doc *Document, trace *layoutTrace) (*renderer, error) {
 	f := fpdf.New("P", "mm", doc.PageSize, "")
 	f.SetCatalogSort(true)
 	f.SetCompression(true)
@@ -85,23 +131,13 @@ func Render(doc *Document) (pdf []byte, pages int, err error) {
 	}
 	f.SetAttachments(atts)
 	pw, _ := f.GetPageSize()
-	r := &renderer{f: f, doc: doc, w: pw - 2*margin}
+	r := &renderer{f: f, doc: doc, w: pw - 2*margin, trace: trace}
 	f.SetHeaderFunc(r.header)
 	f.SetFooterFunc(r.footer)
-
-	r.cover()
-	for _, s := range doc.Sections {
-		r.section(s)
-	}
 	if err := f.Error(); err != nil {
-		return nil, 0, fmt.Errorf("report: %w", err)
+		return nil, fmt.Errorf("report: %w", err)
 	}
-	pages = f.PageNo()
-	var buf bytes.Buffer
-	if err := f.Output(&buf); err != nil {
-		return nil, 0, fmt.Errorf("report: %w", err)
-	}
-	return buf.Bytes(), pages, nil
+	return r, nil
 }
 
 func (r *renderer) font(style string, size float64) { r.f.SetFont(fontFamily, style, size) }
@@ -219,19 +255,33 @@ func cautionOf(doc *Document) string {
 func (r *renderer) section(s Section) {
 	f := r.f
 	r.secN++
+	_, ph := f.GetPageSize()
+	// A heading is never left alone at the foot of a page: it starts a new
+	// one unless its first block (or the part of it that is kept whole) fits
+	// below it.
+	lead := 0.0
+	if len(s.Blocks) > 0 {
+		lead = r.leadHeight(s.Blocks[0])
+	}
 	if r.secN == 1 || s.Heading == "Inputs" || s.NewPage {
 		f.AddPage()
-	} else if f.GetY() > 230 {
+	} else if f.GetY() > 230 || f.GetY()+4+10+lead > ph-margin-4 {
 		f.AddPage()
 	} else {
 		f.Ln(4)
+	}
+	if r.trace != nil {
+		r.trace.headings = append(r.trace.headings, place{f.PageNo(), f.GetY()})
 	}
 	r.font("B", headSize)
 	f.SetDrawColor(0, 0, 0)
 	f.SetLineWidth(0.3)
 	f.CellFormat(r.w, 8, fmt.Sprintf("%d  %s", r.secN, s.Heading), "B", 1, "L", false, 0, "")
 	f.Ln(2)
-	for _, b := range s.Blocks {
+	for i, b := range s.Blocks {
+		if i == 0 && r.trace != nil {
+			r.trace.firstBlocks = append(r.trace.firstBlocks, r.blockStart(b))
+		}
 		switch v := b.(type) {
 		case Paragraph:
 			style := ""
@@ -261,6 +311,52 @@ func (r *renderer) section(s Section) {
 			panic(fmt.Sprintf("report: no layout for block kind %d (%T)", int(b.Kind()), b))
 		}
 	}
+}
+
+// leadHeight is the height a block needs on the page it starts on: what it
+// keeps together before it may break (a table's caption, header and first
+// row; a figure whole; a paragraph's first lines; a list's first item).
+func (r *renderer) leadHeight(b Block) float64 {
+	f := r.f
+	switch v := b.(type) {
+	case Paragraph:
+		r.font("", bodySize)
+		return float64(min(len(f.SplitText(printable(v.Text), r.w)), 3))*lineH + 1.5
+	case Bullets:
+		if len(v.Items) == 0 {
+			return 0
+		}
+		r.font("", bodySize)
+		return float64(len(f.SplitText(printable(v.Items[0]), r.w-6)))*lineH + 0.6
+	case KeyValues:
+		if len(v.Pairs) == 0 {
+			return 0
+		}
+		return lineH * 2
+	case Table:
+		return r.tableLead(v)
+	case Diagram:
+		return diagramH + 26
+	case Plot:
+		return plotH + 24
+	case BarChart:
+		return float64(len(v.Bars))*(4.2+1.6) + 1.6 + 14
+	case Trend:
+		return trendH + 36
+	case SignOff:
+		return float64(len(v.Roles))*28 + 5
+	}
+	panic(fmt.Sprintf("report: no lead height for block kind %d (%T)", int(b.Kind()), b))
+}
+
+// blockStart is where a block will start: the page it is pushed to when its
+// lead does not fit, and the height there (for the layout tests).
+func (r *renderer) blockStart(b Block) place {
+	_, ph := r.f.GetPageSize()
+	if r.f.GetY()+r.leadHeight(b) > ph-margin-4 {
+		return place{r.f.PageNo() + 1, margin + 6}
+	}
+	return place{r.f.PageNo(), r.f.GetY()}
 }
 
 func (r *renderer) bullets(items []string) {

@@ -2,6 +2,7 @@ package report
 
 import (
 	"math"
+	"strings"
 )
 
 // Tables of the record: columns as wide as their content, wrapped to the
@@ -12,24 +13,7 @@ import (
 // a page break.
 func (r *renderer) table(t Table) {
 	f := r.f
-	size := bodySize
-	if len(t.Columns) > 7 {
-		size = smallSize
-	}
-	lh := lineH * size / bodySize
-	n := len(t.Columns)
-	widths := make([]float64, n)
-	r.font("B", size)
-	for i, c := range t.Columns {
-		widths[i] = f.GetStringWidth(c.Title) + 2*cellPad
-	}
-	r.font("", size)
-	for _, row := range t.Rows {
-		for i := 0; i < n && i < len(row); i++ {
-			widths[i] = math.Max(widths[i], f.GetStringWidth(row[i])+2*cellPad)
-		}
-	}
-	fitWidths(widths, r.w)
+	size, lh, widths := r.tableLayout(t)
 	header := func() {
 		r.font("B", size)
 		f.SetFillColor(235, 235, 235)
@@ -38,13 +22,7 @@ func (r *renderer) table(t Table) {
 		r.font("", size)
 	}
 	// Keep the caption, the header and the first row together.
-	r.font("B", size)
-	need := r.rowHeight(titles(t.Columns), widths, lh) + 4
-	if len(t.Rows) > 0 {
-		r.font("", size)
-		need += r.rowHeight(t.Rows[0], widths, lh)
-	}
-	r.ensure(need + 8)
+	r.ensure(r.tableLead(t))
 	if t.Caption != "" {
 		r.font("", smallSize)
 		f.MultiCell(r.w, lineH*smallSize/bodySize, printable(t.Caption), "", "L", false)
@@ -65,6 +43,48 @@ func (r *renderer) table(t Table) {
 		r.drawRow(row, widths, t.Columns, h, lh, false)
 	}
 	f.Ln(3)
+}
+
+// tableLayout is a table's font size, line height and column widths:
+// columns as wide as their content, the widest shrunk until they fit.
+func (r *renderer) tableLayout(t Table) (size, lh float64, widths []float64) {
+	f := r.f
+	size = bodySize
+	if len(t.Columns) > 7 {
+		size = smallSize
+	}
+	lh = lineH * size / bodySize
+	n := len(t.Columns)
+	widths = make([]float64, n)
+	r.font("B", size)
+	for i, c := range t.Columns {
+		widths[i] = f.GetStringWidth(c.Title) + 2*cellPad
+	}
+	r.font("", size)
+	for _, row := range t.Rows {
+		for i := 0; i < n && i < len(row); i++ {
+			widths[i] = math.Max(widths[i], f.GetStringWidth(row[i])+2*cellPad)
+		}
+	}
+	fitWidths(widths, r.w)
+	return size, lh, widths
+}
+
+// tableLead is the height a table keeps together: its caption, header and
+// first row.
+func (r *renderer) tableLead(t Table) float64 {
+	size, lh, widths := r.tableLayout(t)
+	r.font("B", size)
+	need := r.rowHeight(titles(t.Columns), widths, lh) + 4
+	if len(t.Rows) > 0 {
+		r.font("", size)
+		need += r.rowHeight(t.Rows[0], widths, lh)
+	}
+	if t.Caption != "" {
+		r.font("", smallSize)
+		need += float64(len(r.f.SplitText(printable(t.Caption), r.w)))*lineH*smallSize/bodySize + 0.8
+	}
+	return need + 8
 }
 
 func titles(cols []Column) []string {
@@ -103,7 +123,7 @@ func (r *renderer) rowHeight(cells []string, widths []float64, lh float64) float
 	lines := 1
 	for i, c := range cells {
 		if i < len(widths) {
-			lines = max(lines, len(r.f.SplitText(printable(c), widths[i]-2*cellPad)))
+			lines = max(lines, len(r.splitText(printable(c), widths[i]-2*cellPad)))
 		}
 	}
 	return float64(lines)*lh + 1.2
@@ -136,7 +156,7 @@ func (r *renderer) drawRow(cells []string, widths []float64, cols []Column, h, l
 			}
 			f.SetTextColor(col[0], col[1], col[2])
 		}
-		for j, line := range f.SplitText(printable(c), wd-2*cellPad) {
+		for j, line := range r.splitText(printable(c), wd-2*cellPad) {
 			f.SetXY(x+cellPad, y0+0.6+float64(j)*lh)
 			f.CellFormat(wd-2*cellPad, lh, printable(line), "", 0, align, false, 0, "")
 		}
@@ -144,4 +164,70 @@ func (r *renderer) drawRow(cells []string, widths []float64, cols []Column, h, l
 		x += wd
 	}
 	f.SetXY(x0, y0+h)
+}
+
+// splitText breaks a cell's text into lines no wider than w in the current
+// font: at spaces, and a word too long for a line (a field path such as
+// regeneration.product_side.channels_per_pass) after a '.', '_', '/' or '-'
+// in it, so that it never breaks inside a name; only a part with no such
+// break that is still too long is cut where it must be.
+func (r *renderer) splitText(s string, w float64) []string {
+	f := r.f
+	width := func(t string) float64 { return f.GetStringWidth(t) }
+	var lines []string
+	for _, para := range strings.Split(s, "\n") {
+		line := ""
+		for _, word := range strings.Fields(para) {
+			for i, piece := range pieces(word, w, width) {
+				sep := " "
+				if i > 0 || line == "" {
+					sep = "" // the rest of a broken word joins it; a line starts bare
+				}
+				if line != "" && width(line+sep+piece) > w {
+					lines = append(lines, line)
+					line, sep = "", ""
+				}
+				line += sep + piece
+			}
+		}
+		lines = append(lines, line)
+	}
+	return lines
+}
+
+// pieces splits a word wider than w after its separators ('.', '_', '/',
+// '-'), and a piece still wider than w between characters; a word that fits
+// stays whole.
+func pieces(word string, w float64, width func(string) float64) []string {
+	if width(word) <= w {
+		return []string{word}
+	}
+	var out []string
+	start := 0
+	for i, c := range word {
+		if strings.ContainsRune("._/-", c) && i+1 < len(word) {
+			out = append(out, word[start:i+1])
+			start = i + 1
+		}
+	}
+	out = append(out, word[start:])
+	var fit []string
+	for _, p := range out {
+		for width(p) > w {
+			cut := 0
+			for i := range p {
+				if i > 0 && width(p[:i]) > w {
+					break
+				}
+				cut = i
+			}
+			if cut == 0 {
+				cut = len(string([]rune(p)[0]))
+			}
+			fit = append(fit, p[:cut])
+			p = p[cut:]
+		}
+		fit = append(fit, p)
+	}
+	return fit
 }

@@ -129,7 +129,7 @@ const DefaultKneeFraction = 0.10
 func regenerationNotRated(p *plantfile.Plant) error {
 	if p.Regeneration == nil {
 		return inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1}, Field: "regeneration",
-			Msg: "the plates what-if needs a regeneration section in rating mode (with its installed plates); this plant has none"}}
+			Msg: "the plates what-if needs the regenerator in rating mode: this plant has no regeneration section (give one with its installed plates)"}}
 	}
 	hint := "the installed plates"
 	if res, err := run(p); err == nil {
