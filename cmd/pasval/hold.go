@@ -64,6 +64,7 @@ type holdReport struct {
 	Checks        []assess.Check       `json:"checks"`
 	Warnings      []assess.Warning     `json:"warnings"`
 	Pass          bool                 `json:"pass"`
+	Judged        bool                 `json:"judged"` // false when no check of the holding tube applies
 	Caution       string               `json:"caution"`
 }
 
@@ -107,6 +108,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 			only.Checks = append(only.Checks, c)
 			rep.Checks = append(rep.Checks, worded.Checks[i])
 			rep.Pass = rep.Pass && c.Pass
+			rep.Judged = true
 		}
 	}
 	if opts.json {

@@ -104,6 +104,7 @@ type matrixProduct struct {
 	OutletC                 *float64            `json:"outlet_C"`
 	RegenerationRatio       *float64            `json:"regeneration_ratio"`
 	Pass                    bool                `json:"pass"`
+	Judged                  bool                `json:"judged"`         // false when no check applies to the product
 	LimitingCheck           string              `json:"limiting_check"` // a check id; "" when none applies
 	LimitingDetail          *matrixLimiting     `json:"limiting_check_detail"`
 	Checks                  []assess.Check      `json:"checks"`
@@ -362,7 +363,7 @@ func matrixJSON(line *plantfile.Plant, rows []assess.OnLine, pass bool) matrixRe
 		worded := present.ForJSON(res)
 		mp := matrixProduct{File: p.File, SHA256: p.SHA256, Name: p.Product.Name, LegalTable: p.LegalTable,
 			SetpointC: p.Process.HoldSetpoint.SI, SealFlowM3s: res.Product.MaxMassFlow / res.Product.Density,
-			LogReductions: []matrixLogRed{}, RegenerationRatio: res.RegenerationRatio, Pass: res.Pass,
+			LogReductions: []matrixLogRed{}, RegenerationRatio: res.RegenerationRatio, Pass: res.Pass, Judged: res.Judged,
 			Checks: worded.Checks, Warnings: worded.Warnings,
 			MaxSealFlowLimitedBy: limitedByJSON(o.Envelope.MaxSeal.LimitedBy), MinSetpointLimitedBy: limitedByJSON(o.Envelope.MinSetpoint.LimitedBy)}
 		if h := res.HoldingTube; h != nil {

@@ -147,3 +147,26 @@ func TestOneRateStandsForTheOther(t *testing.T) {
 		}
 	}
 }
+
+func TestHoldWithNothingToJudge(t *testing.T) {
+	// A holding tube with no rise, no legal rows and no organisms: hold
+	// computes it and judges nothing, and says so (JSON judged false).
+	text := strings.Replace(juice, "  specific_heat: 3.8 kJ/(kg*K)\n", "  specific_heat: 3.8 kJ/(kg*K)\n  viscosity: [{at: 85 °C, value: 2 mPa*s}]\n", 1) +
+		"flow: {max_rate: 5000 L/h}\nholding_tube: {sanitary_tube: 2 in, length: 20 m}\n"
+	path := writePlant(t, "tube.yaml", text)
+	out, errs, code := runBinary(t, "hold", path)
+	if code != exitPass || !strings.Contains(out, "Result: NOT JUDGED: no check of the holding tube applies") || strings.Contains(out, "PASS") {
+		t.Errorf("hold: exit %d\n%s%s", code, out, errs)
+	}
+	js, _, _ := runBinary(t, "hold", "--json", path)
+	var r struct {
+		Pass   *bool `json:"pass"`
+		Judged *bool `json:"judged"`
+	}
+	if err := json.Unmarshal([]byte(js), &r); err != nil {
+		t.Fatal(err)
+	}
+	if r.Pass == nil || !*r.Pass || r.Judged == nil || *r.Judged {
+		t.Errorf("hold JSON pass %v judged %v", r.Pass, r.Judged)
+	}
+}
