@@ -18,11 +18,11 @@ type Run struct {
 
 // Result is the analysis of one run's heating section.
 type Result struct {
-	Windows int          // windows that hold a sample
+	Windows int            // windows that hold a sample
 	Skipped [skipCount]int // windows that give no U, by reason (Skips)
-	Points  []Point      // the windows that give U, in time order
-	First   float64      // s: the run's first sample
-	Last    float64      // s: the run's last sample
+	Points  []Point        // the windows that give U, in time order
+	First   float64        // s: the run's first sample
+	Last    float64        // s: the run's last sample
 	// UClean is the run's U_clean without a plate pack: the chosen fit's U
 	// at the first point, W/(m²·K); NaN with a pack (each point has its
 	// own) or without a fit.

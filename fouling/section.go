@@ -96,11 +96,11 @@ func (s Section) Rate(uClean, rf float64) (regen.Section, error) {
 type Skip int
 
 const (
-	SkipDiverted   Skip = iota // a sample of the window was diverted
-	SkipUnsteady               // the product flow's range exceeds UnsteadyFraction of its mean
-	SkipNoReading              // no sample of the window has all four heating temperatures
-	SkipCross                  // the mean temperatures cross (ΔT_lm undefined) or the duty is not positive
-	SkipPack                   // the plate pack could not be rated at the window's temperatures and flows
+	SkipDiverted  Skip = iota // a sample of the window was diverted
+	SkipUnsteady              // the product flow's range exceeds UnsteadyFraction of its mean
+	SkipNoReading             // no sample of the window has all four heating temperatures
+	SkipCross                 // the mean temperatures cross (ΔT_lm undefined) or the duty is not positive
+	SkipPack                  // the plate pack could not be rated at the window's temperatures and flows
 	skipCount
 )
 

@@ -62,9 +62,9 @@ type Windower struct {
 // accumulator is the sums of the open window.
 type accumulator struct {
 	n, heating, diverted, media int
-	flowMin, flowMax, flowSum  float64
-	pin, pout, min, mout       float64
-	medium                     float64
+	flowMin, flowMax, flowSum   float64
+	pin, pout, min, mout        float64
+	medium                      float64
 }
 
 // NewWindower returns a Windower of windows width seconds wide; mediumMass
