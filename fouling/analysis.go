@@ -140,15 +140,35 @@ func (r *Result) fit(t, y []float64) {
 // Percentile is the U of nearest rank ⌈q·n⌉ over the points, W/(m²·K)
 // (gonum stat.Empirical); NaN without points.
 func (r *Result) Percentile(q float64) float64 {
-	if len(r.Points) == 0 {
-		return math.NaN()
-	}
 	u := make([]float64, len(r.Points))
 	for i, p := range r.Points {
 		u[i] = p.U
 	}
-	slices.Sort(u)
-	return stat.Quantile(q, stat.Empirical, u, nil)
+	return nearestRank(u, q)
+}
+
+// CleanU is the run's U_clean, W/(m²·K): without a pack the fitted U at
+// the start (UClean); with one the median (nearest rank) of the pack's
+// clean U over the points. NaN when there is none.
+func (r *Result) CleanU() float64 {
+	if !r.CleanFromPack {
+		return r.UClean
+	}
+	u := make([]float64, len(r.Points))
+	for i, p := range r.Points {
+		u[i] = p.UClean
+	}
+	return nearestRank(u, 0.5)
+}
+
+// nearestRank is the value of rank ⌈q·n⌉ of x (sorted in place): gonum's
+// stat.Empirical quantile. NaN for no values.
+func nearestRank(x []float64, q float64) float64 {
+	if len(x) == 0 {
+		return math.NaN()
+	}
+	slices.Sort(x)
+	return stat.Quantile(q, stat.Empirical, x, nil)
 }
 
 // MeanU is the mean U of the points stamped in [from, to], W/(m²·K); NaN
