@@ -74,7 +74,7 @@ func TestDarcyMartinVDI(t *testing.T) {
 
 func TestMartinBranchJump(t *testing.T) {
 	// At Re = 2000 both ξ₀ and ξ₁ switch branch. Computed from the formula
-	// (a Python transcription, def vdi(Re, phi) with the constants of
+	// (an independent Python re-implementation, def vdi(Re, phi) with the constants of
 	// DarcyMartinVDI): ξ(2000)/ξ(2000⁻) − 1 = 0.0527513 at 60°, 0.0667523 at 30°.
 	for _, c := range []struct{ phi, want float64 }{{60 * deg, 0.0527513}, {30 * deg, 0.0667523}} {
 		below := DarcyMartinVDI(math.Nextafter(MartinBranchReynolds, 0), c.phi)
@@ -169,7 +169,7 @@ func demoPack() PlatePack {
 // water at 60 °C and 101.325 kPa, isothermal (μ_w = μ), in the demo plate:
 // φ 60°, b 3 mm, Φ 1.17, w 0.45 m, L_p 0.8 m, d_port 100 mm; 2.8 kg/s in
 // 8 passes of 7 channels. Arithmetic by hand-held calculation, checked
-// with a Python transcription.
+// with an independent Python re-implementation.
 func TestHandWorkedChannel(t *testing.T) {
 	// Water at 60 °C (python3-iapws 1.5.2, IAPWS97(T=333.15, P=0.101325)):
 	//   ρ = 983.210610 kg/m³, cp = 4182.76355 J/(kg·K),

@@ -1,5 +1,7 @@
 package report
 
+// No external source applies: the invariants are the verifier's own contract.
+
 import (
 	"crypto/sha256"
 	"encoding/hex"

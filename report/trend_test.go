@@ -1,5 +1,7 @@
 package report
 
+// No external source applies: the checks are the chart's own definition (trend.go).
+
 import (
 	"reflect"
 	"strings"

@@ -1,5 +1,7 @@
 package runs_test
 
+// Benchmarks only: no expected values (no source needed).
+
 import (
 	"bufio"
 	"bytes"

@@ -1,5 +1,8 @@
 package runs_test
 
+// Expected values are computed in the test from the definitions of docs/METHOD.md §13
+// (one file against several, and against the engine fed directly).
+
 import (
 	"bytes"
 	"compress/gzip"

@@ -1,5 +1,7 @@
 package runs
 
+// No external source applies: the trace's definition (trace.go) is the reference.
+
 import (
 	"math"
 	"math/rand/v2"

@@ -152,6 +152,15 @@ var badCases = map[string]badCase{
 	"line-chain-middle":               {3, "product", "missing (neither this file nor its line file ../../testdata/bad/line-for-bad.yaml gives it)"},
 	"line-missing":                    {2, "line_file", "cannot read the line file ../../testdata/bad/no-such-line.yaml: no such file or directory"},
 	"line-both-legal":                 {16, "legal_table", "give legal_table or legal_minimums, not both (legal_minimums at ../../testdata/bad/line-both-legal.yaml:17:1)"},
+	"acceptance-unknown-kind":         {22, "acceptance[0].test", `found "holding-tme" (did you mean "holding-time"?)`},
+	"acceptance-future-date":          {22, "acceptance[0].date", "2099-05-12 is after the review date 2026-12-01"},
+	"acceptance-missing-value":        {22, "acceptance[0].time", "missing; a holding-time test records fluid, flow and time"},
+	"acceptance-interval-no-unit":     {22, "acceptance[0].interval", `"90" has no unit`},
+	"acceptance-interval-fraction":    {22, "acceptance[0].interval", "whole number of days, weeks, months or years"},
+	"acceptance-interval-hours":       {22, "acceptance[0].interval", `"h" is not a calendar unit`},
+	"acceptance-wrong-key":            {22, "acceptance[0].time", "a cut-out test does not record time"},
+	"acceptance-bad-date":             {22, "acceptance[0].date", "expected an ISO 8601 date YYYY-MM-DD"},
+	"diversion-no-response":           {22, "diversion.response_time", "or enter a valve-response acceptance test"},
 }
 
 const badDir = "../../testdata/bad"

@@ -44,7 +44,7 @@ and each check with PASS or FAIL, the required and actual values and the margin.
 	cmd.Long += "\n" + exitStatusHelp
 	opts.register(cmd)
 	cmd.Flags().StringVar(&opts.record, "record", "", "also write the validation record (PDF) to this file, as 'pasval report' does")
-	cmd.Flags().StringVar(&opts.date, "date", "", "record date YYYY-MM-DD for --record (default: today)")
+	cmd.Flags().StringVar(&opts.date, "date", "", "review date YYYY-MM-DD: acceptance tests are judged on it, and it is the --record date (default: today)")
 	cmd.Flags().BoolVar(&opts.force, "force", false, "overwrite the --record file if it exists")
 	cmd.Flags().BoolVar(&opts.compare, "compare-arrangements", false, "also show the area each section would need in the other arrangement (counterflow / co-current)")
 	return cmd
@@ -60,7 +60,7 @@ func runCheck(opts checkOptions, out, diag io.Writer) error {
 	if err != nil {
 		return err
 	}
-	res, err := assess.Run(p)
+	res, err := assess.RunWith(p, assess.Options{On: date})
 	if err != nil {
 		return err
 	}
@@ -128,6 +128,9 @@ func writeCheck(w io.Writer, res *assess.Result, d present.Display, colour bool)
 	if res.HoldingTube != nil {
 		writeHolding(w, res, d)
 	}
+	if len(res.Acceptance) > 0 {
+		writeAcceptance(w, res, d)
+	}
 	writeChecks(w, res, d, colour)
 	writeWarnings(w, present.Warnings(res, d))
 	writeNotes(w, present.Notes(res, d))
@@ -183,6 +186,13 @@ func writeComparison(w io.Writer, res *assess.Result, d present.Display) {
 		t.add(label, c.Arrangement, d.Num(c.AreaM2, units.Area, 2), c.Other, other, ratio, note)
 	}
 	t.write(w)
+}
+
+// writeAcceptance prints every entered acceptance-test result against the
+// model, with its verdict and due date on the review date.
+func writeAcceptance(w io.Writer, res *assess.Result, d present.Display) {
+	fmt.Fprintf(w, "\nAcceptance tests (measured on the installed equipment; judged on %s)\n", res.ReviewDate)
+	tableOf(present.AcceptanceTests(res, d)).write(w)
 }
 
 func writeNotes(w io.Writer, notes []string) {

@@ -35,7 +35,7 @@ type demo struct {
 
 // demos is the catalogue, in the order 'init --demo list' prints it.
 var demos = []demo{
-	{"htst-milk-si", "SI: reduced-fat milk; plate packs, heat loss in the holding tube (passes)", "htst-milk-si.yaml", false},
+	{"htst-milk-si", "SI: reduced-fat milk; plate packs, heat loss in the holding tube, acceptance tests (passes)", "htst-milk-si.yaml", false},
 	{"cider-us", "US units: apple cider; every section rated from its plates (passes)", "cider-us.yaml", false},
 	{"frozen-dessert-si", "SI: a laminar ice-cream mix whose tube was timed with water (fails)", "frozen-dessert-si.yaml", false},
 	{"dairy-line-si", "SI: a line file and three products on it, for 'pasval matrix' (cream fails)", "dairy-line-si", true},

@@ -26,10 +26,16 @@ var binPath string
 // user would. testscript also runs this test binary as the pasval command in
 // its scripts (testdata/script): then no binary is built.
 func TestMain(m *testing.M) {
+	// Today is the golden outputs' record date for every command (and the
+	// binary the tests build), so that acceptance tests keep their due states.
+	os.Setenv("SOURCE_DATE_EPOCH", testEpoch)
 	testscript.Main(withBinary{m}, map[string]func(){
 		"pasval": func() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) },
 	})
 }
+
+// testEpoch is 2026-12-01T00:00:00Z (recordDay), in seconds since 1970.
+const testEpoch = "1796083200"
 
 // withBinary runs the tests with the binary built.
 type withBinary struct{ m *testing.M }

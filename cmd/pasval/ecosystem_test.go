@@ -20,6 +20,7 @@ func TestBadInputAcrossCommands(t *testing.T) {
 			{"hold", path},
 			{"report", path, "-o", rec},
 			{"plates", path, "--add", "10"},
+			{"due", path},
 			{"check", "--compare-arrangements", path},
 			{"margins", "--samples", "100", path},
 		} {

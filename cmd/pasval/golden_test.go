@@ -222,7 +222,7 @@ func TestGoldenRecords(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			res, err := assess.Run(p)
+			res, err := assess.RunWith(p, assess.Options{On: recordDay})
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -8,6 +8,7 @@ import (
 
 	"pasval/internal/assess"
 	"pasval/internal/inputerr"
+	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
 )
@@ -32,8 +33,10 @@ meet each legal row; and a table of each organism's log reduction and the
 legal table for diversion setpoints from 1 K below to 2 K above the entered
 one (whole °F in US units).
 
-Only the holding-tube checks (holding-time, log-reduction, tube-slope) decide
-the exit status here; 'pasval check' judges the whole line.`,
+Only the holding-tube checks (holding-time, log-reduction, tube-slope, and
+acceptance-holding-time: a measured holding-time test converted to the
+product, judged on today's date) decide the exit status here; 'pasval check'
+judges the whole line.`,
 		Example: `  pasval hold testdata/demo/frozen-dessert-si.yaml
   pasval hold line2.yaml --units us
   pasval hold line2.yaml --json`,
@@ -72,7 +75,11 @@ func runHold(opts holdOptions, out io.Writer) error {
 		return inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1}, Field: "holding_tube",
 			Msg: "the plant file describes no holding tube; add holding_tube (see 'pasval init' and the README)"}}
 	}
-	res, err := assess.Run(p)
+	on, err := today()
+	if err != nil {
+		return err
+	}
+	res, err := assess.RunWith(p, assess.Options{On: on})
 	if err != nil {
 		return err
 	}
@@ -83,8 +90,9 @@ func runHold(opts holdOptions, out io.Writer) error {
 	// A heat-exchange section's warnings (its plate pack) are check's, not hold's.
 	only := *res
 	only.Warnings = []assess.Warning{}
+	// So are the other acceptance tests'.
 	for _, w := range res.Warnings {
-		if w.Section == "" {
+		if w.Section == "" && !(w.Code == assess.WarnAcceptanceNotJudged && !holdingTest(res, w)) {
 			only.Warnings = append(only.Warnings, w)
 		}
 	}
@@ -117,6 +125,12 @@ func runHold(opts holdOptions, out io.Writer) error {
 		return errChecksFailed
 	}
 	return nil
+}
+
+// holdingTest reports whether an acceptance warning concerns a holding-time test.
+func holdingTest(res *assess.Result, w assess.Warning) bool {
+	i := int(w.Values["test_index"])
+	return i >= 0 && i < len(res.Acceptance) && res.Acceptance[i].Test == plantfile.TestHoldingTime
 }
 
 // setpointOffsets are the setpoint steps of the table: half kelvins in SI,

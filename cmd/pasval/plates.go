@@ -125,6 +125,15 @@ func runPlates(opts platesOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
+	// The options judge the line's checks, not the acceptance tests' due
+	// dates; a result dated in the future is refused all the same.
+	on, err := today()
+	if err != nil {
+		return err
+	}
+	if err := assess.RefuseFutureTests(p, on); err != nil {
+		return err
+	}
 	w, err := assess.AddPlates(p, added, opts.knee, layout)
 	var tooMany *assess.AddedPlatesError
 	if errors.As(err, &tooMany) {

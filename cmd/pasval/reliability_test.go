@@ -30,6 +30,7 @@ func TestLostOutputIsAnError(t *testing.T) {
 	for _, args := range [][]string{
 		{"check", milk}, {"check", milk, "--json"}, {"check", dessert}, {"check", "--compare-arrangements", milk},
 		{"hold", milk}, {"hold", dessert, "--json"}, {"plates", cider, "--add", "10"}, {"plates", cider, "--add", "10", "--json"},
+		{"due", milk}, {"due", dessert, "--json"},
 		{"verify", rec}, {"verify", rec, milk}, {"schema"}, {"init"}, {"init", "--units", "us"},
 		{"completion", "bash"}, {"completion", "zsh"}, {"completion", "fish"}, {"--help"}, {"check", "--help"}, {"--version"},
 	} {

@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"time"
 
 	"github.com/spf13/cobra"
@@ -15,6 +16,7 @@ import (
 	"pasval/internal/fileout"
 	"pasval/internal/plantfile"
 	"pasval/internal/record"
+	"pasval/internal/units"
 	"pasval/report"
 )
 
@@ -88,16 +90,34 @@ RUN.csv' re-renders it. Exit status 1 then means some event was found.`
 }
 
 // recordDate parses --date, or takes today's date.
-func recordDate(s string) (time.Time, error) {
+func recordDate(s string) (time.Time, error) { return dateFlag("--date", s) }
+
+// dateFlag parses a YYYY-MM-DD flag value, or takes today's date when empty.
+func dateFlag(flag, s string) (time.Time, error) {
 	if s == "" {
-		now := time.Now().UTC()
-		return time.Date(now.Year(), now.Month(), now.Day(), 0, 0, 0, 0, time.UTC), nil
+		return today()
 	}
-	d, err := time.Parse("2006-01-02", s)
+	d, err := units.ParseDate(s)
 	if err != nil {
-		return time.Time{}, usagef("--date must be YYYY-MM-DD, not %q", s)
+		return time.Time{}, usagef("%s must be a date YYYY-MM-DD, not %q", flag, s)
 	}
 	return d, nil
+}
+
+// today is the current date (UTC), the review date of acceptance tests and
+// the default record date. When SOURCE_DATE_EPOCH is set (seconds since
+// 1970, the reproducible-builds convention) it is that instant's date
+// instead, so that a build, a test suite or a re-run can fix "today".
+func today() (time.Time, error) {
+	now := time.Now().UTC()
+	if s := os.Getenv("SOURCE_DATE_EPOCH"); s != "" {
+		sec, err := strconv.ParseInt(s, 10, 64)
+		if err != nil || sec < 0 || sec > 253402300799 {
+			return time.Time{}, usagef("SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01, not %q", s)
+		}
+		now = time.Unix(sec, 0).UTC()
+	}
+	return time.Date(now.Year(), now.Month(), now.Day(), 0, 0, 0, 0, time.UTC), nil
 }
 
 func runReport(opts reportOptions, out io.Writer) error {
@@ -116,7 +136,7 @@ func runReport(opts reportOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
-	res, err := assess.Run(p)
+	res, err := assess.RunWith(p, assess.Options{On: date})
 	if err != nil {
 		return err
 	}

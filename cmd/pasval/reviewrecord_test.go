@@ -1,5 +1,8 @@
 package main
 
+// Expected outcomes come from the record's own definition (docs/METHOD.md §13.7:
+// byte comparison after re-rendering); no external source applies to them.
+
 import (
 	"bytes"
 	"os"
@@ -15,7 +18,7 @@ import (
 func TestRunReviewRecord(t *testing.T) {
 	dir := t.TempDir()
 	rec := filepath.Join(dir, "review.pdf")
-	out, errs, code := runBinary(t, "report", demoPlant, "--log", demoRun, "-o", rec, "--date", "2026-03-14")
+	out, errs, code := runBinary(t, "report", demoPlant, "--log", demoRun, "-o", rec, "--date", "2026-12-01")
 	if code != exitFail || !strings.HasPrefix(out, "wrote "+rec+": ") || !strings.Contains(out, "7 events (3 limits met, 3 product at risk, 1 no record)") {
 		t.Fatalf("report --log: exit %d %q %q", code, out, errs)
 	}
@@ -56,7 +59,7 @@ func TestRunReviewRecord(t *testing.T) {
 	}
 	// A validation record given runs; run flags without --log.
 	val := filepath.Join(dir, "validation.pdf")
-	if _, errs, code := runBinary(t, "report", demoPlant, "-o", val, "--date", "2026-03-14"); code > 1 {
+	if _, errs, code := runBinary(t, "report", demoPlant, "-o", val, "--date", "2026-12-01"); code > 1 {
 		t.Fatalf("report: %d %s", code, errs)
 	}
 	if _, errs, code := runBinary(t, "verify", val, "--log", demoRun); code != exitInput || !strings.Contains(errs, "is not a run-review record: --log does not apply") {
@@ -93,7 +96,7 @@ func TestRunReviewRecordKeepsTheReadingOptions(t *testing.T) {
 	runFile := filepath.Join(dir, "schicht.csv")
 	writeFile(t, runFile, b.String())
 	rec := filepath.Join(dir, "review.pdf")
-	args := []string{"report", demoPlant, "--log", runFile, "-o", rec, "--date", "2026-03-14", "--decimal-comma", "--timezone", "Europe/Berlin",
+	args := []string{"report", demoPlant, "--log", runFile, "-o", rec, "--date", "2026-12-01", "--decimal-comma", "--timezone", "Europe/Berlin",
 		"--columns", "time=Zeit,hold_outlet_temperature=TT-301,flow_rate=FT-101,forward=FDV"}
 	if out, errs, code := runBinary(t, args...); code != exitFail {
 		t.Fatalf("report: exit %d %q %q", code, out, errs)

@@ -65,12 +65,13 @@ authority and the local regulator.`,
 		return usagef("%v (see '%s --help')", err, c.CommandPath())
 	})
 	root.AddCommand(newCheckCmd(stdout), newHoldCmd(stdout), newReportCmd(stdout), newVerifyCmd(stdout), newPlatesCmd(stdout),
-		newMarginsCmd(stdout), newMatrixCmd(stdout), newLogsCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout), newDocsCmd(stdout))
+		newMarginsCmd(stdout), newMatrixCmd(stdout), newLogsCmd(stdout), newDueCmd(stdout), newInitCmd(stdout), newSchemaCmd(stdout),
+		newDocsCmd(stdout))
 	root.SetHelpCommand(newHelpCmd())
 	refuseUnknownShells(root)
 	for _, c := range root.Commands() {
 		switch c.Name() {
-		case "check", "hold", "report", "plates", "margins":
+		case "check", "hold", "report", "plates", "margins", "due":
 			c.ValidArgsFunction = completePlantFile
 		case "matrix":
 			c.ValidArgsFunction = completePlantFiles

@@ -36,6 +36,7 @@ func TestScripts(t *testing.T) {
 				}
 			}
 			env.Setenv("NO_COLOR", "1")
+			env.Setenv("SOURCE_DATE_EPOCH", testEpoch) // the README's outputs are as of 2026-12-01
 			return nil
 		},
 	})

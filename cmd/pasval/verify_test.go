@@ -164,7 +164,7 @@ func TestVerifyFindsAForgedPage(t *testing.T) {
 	}
 	// Text drawn over page 1 of the failing record, attachment and metadata
 	// untouched: the verdict box now "says" PASS.
-	wm, err := api.TextWatermark("Result: PASS, all 2 checks pass", "font:Helvetica, points:24, pos:c, rot:0, fillcolor:#008000", true, false, types.POINTS)
+	wm, err := api.TextWatermark("Result: PASS, all 3 checks pass", "font:Helvetica, points:24, pos:c, rot:0, fillcolor:#008000", true, false, types.POINTS)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -200,7 +200,7 @@ func TestVerifyReadsARecordResavedByAnotherProgram(t *testing.T) {
 		t.Fatal(err)
 	}
 	out, errs, code := runBinary(t, "verify", path)
-	for _, want := range []string{"attached plant-file sha256", "matches", "stored FAIL, recomputed FAIL (2 checks)  match",
+	for _, want := range []string{"attached plant-file sha256", "matches", "stored FAIL, recomputed FAIL (3 checks)  match",
 		"every page's content matches the re-rendered record, but the file DIFFERS elsewhere"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("re-saved record: output lacks %q", want)

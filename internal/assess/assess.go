@@ -23,6 +23,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"time"
 
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
@@ -39,9 +40,13 @@ const Caution = "This result supports, and never replaces, the regulatory accept
 
 // Check is one judged quantity; NewCheck makes it (checks.go).
 type Check struct {
-	ID         CheckID `json:"id"`
-	Organism   string  `json:"organism,omitempty"`
-	Section    string  `json:"section,omitempty"` // the section judged, as regen labels it (pressure-drop)
+	ID       CheckID `json:"id"`
+	Organism string  `json:"organism,omitempty"`
+	Section  string  `json:"section,omitempty"` // the section judged, as regen labels it (pressure-drop)
+	Name     string  `json:"name,omitempty"`    // acceptance-other: the test's name
+	// Stale is true for an acceptance test past its interval on the review
+	// date: it fails whatever its values (docs/METHOD.md §15.5).
+	Stale      bool    `json:"stale,omitempty"`
 	Pass       bool    `json:"pass"`
 	Required   float64 `json:"required"`
 	Actual     float64 `json:"actual"`
@@ -88,6 +93,9 @@ type CheckDetail struct {
 	Plates int
 	// log-reduction: the organism's kinetics as entered.
 	DRefS, DTemperatureC, ZK float64
+	// acceptance-*: the result judged; diversion-timing: the timing.
+	Test      *AcceptanceResult
+	Diversion *Diversion
 }
 
 // Section is one heat-exchange section in the JSON contract; every key carries its unit.
@@ -146,9 +154,19 @@ type Result struct {
 	// ArrangementComparison is filled by CompareArrangements (check --compare-arrangements).
 	ArrangementComparison []ArrangementComparison `json:"arrangement_comparison,omitempty"`
 	Lethality             []Lethality             `json:"lethality"`
-	Checks                []Check                 `json:"checks"`
-	Warnings              []Warning               `json:"warnings"`
-	Pass                  bool                    `json:"pass"`
+	// ReviewDate is the date acceptance tests are judged on (YYYY-MM-DD):
+	// absent when the run has none (docs/METHOD.md §15.5).
+	ReviewDate string `json:"review_date,omitempty"`
+	// Acceptance are the entered acceptance-test results, judged; Diversion
+	// the diversion timing (docs/METHOD.md §15).
+	Acceptance []AcceptanceResult `json:"acceptance,omitempty"`
+	Diversion  *Diversion         `json:"diversion,omitempty"`
+	// CriticalLimits is the HACCP plan's critical-limit table from the
+	// validated schedule (docs/METHOD.md §15.6): a draft for the HACCP team.
+	CriticalLimits []CriticalLimit `json:"critical_limits"`
+	Checks         []Check         `json:"checks"`
+	Warnings       []Warning       `json:"warnings"`
+	Pass           bool            `json:"pass"`
 	// Margins are the holding tube's margins under the plant file's
 	// uncertainty block (RunMargins with the default samples and seed),
 	// filled by the commands that show them; absent without the block.
@@ -164,16 +182,40 @@ type SourceRef struct {
 	SHA256 string `json:"sha256"`
 }
 
-// Run computes every section and check the plant file describes. Errors are
-// inputerr.List values that point at the section whose numbers cannot
-// work (a temperature cross, an impossible duty), or at the entered values
-// that make a result not a finite number (finite.go).
-func Run(p *plantfile.Plant) (*Result, error) { return finiteOrTraced(p, run) }
+// Options are what a run needs besides the plant file.
+type Options struct {
+	// On is the review date (a civil date, midnight UTC): acceptance tests
+	// dated after it are refused, and a latest result past its interval on
+	// it is stale and fails its check (docs/METHOD.md §15.5). Zero: no
+	// review date; no result is refused or stale.
+	On time.Time
+}
 
-// run is Run without the finiteness check.
-func run(p *plantfile.Plant) (*Result, error) {
+// Run computes every section and check the plant file describes, with no
+// review date (see RunWith). Errors are inputerr.List values that point at
+// the section whose numbers cannot work (a temperature cross, an impossible
+// duty), or at the entered values that make a result not a finite number
+// (finite.go).
+func Run(p *plantfile.Plant) (*Result, error) { return RunWith(p, Options{}) }
+
+// RunWith is Run on the review date opts.On.
+func RunWith(p *plantfile.Plant, opts Options) (*Result, error) {
+	if err := RefuseFutureTests(p, opts.On); err != nil {
+		return nil, err
+	}
+	return finiteOrTraced(p, func(q *plantfile.Plant) (*Result, error) { return runOn(q, opts.On) })
+}
+
+// run is Run without the finiteness check (and without a review date).
+func run(p *plantfile.Plant) (*Result, error) { return runOn(p, time.Time{}) }
+
+// runOn is RunWith without the finiteness check.
+func runOn(p *plantfile.Plant, on time.Time) (*Result, error) {
 	res := &Result{Tool: "pasval", Version: version.Version, InputSHA256: p.SHA256, Plant: p,
 		Checks: []Check{}, Warnings: []Warning{}, Sections: []Section{}, Lethality: []Lethality{}, Caution: Caution}
+	if !on.IsZero() {
+		res.ReviewDate = FormatDate(on)
+	}
 	if l := p.Line; l != nil {
 		res.LineFile = &SourceRef{File: l.File, SHA256: l.SHA256}
 	}
@@ -196,6 +238,8 @@ func run(p *plantfile.Plant) (*Result, error) {
 	if p.Regeneration != nil && p.Regeneration.Pressure != nil {
 		regeneratorPressure(p, res)
 	}
+	runAcceptance(p, res, on)
+	res.CriticalLimits = criticalLimits(p, res, DueList(res, on))
 	sanityWarnings(p, res)
 	res.Pass = true
 	for _, c := range res.Checks {

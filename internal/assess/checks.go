@@ -17,6 +17,16 @@ const (
 	HeatingMedium       CheckID = "heating-medium"
 	CoolingOutlet       CheckID = "cooling-outlet"
 	PressureDrop        CheckID = "pressure-drop"
+
+	// Acceptance tests (docs/METHOD.md §15): the latest result of each kind.
+	AcceptanceHoldingTime         CheckID = "acceptance-holding-time"
+	AcceptanceCutOut              CheckID = "acceptance-cut-out"
+	AcceptanceCutIn               CheckID = "acceptance-cut-in"
+	AcceptanceValveResponse       CheckID = "acceptance-valve-response"
+	AcceptanceSensorCheck         CheckID = "acceptance-sensor-check"
+	AcceptanceRegeneratorPressure CheckID = "acceptance-regenerator-pressure"
+	AcceptanceOther               CheckID = "acceptance-other"
+	DiversionTiming               CheckID = "diversion-timing"
 )
 
 // Limit says how a check's actual value is judged against the required one.
@@ -61,6 +71,21 @@ var checkDefs = []CheckDef{
 	{PressureDrop, false, AtMost, "Pa", "Pa",
 		"(per section with a plate pack and `product_side.max_pressure_drop`) product-side pressure drop through the pack ≤ the maximum",
 		"product-side pressure drop through the plate pack (channels and ports, elevation ignored) against the pumps' allowance"},
+	{AcceptanceHoldingTime, true, AtLeast, "s", "s",
+		"(latest `holding-time` result, legal rows entered) the measured time converted to the product at the worst flow meets the legal table at the judged temperature, and the result is not past its interval", ""},
+	{AcceptanceCutOut, false, AtLeast, "°C", "K",
+		"(latest `cut-out` result) the cut-out temperature ≥ the judged temperature (setpoint − sensor accuracy) and ≥ the judged legal row's, not past its interval", ""},
+	{AcceptanceCutIn, false, AtLeast, "°C", "K",
+		"(latest `cut-in` result) the cut-in temperature ≥ the same limit as the cut-out, not past its interval", ""},
+	{AcceptanceValveResponse, false, AtMost, "s", "s",
+		"(latest `valve-response` result, `diversion` entered) the measured response ≤ the fastest particle's travel time from the sensor to the valve, not past its interval", ""},
+	{AcceptanceSensorCheck, false, AtMost, "K", "K",
+		"(latest `sensor-check` result, `sensor_accuracy` entered) \\|sensor − reference\\| ≤ the stated accuracy, not past its interval", ""},
+	{AcceptanceRegeneratorPressure, false, AtLeast, "Pa", "Pa",
+		"(latest `regenerator-pressure` result) the measured difference ≥ the required margin, not past its interval", ""},
+	{AcceptanceOther, false, AtLeast, "pass", "pass", "(latest `other` result of each name) passed as entered, not past its interval", ""},
+	{DiversionTiming, false, AtLeast, "s", "s",
+		"(`diversion` entered) the fastest particle's travel time from the sensor to the valve at the worst flow ≥ the valve's response time", ""},
 }
 
 // CheckDefs returns the registry, in print order.

@@ -99,7 +99,8 @@ func TestHoldingChecksComeFromTheRegistry(t *testing.T) {
 			holding = append(holding, d.ID)
 		}
 	}
-	if len(holding) != 3 || holding[0] != TubeSlope || holding[1] != HoldingTime || holding[2] != LogReduction {
+	// The measured holding time converted to the product judges the tube too.
+	if len(holding) != 4 || holding[0] != TubeSlope || holding[1] != HoldingTime || holding[2] != LogReduction || holding[3] != AcceptanceHoldingTime {
 		t.Errorf("holding checks %v", holding)
 	}
 }

@@ -39,6 +39,13 @@ const (
 	// NoteOutletWarm is a note, not a warning: the outlet target is set
 	// above the cold limit on purpose. Values: outlet_C, limit_C, target_C.
 	NoteOutletWarm WarningCode = "outlet-above-cold-limit-by-target"
+
+	// WarnAcceptanceNotJudged is the latest result of a test that the plant
+	// file gives nothing to judge against; Field names what is missing
+	// (legal_minimums, process.sensor_accuracy, diversion, or the
+	// temperature of a water test outside the property range). Values:
+	// test_index.
+	WarnAcceptanceNotJudged WarningCode = "acceptance-not-judged"
 )
 
 // WarningCodes lists every code (tests walk each through the wording).
@@ -46,7 +53,8 @@ var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, War
 	WarnUValue, WarnPlateArea, WarnFouling, WarnRatioHigh, WarnDensity, WarnSpecificHeat, WarnViscosityBelowWater,
 	WarnHoldingTimeLong, WarnTubeVelocity, WarnOuterCoefficient,
 	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated,
-	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm}
+	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm,
+	WarnAcceptanceNotJudged}
 
 // Warning is something the user should look at that is not a failed check.
 // assess fills Code, Field and Values (SI, each key naming its unit);

@@ -2,6 +2,8 @@
 
 package fileout
 
+// No external source applies: these are the project's own file rules (README "Files").
+
 import "testing"
 
 // specialFiles makes no named pipe or device where the system has none.

@@ -1,5 +1,7 @@
 package inputerr
 
+// No external source applies: the expected texts are the project's own message convention.
+
 import "testing"
 
 func TestErrorText(t *testing.T) {

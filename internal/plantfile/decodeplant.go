@@ -26,6 +26,7 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 		}
 	}
 	defer d.decodeUncertainty(p, top)
+	defer d.decodeAcceptance(p, top)
 	defer d.decodeEconomics(p, top)
 	defer d.decodeHolding(p, top)
 	if prod := top.sub("product"); prod != nil {
@@ -359,11 +360,8 @@ func (o *object) wordOrMapping(key string) (string, *object) {
 }
 
 func orList(words []string) string {
-	switch len(words) {
-	case 1:
+	if len(words) == 1 {
 		return words[0]
-	case 2:
-		return words[0] + " or " + words[1]
 	}
 	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
 }

@@ -28,6 +28,8 @@ const (
 	KindNamed                               // a mapping of names the user chooses to values of the one child field NameKey
 	KindPathMapping                         // a mapping whose keys are field paths, each of the child fields ("path.<path>.key")
 	KindTolerance                           // "±X %" or "±X unit" of the varied field's dimension
+	KindDate                                // an ISO 8601 calendar date, YYYY-MM-DD
+	KindInterval                            // a calendar interval: a whole number of d, week, month or year
 )
 
 // NameKey is the key of a KindNamed field's one child: it stands for any name
@@ -65,6 +67,10 @@ func (k ValueKind) String() string {
 		return "mapping of field paths"
 	case KindTolerance:
 		return "tolerance"
+	case KindDate:
+		return "date"
+	case KindInterval:
+		return "interval"
 	}
 	panic(fmt.Sprintf("%sno name for value kind %d", panicPrefix, int(k)))
 }
@@ -467,6 +473,7 @@ func table() []Field {
 			Example:     "±2 %"},
 		Field{Path: uncertaintyEntry + ".distribution", Value: KindEnum, Values: []string{"uniform", "normal", "triangular"}, Required: true,
 			Description: "uniform on ±X, normal with σ = X/2 truncated at ±1.5X and at the physical bounds, or triangular on ±X", Example: "uniform"})
+	add(acceptanceFields()...)
 	// The cleaning forecast of a recorded run (docs/METHOD.md §17).
 	add(q("heating.max_medium_to_product", units.TemperatureDifference,
 		"burn-on limit: the largest medium inlet less product outlet of the heating section, a difference; logs forecasts when fouling makes it needed", "6 °C"))

@@ -56,6 +56,14 @@ legal_tables:
   milk:
     - {temperature: 72 °C, time: 15 s}
 legal_table: milk
+acceptance:
+  - {test: other, name: leak test, date: 2026-06-01, by: inspector, pass: true, note: three runs}
+haccp:
+  setpoint: {monitoring: chart read hourly, corrective_action: divert and hold, verification: QA reviews daily, records: kept 2 years}
+  max_flow: {monitoring: chart read hourly, corrective_action: divert and hold, verification: QA reviews daily, records: kept 2 years}
+  holding_time: {monitoring: chart read hourly, corrective_action: divert and hold, verification: QA reviews daily, records: kept 2 years}
+  regenerator_pressure: {monitoring: chart read hourly, corrective_action: divert and hold, verification: QA reviews daily, records: kept 2 years}
+  cooling_outlet: {monitoring: chart read hourly, corrective_action: divert and hold, verification: QA reviews daily, records: kept 2 years}
 `
 
 // lineOfEveryText is the line file everyText names (its blocks are all

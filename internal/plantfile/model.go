@@ -78,6 +78,12 @@ type Plant struct {
 	// Uncertainty holds the tolerances of the uncertainty block, in file
 	// order (docs/METHOD.md §14.1).
 	Uncertainty []Tolerance
+
+	// Acceptance are the acceptance-test results in file order; Diversion
+	// and HACCP are nil when not given (docs/METHOD.md §15).
+	Acceptance []AcceptanceTest
+	Diversion  *Diversion
+	HACCP      *HACCP
 }
 
 // SourceFile is one file a plant was read from.

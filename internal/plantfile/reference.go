@@ -94,6 +94,10 @@ func valueText(f Field) string {
 		return "mapping of field paths"
 	case KindTolerance:
 		return "tolerance, e.g. `" + f.Example + "`"
+	case KindDate:
+		return "date YYYY-MM-DD, e.g. `" + f.Example + "`"
+	case KindInterval:
+		return "interval (d, week, month, year), e.g. `" + f.Example + "`"
 	}
 	panic(fmt.Sprintf("%sno reference text for value kind %d", panicPrefix, int(f.Value)))
 }

@@ -42,6 +42,7 @@ func Validate(p *Plant) error {
 	}
 	v.holding(p)
 	v.uncertainty(p)
+	v.acceptance(p)
 	if len(v.errs) == 0 {
 		return nil
 	}

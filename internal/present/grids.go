@@ -102,6 +102,8 @@ func CheckLabel(c assess.Check) string {
 		return string(c.ID) + " (" + c.Organism + ")"
 	case c.Section != "":
 		return string(c.ID) + " (" + c.Section + ")"
+	case c.Name != "":
+		return string(c.ID) + " (" + c.Name + ")"
 	}
 	return string(c.ID)
 }
@@ -115,7 +117,10 @@ func Checks(res *assess.Result, d Display) Grid {
 			verdict = "FAIL"
 		}
 		op := "≥ "
-		if c.Limit == "max" {
+		switch {
+		case c.Unit == "pass":
+			op = ""
+		case c.Limit == "max":
 			op = "≤ "
 		}
 		req, act := CheckValues(c, d)

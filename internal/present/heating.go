@@ -207,8 +207,8 @@ func HeatingFacts(r *assess.RunReview, d Display) [][2]string {
 	return kv
 }
 
-// limitWords say what a limit is.
-func limitWords(h *assess.HeatingReview, fc fouling.Forecast, d Display) string {
+// heatingLimitWords say what a limit of the heating section is.
+func heatingLimitWords(h *assess.HeatingReview, fc fouling.Forecast, d Display) string {
 	switch fc.Limit {
 	case fouling.LimitMediumInlet:
 		return fmt.Sprintf("the %s available", d.With(fc.Inlet, units.Temperature, 2))
@@ -248,7 +248,7 @@ func HeatingForecast(r *assess.RunReview, d Display) [][2]string {
 		case fouling.Failed:
 			v = "not forecast: " + fc.Err.Error()
 		default:
-			v = fmt.Sprintf("%s required now of %s", requiredWords(fc, d), limitWords(h, fc, d))
+			v = fmt.Sprintf("%s required now of %s", requiredWords(fc, d), heatingLimitWords(h, fc, d))
 			switch fc.State {
 			case fouling.Reached:
 				v += ": already reached"
@@ -285,7 +285,7 @@ func CleanBefore(r *assess.RunReview, d Display) string {
 		for _, fc := range res.Forecasts {
 			switch fc.State {
 			case fouling.NotReached:
-				why = append(why, fmt.Sprintf("the %s fit never reaches the fouling at which the medium inlet required reaches %s", f.Kind, limitWords(h, fc, d)))
+				why = append(why, fmt.Sprintf("the %s fit never reaches the fouling at which the medium inlet required reaches %s", f.Kind, heatingLimitWords(h, fc, d)))
 			case fouling.Failed:
 				why = append(why, fmt.Sprintf("%s: %v", limitLabel(fc.Limit), fc.Err))
 			}
@@ -294,7 +294,7 @@ func CleanBefore(r *assess.RunReview, d Display) string {
 	}
 	if fc.State == fouling.Reached {
 		return fmt.Sprintf("clean now: at the last window the heating section at the normal rate already needs %s, beyond %s.",
-			requiredWords(fc, d), limitWords(h, fc, d))
+			requiredWords(fc, d), heatingLimitWords(h, fc, d))
 	}
 	after := (t - res.Last) / 3600
 	when := fmt.Sprintf("in %.1f h after the last sample", after)
@@ -303,7 +303,7 @@ func CleanBefore(r *assess.RunReview, d Display) string {
 	}
 	s := fmt.Sprintf("clean before %s (%s): the %s fit of R_f (%s) reaches %s at %s ± %s (1 σ, delta method), where the heating "+
 		"section at the normal rate needs its medium at %s", heatingClock(r, t), when, f.Kind, choiceWords(res), d.fouling(fc.Fouling),
-		heatingClock(r, fc.Time), spanH(fc.Sigma), limitWords(h, fc, d))
+		heatingClock(r, fc.Time), spanH(fc.Sigma), heatingLimitWords(h, fc, d))
 	if math.IsNaN(fc.Sigma) {
 		return s + "; the fit gives no uncertainty."
 	}

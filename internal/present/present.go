@@ -73,6 +73,13 @@ func checkValue(v float64, unit string, d Display, extra int) string {
 			return LogText(v) + " log"
 		}
 		return fmt.Sprintf("%.*f log", 2+extra, v)
+	case "K":
+		return d.With(v, units.TemperatureDifference, 2+extra)
+	case "pass":
+		if v >= 0.5 {
+			return "passed"
+		}
+		return "failed"
 	case "":
 		return fmt.Sprintf("%.*g", 3+extra, v)
 	}
@@ -101,6 +108,9 @@ func atLimit(c assess.Check) bool {
 // enough decimals to show the sign of a small margin; a margin at the limit
 // (within the tolerance rule) prints as an unsigned zero.
 func CheckMargin(c assess.Check, d Display) string {
+	if c.MarginUnit == "pass" {
+		return "—"
+	}
 	if c.MarginUnit == "log" && c.Actual > LogCap {
 		return "> " + Signed(fmt.Sprintf("%.2f", LogCap-c.Required)) + " log"
 	}

@@ -55,7 +55,8 @@ func TestNumbersInEachSystem(t *testing.T) {
 func TestEveryCheckHasANote(t *testing.T) {
 	for _, d := range assess.CheckDefs() {
 		c := assess.NewCheck(d.ID, 1, 2)
-		c.Detail = assess.CheckDetail{RowTemperatureC: 72, SetpointC: 72.5, MarginPercent: 8.9, Plates: 40, DRefS: 0.9, DTemperatureC: 71.7, ZK: 6.3}
+		c.Detail = assess.CheckDetail{RowTemperatureC: 72, SetpointC: 72.5, MarginPercent: 8.9, Plates: 40, DRefS: 0.9, DTemperatureC: 71.7, ZK: 6.3,
+			Test: sampleResult(), Diversion: &assess.Diversion{SensorToValveM: 3, InnerDiameterM: 0.0475, AtSeal: true, Regime: "turbulent"}}
 		for _, d := range []Display{si, us} {
 			if CheckNote(c, d) == "" {
 				t.Errorf("%s: empty note", c.ID)

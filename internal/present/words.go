@@ -64,6 +64,11 @@ func CheckNote(c assess.Check, d Display) string {
 		return note + fmt.Sprintf("; D %.4g s at %s, z %s", x.DRefS, d.temp(x.DTemperatureC), d.diff(x.ZK))
 	case assess.HeatingMedium:
 		return fmt.Sprintf("medium inlet that %d plates need to bring the product to temperature, against the hottest available", x.Plates)
+	case assess.AcceptanceHoldingTime, assess.AcceptanceCutOut, assess.AcceptanceCutIn, assess.AcceptanceValveResponse,
+		assess.AcceptanceSensorCheck, assess.AcceptanceRegeneratorPressure, assess.AcceptanceOther:
+		return d.acceptanceNote(c)
+	case assess.DiversionTiming:
+		return d.diversionNote(c)
 	}
 	for _, def := range assess.CheckDefs() {
 		if def.ID == c.ID && def.Note != "" {
@@ -159,6 +164,8 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 	case assess.NoteOutletWarm:
 		return fmt.Sprintf("the product leaves the pasteurizer at %s, above the %s many codes set for pasteurized milk, as process.outlet_target "+
 			"(%s) allows on purpose", d.temp(v["outlet_C"]), d.coldLimit(v["limit_C"]), d.temp(v["target_C"]))
+	case assess.WarnAcceptanceNotJudged:
+		return notJudgedText(w, p, d)
 	}
 	if text, ok := packWarningText(w, p, d); ok {
 		return text
@@ -262,6 +269,7 @@ func ForJSON(res *assess.Result) *assess.Result {
 		w.Message = WarningText(w, res.Plant, si)
 		out.Warnings[i] = w
 	}
+	out.CriticalLimits = CriticalLimits(res, si)
 	return &out
 }
 

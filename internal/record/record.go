@@ -167,6 +167,10 @@ func build(res *assess.Result, opts Options, whatIf *assess.WhatIf) *report.Docu
 	if res.Margins != nil {
 		doc.Sections = append(doc.Sections, marginsSection(res, d))
 	}
+	if len(res.Acceptance) > 0 || res.Diversion != nil {
+		doc.Sections = append(doc.Sections, acceptanceSection(res, opts, d))
+	}
+	doc.Sections = append(doc.Sections, limitsSection(res, d))
 	if whatIf != nil {
 		doc.Sections = append(doc.Sections, whatIfSection(whatIf, d))
 	}
@@ -266,6 +270,13 @@ func methodSection(res *assess.Result) report.Section {
 			"Lethality: D(T) = D_ref·10^((T_ref − T)/z); the judged log reduction is that of the tube isothermal at the judged temperature, LR = t_min/D(T_j), at the worst flow (with the credit: LR = ∫ dt/D(T) along the profile, Simpson's rule with 1024 intervals, the lower of the candidate flows). Kinetics used more than 10 K from their reference temperature are flagged.",
 			"Legal table: met when some row has temperature ≤ the judged temperature and time ≤ the fastest particle's time at the worst flow; rows are never interpolated.",
 		)
+		if len(res.Acceptance) > 0 {
+			items = append(items,
+				"Acceptance tests (docs/METHOD.md §15): a holding-time test gives the hold-up the fastest particle saw, V = t·r_test·Q_t, r_test the tested fluid's fastest-to-mean ratio at the test flow (water: IF97 density and IAPWS 2008 viscosity at the test temperature); the product's time is V/(r_p·Q) at the worst flow, judged against the legal table at the judged temperature. Cut-out and cut-in must not be below the judged temperature nor the judged legal row; a sensor check must agree with the reference within the stated accuracy. A latest result past its interval on the record date is stale and fails its check.")
+		}
+		if res.Diversion != nil {
+			items = append(items, "Diversion timing: the fastest particle's travel time from the diversion sensor to the valve at the worst flow of that pipe must be at least the valve's response time (a measured valve-response test wins over the entered one).")
+		}
 		if res.HoldingTube.CreditHeatLoss {
 			items = append(items, "This record judges the log reductions WITH the heat-loss credit (holding_tube.credit_heat_loss: true): a process authority's decision recorded in the plant file.")
 		}
@@ -395,6 +406,58 @@ func checksSection(res *assess.Result, d present.Display) report.Section {
 	}
 	blocks = append(blocks, report.Paragraph{Text: "Result: " + present.Overall(res) + ".", Emphasis: true})
 	return report.Section{Heading: "Checks", Blocks: blocks}
+}
+
+// acceptanceSection is the page of the measured acceptance tests, the
+// diversion timing and what is due when (docs/METHOD.md §15).
+func acceptanceSection(res *assess.Result, opts Options, d present.Display) report.Section {
+	var blocks []report.Block
+	if len(res.Acceptance) > 0 {
+		blocks = append(blocks, tableFrom(fmt.Sprintf("Every result entered, measured against the model, judged on %s. The latest result of each kind is a check; an older one is superseded. A holding-time test is converted to the product at the worst flow.", res.ReviewDate),
+			present.AcceptanceTests(res, d)))
+	}
+	if v := res.Diversion; v != nil {
+		c, _ := checkOf(res, assess.DiversionTiming)
+		blocks = append(blocks, report.KeyValues{Pairs: [][2]string{
+			{"diversion timing", present.CheckNote(c, d)},
+			{"travel time", fmt.Sprintf("%.2f s against a response time of %.2f s: %s", v.TravelTimeS, v.ResponseTimeS, map[bool]string{true: "PASS", false: "FAIL"}[v.Pass])},
+		}})
+	}
+	blocks = append(blocks, tableFrom("When each test is due again (intervals as entered in the plant file; pasval invents none).", present.Due(assess.DueList(res, opts.Date))))
+	return report.Section{Heading: "Acceptance tests", Blocks: blocks}
+}
+
+// checkOf is the result's check with the id.
+func checkOf(res *assess.Result, id assess.CheckID) (assess.Check, bool) {
+	for _, c := range res.Checks {
+		if c.ID == id {
+			return c, true
+		}
+	}
+	return assess.Check{}, false
+}
+
+// limitsSection is the critical-limit table for the HACCP plan, a draft
+// on a page of its own (docs/METHOD.md §15.6): the limits in a table, then
+// each limit's monitoring, corrective action, verification and records.
+func limitsSection(res *assess.Result, d present.Display) report.Section {
+	limits := present.CriticalLimits(res, d)
+	t := report.Table{Caption: "The critical limits of the validated schedule.", Columns: []report.Column{{Title: "what is limited"}, {Title: "critical limit"}}}
+	blocks := []report.Block{
+		report.Paragraph{Text: "DRAFT for the HACCP team. The limits are taken from the schedule this record validates; the monitoring, " +
+			"corrective actions, verification and records are the plant file's haccp: block where it gives them and plain defaults " +
+			"otherwise. The HACCP team decides the plan.", Emphasis: true},
+	}
+	for _, c := range limits {
+		t.Rows = append(t.Rows, []string{c.Parameter, c.LimitText})
+	}
+	blocks = append(blocks, t)
+	for i, c := range limits {
+		blocks = append(blocks, report.Paragraph{Text: fmt.Sprintf("%d. %s: %s", i+1, c.Parameter, c.LimitText), Emphasis: true},
+			report.KeyValues{Pairs: [][2]string{{"monitoring", c.Monitoring}, {"corrective action", c.CorrectiveAction},
+				{"verification", c.Verification}, {"records", c.Records}}})
+	}
+	return report.Section{Heading: "Critical limits (draft for the HACCP team)", Blocks: blocks, NewPage: true}
 }
 
 func cautionSection(res *assess.Result) report.Section {

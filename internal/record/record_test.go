@@ -26,7 +26,7 @@ func demo(t *testing.T, name string) (*assess.Result, *report.Document) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := assess.Run(p)
+	res, err := assess.RunWith(p, assess.Options{On: day})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -75,6 +75,10 @@ func TestDocumentModel(t *testing.T) {
 			if len(res.Plant.Uncertainty) > 0 {
 				want = append(want, "Margins under uncertainty")
 			}
+			if len(res.Acceptance) > 0 || res.Diversion != nil {
+				want = append(want, "Acceptance tests")
+			}
+			want = append(want, "Critical limits (draft for the HACCP team)")
 			if WantsWhatIf(res.Plant) {
 				want = append(want, "What if: added regeneration plates")
 			}
@@ -187,7 +191,11 @@ func TestVerifyTamper(t *testing.T) {
 		t.Errorf("tampered plant file: %+v %v", v, err)
 	}
 	// The recorded hash changed in the record: the attachment no longer matches it.
-	forged := bytes.Replace(pdf, []byte(report.KeywordPrefix+doc.SHA256[:1]), []byte(report.KeywordPrefix+string(rune(doc.SHA256[0]^1))), 1)
+	other := "0"
+	if doc.SHA256[0] == '0' {
+		other = "1"
+	}
+	forged := bytes.Replace(pdf, []byte(report.KeywordPrefix+doc.SHA256[:1]), []byte(report.KeywordPrefix+other), 1)
 	if v, err := report.Verify(forged, nil); err != nil || v.Match {
 		t.Errorf("forged hash: %+v %v", v, err)
 	}
@@ -394,4 +402,57 @@ func contains(cells []string, want string) bool {
 		}
 	}
 	return false
+}
+
+func TestAcceptanceAndCriticalLimitPages(t *testing.T) {
+	// The project's specification (docs/METHOD.md §15): a page of the
+	// acceptance tests, each measured against the model with its verdict and
+	// due date, and the critical-limit table on a page of its own, marked as a
+	// draft for the HACCP team.
+	res, doc := demo(t, "htst-milk-si")
+	var acc, limits *report.Section
+	for i := range doc.Sections {
+		switch doc.Sections[i].Heading {
+		case "Acceptance tests":
+			acc = &doc.Sections[i]
+		case "Critical limits (draft for the HACCP team)":
+			limits = &doc.Sections[i]
+		}
+	}
+	if acc == nil || limits == nil {
+		t.Fatal("the SI demo's record lacks a page")
+	}
+	tables := 0
+	for _, b := range acc.Blocks {
+		if tb, ok := b.(report.Table); ok {
+			tables++
+			if tables == 1 && (len(tb.Rows) != len(res.Acceptance) || !strings.Contains(strings.Join(tb.Rows[1], "|"), "16.24 s as the product")) {
+				t.Errorf("results table %v", tb.Rows)
+			}
+			if tables == 2 && len(tb.Rows) != 7 {
+				t.Errorf("due table has %d rows, want 7 kinds", len(tb.Rows))
+			}
+		}
+	}
+	if tables != 2 {
+		t.Errorf("%d tables on the acceptance page", tables)
+	}
+	if !limits.NewPage {
+		t.Error("the critical limits do not start a page")
+	}
+	first, ok := limits.Blocks[0].(report.Paragraph)
+	if !ok || !first.Emphasis || !strings.HasPrefix(first.Text, "DRAFT for the HACCP team") {
+		t.Errorf("draft marker %+v", limits.Blocks[0])
+	}
+	if tb, ok := limits.Blocks[1].(report.Table); !ok || len(tb.Rows) != len(res.CriticalLimits) || len(tb.Rows) != 5 {
+		t.Errorf("critical-limit table %+v", limits.Blocks[1])
+	}
+	// A plant file without acceptance tests has no acceptance page, but its
+	// critical limits still.
+	_, doc = demo(t, "cider-us")
+	for _, s := range doc.Sections {
+		if s.Heading == "Acceptance tests" {
+			t.Error("the cider demo enters no test")
+		}
+	}
 }

@@ -66,7 +66,7 @@ func reproducePlant(st *report.Stored) (*report.Document, error) {
 	if err := plantfile.Validate(p); err != nil {
 		return nil, err
 	}
-	res, err := assess.Run(p)
+	res, err := assess.RunWith(p, assess.Options{On: st.Date})
 	if err != nil {
 		return nil, err
 	}

@@ -1,5 +1,8 @@
 package record
 
+// Expected events and verdicts follow the demo shift's documented script (internal/rungen,
+// computed from docs/METHOD.md §13); the page list is the record's own layout.
+
 import (
 	"strings"
 	"testing"

@@ -1,5 +1,7 @@
 package rungen
 
+// No external source applies: the reference is the committed demo run itself.
+
 import (
 	"bytes"
 	"flag"

@@ -37,6 +37,10 @@ var (
 	// unit or %; PathPattern a field path as its key.
 	TolerancePattern = `^\s*(?:±|\+-|\+/-)\s*` + number + `\s*[^\n]*$`
 	PathPattern      = `^[A-Za-z_][A-Za-z0-9_]*(?:\[[0-9]+\])?(?:\.[A-Za-z_][A-Za-z0-9_]*(?:\[[0-9]+\])?)*$`
+	// DatePattern is an ISO 8601 calendar date; IntervalPattern a calendar
+	// interval (docs/METHOD.md §15.5).
+	DatePattern     = `^[0-9]{4}-[0-9]{2}-[0-9]{2}$`
+	IntervalPattern = `^\s*[0-9]+\s*(?:d|days?|weeks?|months?|years?)\s*$`
 )
 
 type obj = map[string]any
@@ -101,6 +105,10 @@ func node(f plantfile.Field, path string) obj {
 		item := plantfile.Children(path)[0]
 		return obj{"type": "object", "minProperties": 1, "description": desc, "properties": obj{},
 			"propertyNames": obj{"pattern": plantfile.NamePattern}, "additionalProperties": node(item, item.Path)}
+	case plantfile.KindDate:
+		return obj{"type": "string", "format": "date", "pattern": DatePattern, "description": desc + " (an ISO 8601 date YYYY-MM-DD, e.g. " + f.Example + ")"}
+	case plantfile.KindInterval:
+		return obj{"type": "string", "pattern": IntervalPattern, "description": desc + " (a whole number and d, week, month or year, e.g. " + f.Example + ")"}
 	case plantfile.KindWaterOrMapping:
 		return obj{"description": desc, "oneOf": []any{obj{"enum": words(f.Values)}, object(f.Description, path, nil)}}
 	case plantfile.KindPathMapping:
