@@ -312,6 +312,11 @@ var badRuns = map[string]struct{ pos, msg string }{
 	"time-backwards.csv":   {"3:1", "time goes backwards"},
 	// At the first ',' of a row in a ';' file.
 	"mixed-separators.csv": {"3:21", "mixed separators"},
+	// The heating section's columns (docs/METHOD.md §17.1): a unit is never
+	// assumed; all four temperatures or none; numbers as in any column.
+	"heating-no-unit.csv": {"1:60", `heating_product_in: no unit for temperature: write it in the header, as "heating_product_in [°C]"`},
+	"heating-partial.csv": {"1:1", "heating_medium_out: the header has heating_product_in, heating_product_out, heating_medium_in but no heating_medium_out"},
+	"heating-text.csv":    {"3:49", `heating_medium_in: expected a number, found "hot"`},
 }
 
 // TestLogsBadFiles: each malformed file is refused, exit 2, naming the
@@ -354,6 +359,9 @@ func TestLogsFlags(t *testing.T) {
 		{[]string{"--skip-bad-rows", "-1"}, "--skip-bad-rows: the number of bad rows to skip must be 0 or more"},
 		{[]string{"--timezone", "Mars/Olympus_Mons"}, `--timezone "Mars/Olympus_Mons" is not a time zone name`},
 		{[]string{"--gap", "-3"}, "--gap must be a number of seconds above 0"},
+		{[]string{"--window", "-60"}, "--window must be a number of seconds above 0 and at most 86400"},
+		{[]string{"--window", "1e6"}, "--window must be a number of seconds above 0 and at most 86400"},
+		{[]string{"--columns", "heating_medium=TT-201"}, `--columns: no column is called "heating_medium"`},
 		{[]string{"--units", "metric"}, "--units must be si or us"},
 	}
 	for _, c := range cases {

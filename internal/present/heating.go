@@ -34,10 +34,11 @@ func Sci(v float64) string {
 	if exp == 0 {
 		return m
 	}
-	return m + "×10" + superscript(exp)
+	return m + "×10" + Superscript(exp)
 }
 
-func superscript(n int) string {
+// Superscript writes an integer in superscript digits: −5 → ⁻⁵.
+func Superscript(n int) string {
 	digits := []rune("⁰¹²³⁴⁵⁶⁷⁸⁹")
 	var b strings.Builder
 	if n < 0 {
@@ -322,7 +323,9 @@ func choiceWords(res *fouling.Result) string {
 	return "the only fit"
 }
 
-// ForecastBasis is the forecast's basis in words, in SI, for JSON.
+// ForecastBasis is the forecast's basis in words, in SI, for JSON: the fit
+// and why it was chosen, where U_clean comes from, the rating, and the
+// limit that sets the time to clean.
 func ForecastBasis(r *assess.RunReview) string {
 	d := Display{Sys: units.SI}
 	h := r.Heating
@@ -336,9 +339,18 @@ func ForecastBasis(r *assess.RunReview) string {
 		clean = "the plate pack's at each window's temperatures and flows"
 	}
 	sec := h.Section
-	return fmt.Sprintf("%s fit of R_f = 1/U − 1/U_clean over %d windows of %s (%s); U_clean %s; the heating section rated at the "+
-		"normal rate with U_service = 1/(1/U_clean + R_f(t)) to bring the product from %s to %s; %s", f.Kind, len(res.Points), Seconds(h.Width),
-		choiceWords(res), clean, d.With(sec.ProductIn, units.Temperature, 2), d.With(sec.ProductOut, units.Temperature, 2), CleanBefore(r, d))
+	s := fmt.Sprintf("%s fit of R_f = 1/U − 1/U_clean over %d windows of %s (%s); U_clean %s; the heating section rated at the "+
+		"normal rate with U_service = 1/(1/U_clean + R_f(t)) to bring the product from %s to %s", f.Kind, len(res.Points), Seconds(h.Width),
+		choiceWords(res), clean, d.With(sec.ProductIn, units.Temperature, 2), d.With(sec.ProductOut, units.Temperature, 2))
+	_, fc, ok := h.CleanBefore()
+	switch {
+	case !ok:
+		return s + "; " + CleanBefore(r, d)
+	case fc.State == fouling.Reached:
+		return s + fmt.Sprintf("; at the last window it already needs %s, beyond %s", requiredWords(fc, d), heatingLimitWords(h, fc, d))
+	}
+	return s + fmt.Sprintf("; the medium inlet required reaches %s at R_f = %s; the time to clean is the time the fit reaches it "+
+		"less 1.645 σ (delta method, one-sided 95 %%)", heatingLimitWords(h, fc, d), d.fouling(fc.Fouling))
 }
 
 // HeatingRuns is U at the start and end of each run in date order: did
