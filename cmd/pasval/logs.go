@@ -38,7 +38,14 @@ own core, events keep their file, and the summary covers all. The columns are
 found by header name (time, hold_outlet_temperature, flow_rate, forward, or the
 names --columns gives); units come from the header ("flow_rate [gpm]") or from
 --temperature-unit and --flow-unit, and are never assumed. Times are RFC 3339
-clock times or seconds from a start. The method is docs/METHOD.md §13.`,
+clock times or seconds from a start. The method is docs/METHOD.md §13.
+
+With the heating section's temperatures (columns heating_product_in,
+heating_product_out, heating_medium_in, heating_medium_out, and optionally
+heating_medium_flow), it also follows the section's U over clock-aligned
+windows (--window), fits the fouling resistance and forecasts when to clean:
+when the heating medium the section needs reaches the hottest available, or
+the plant file's heating.max_medium_to_product (docs/METHOD.md §17).`,
 		Example: `  pasval logs testdata/demo/htst-milk-si.yaml testdata/demo/runs/htst-milk-si-shift.csv
   pasval logs line2.yaml exports/ --json > review.json
   pasval logs line2.yaml shift.csv --separator ';' --decimal-comma --timezone Europe/Berlin
