@@ -17,7 +17,8 @@ import (
 // shared by the terminal and the record: U and its fits, the fouling and
 // the cleaning forecast.
 
-// Sci prints a small number as "2.21×10⁻⁵" (three significant digits).
+// Sci prints a small number as "2.21×10⁻⁵" (three significant digits, a
+// true minus sign).
 func Sci(v float64) string {
 	switch {
 	case math.IsNaN(v) || math.IsInf(v, 0):
@@ -31,6 +32,7 @@ func Sci(v float64) string {
 	if err != nil {
 		return m
 	}
+	m = strings.Replace(m, "-", "−", 1)
 	if exp == 0 {
 		return m
 	}
@@ -199,8 +201,7 @@ func HeatingFacts(r *assess.RunReview, d Display) [][2]string {
 			add("  "+string(k), fmt.Sprintf("not fitted: %d windows, it takes %d", len(res.Points), fouling.MinPoints[k]))
 			continue
 		}
-		add("  "+string(k), fmt.Sprintf("%s (rms residual %s, AIC %s): %s", d.fitFormula(f), d.foulingNum(f.RMS()),
-			strings.Replace(strconv.FormatFloat(f.AIC, 'f', 1, 64), "-", "−", 1), fitNote(res, k)))
+		add("  "+string(k), fmt.Sprintf("%s (rms residual %s, AIC %s): %s", d.fitFormula(f), d.foulingNum(f.RMS()), aic(f.AIC), fitNote(res, k)))
 	}
 	if f, ok := res.Fits[fouling.Linear]; ok {
 		add("fouling rate", fmt.Sprintf("%s per h (the linear fit's slope)", d.fouling(f.B)))
@@ -218,6 +219,14 @@ func heatingLimitWords(h *assess.HeatingReview, fc fouling.Forecast, d Display) 
 			d.With(h.Section.MaxMediumToProduct, units.TemperatureDifference, 2))
 	}
 	panic(fmt.Sprintf("%sno words for limit %q", panicPrefix, fc.Limit))
+}
+
+// aic prints an AIC with a true minus sign; −∞ for a fit without residuals.
+func aic(v float64) string {
+	if math.IsInf(v, -1) {
+		return "−∞"
+	}
+	return strings.Replace(strconv.FormatFloat(v, 'f', 1, 64), "-", "−", 1)
 }
 
 // limitLabel names a limit in a list.
@@ -358,11 +367,11 @@ func ForecastBasis(r *assess.RunReview) string {
 func HeatingRuns(r *assess.RunReview, d Display) Grid {
 	h := r.Heating
 	uu := d.Unit(units.HeatTransferCoefficient)
-	ref := "of the first run's start"
+	ref := ">U start / first run's"
 	if h.Pack {
-		ref = "of U clean"
+		ref = ">U start / U clean"
 	}
-	g := grid(">#", "file", "start", ">U start "+uu, ">U end "+uu, ">fouling rate "+d.Unit(units.FoulingResistance)+" per h", ">U start "+ref)
+	g := grid(">#", "file", "start", ">U start "+uu, ">U end "+uu, ">fouling rate "+d.Unit(units.FoulingResistance)+" per h", ref)
 	first := math.NaN()
 	for i, hr := range h.Runs {
 		res := hr.Result

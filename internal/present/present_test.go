@@ -200,7 +200,7 @@ func TestSci(t *testing.T) {
 	}{
 		{2.2076689e-5, "2.21×10⁻⁵"}, // three significant digits, exponent in superscript (by hand)
 		{1.8938e-4, "1.89×10⁻⁴"},
-		{-3.5e-7, "-3.50×10⁻⁷"},
+		{-3.5e-7, "−3.50×10⁻⁷"},
 		{4.2, "4.20"},
 		{1234, "1.23×10³"},
 		{0, "0"},
