@@ -33,4 +33,5 @@ require (
 	golang.org/x/crypto v0.54.0 // indirect
 	golang.org/x/text v0.44.0 // indirect
 	golang.org/x/tools v0.52.0 // indirect
+	gonum.org/v1/gonum v0.17.0 // indirect
 )

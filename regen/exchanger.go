@@ -82,16 +82,21 @@ func (e *CrossError) Error() string { return e.Section + ": " + e.Detail() }
 
 // Detail is the message without the section name.
 func (e *CrossError) Detail() string {
-	d1, d2 := terminalDifferences(e.Arrangement, e.HotIn, e.HotOut, e.ColdIn, e.ColdOut)
+	d1, d2 := TerminalDifferences(e.Arrangement, e.HotIn, e.HotOut, e.ColdIn, e.ColdOut)
 	return fmt.Sprintf("temperature cross: %s %.2f → %.2f °C, %s %.2f → %.2f °C; the %s terminal differences are %.2f K and %.2f K and both must be positive",
 		e.Hot, e.HotIn, e.HotOut, e.Cold, e.ColdIn, e.ColdOut, e.Arrangement, d1, d2)
 }
 
-// terminalDifferences returns the temperature differences at the two ends:
+// TerminalDifferences returns the temperature differences at the two ends
+// of an exchanger of arrangement a, K:
 //
 //	counterflow: ΔT₁ = T_h,in − T_c,out,  ΔT₂ = T_h,out − T_c,in
 //	co-current:  ΔT₁ = T_h,in − T_c,in,   ΔT₂ = T_h,out − T_c,out
-func terminalDifferences(a Arrangement, hotIn, hotOut, coldIn, coldOut float64) (float64, float64) {
+//
+// Both must be positive for LMTD; either ≤ 0 is a temperature cross.
+//
+// References: Incropera et al. (2007), §11.3; docs/METHOD.md §5.1 (LMTD).
+func TerminalDifferences(a Arrangement, hotIn, hotOut, coldIn, coldOut float64) (float64, float64) {
 	if a == Cocurrent {
 		return hotIn - coldIn, hotOut - coldOut
 	}

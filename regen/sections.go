@@ -95,7 +95,7 @@ func finish(sec *Section, s Surface, st streams) error {
 	sec.Arrangement = s.Arrangement
 	sec.U, sec.PlateArea = s.U, s.PlateArea
 	sec.Duty = st.cCold * (st.coldOut - st.coldIn)
-	d1, d2 := terminalDifferences(s.Arrangement, st.hotIn, st.hotOut, st.coldIn, st.coldOut)
+	d1, d2 := TerminalDifferences(s.Arrangement, st.hotIn, st.hotOut, st.coldIn, st.coldOut)
 	lm, ok := LMTD(d1, d2)
 	if !ok || !(sec.Duty > 0) {
 		return &CrossError{Section: sec.Label(), Arrangement: s.Arrangement,

@@ -310,6 +310,9 @@ func (r *renderer) plot(p Plot) {
 	f.SetLineWidth(0.3)
 	f.Rect(left, top, width, height, "D")
 	for i, s := range p.Series {
+		if s.Markers {
+			continue
+		}
 		col := seriesCols[i%len(seriesCols)]
 		r.setDraw(col)
 		f.SetLineWidth(0.6)
@@ -324,13 +327,16 @@ func (r *renderer) plot(p Plot) {
 	items := make([]legendItem, len(p.Series))
 	for i, s := range p.Series {
 		items[i] = legendItem{s.Name, seriesCols[i%len(seriesCols)], nil}
+		if s.Markers {
+			items[i].dash = []float64{0.4, 1.2} // dotted: points, not a line
+		}
 	}
 	r.legend(left, top+height+9, items)
 	// points, so that a short series still reads
 	for i, s := range p.Series {
 		col := seriesCols[i%len(seriesCols)]
 		f.SetFillColor(col[0], col[1], col[2])
-		if len(s.X) <= 30 {
+		if len(s.X) <= 30 || s.Markers {
 			for j := range s.X {
 				f.Circle(X(s.X[j]), Y(s.Y[j]), 0.7, "F")
 			}

@@ -24,7 +24,8 @@ func sampleBlock(k BlockKind) Block {
 		return Diagram{Unit: "°C", Setpoint: 72, Segments: []Segment{{Label: "heating", ProductIn: 60, ProductOut: 72, Other: "water",
 			OtherAtLeft: 74, OtherAtRight: 77, OtherLeftward: true, OtherIsHot: true}}}
 	case PlotBlock:
-		return Plot{XLabel: "x", YLabel: "y", Series: []Series{{Name: "s", X: []float64{0, 1}, Y: []float64{0, 1}}}}
+		return Plot{XLabel: "x", YLabel: "y", Series: []Series{{Name: "s", X: []float64{0, 1}, Y: []float64{0, 1}},
+			{Name: "points", X: []float64{0.2, 0.7}, Y: []float64{0.3, 0.6}, Markers: true}}}
 	case SignOffBlock:
 		return SignOff{Roles: []string{"Prepared by"}}
 	case BarChartBlock:

@@ -164,6 +164,9 @@ type Plot struct {
 type Series struct {
 	Name string
 	X, Y []float64
+	// Markers draws each point as a dot and no line between them (measured
+	// values beside a fitted curve).
+	Markers bool
 }
 
 // BarChart is a horizontal bar chart: one bar per label, in the order given,

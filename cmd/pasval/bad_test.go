@@ -42,6 +42,7 @@ var badCases = map[string]badCase{
 	"duplicate-key":                    {13, "process.raw_inlet", "given twice"},
 	"empty":                            {1, "", "the plant file is empty"},
 	"fractional-plates":                {21, "heating.plates", "whole number"},
+	"heating-burn-on-zero":             {21, "heating.max_medium_to_product", "must be greater than zero"},
 	"heating-cross":                    {19, "heating.medium_inlet", "temperature cross"},
 	"heating-starved":                  {18, "heating", "temperature cross: medium 77.00"},
 	"huge-number":                      {15, "regeneration.plate_area", "not a number"},

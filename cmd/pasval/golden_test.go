@@ -321,7 +321,11 @@ func dumpBlock(b *strings.Builder, blk report.Block) {
 	case report.Plot:
 		fmt.Fprintf(b, "plot %q x %q y %q\n", v.Caption, v.XLabel, v.YLabel)
 		for _, s := range v.Series {
-			fmt.Fprintf(b, "  series %s:", s.Name)
+			mark := ""
+			if s.Markers {
+				mark = " (markers)"
+			}
+			fmt.Fprintf(b, "  series %s%s:", s.Name, mark)
 			for i := range s.X {
 				fmt.Fprintf(b, " (%.6g, %.6g)", s.X[i], s.Y[i])
 			}

@@ -47,23 +47,19 @@ func turbulentRatio(re float64) float64 {
 // judgedJSON is the part of check --json these tests read.
 type judgedJSON struct {
 	HoldingTube struct {
-		MaxFlow            float64 `json:"max_flow_m3_s"`
-		Reynolds           float64 `json:"reynolds"`
-		MinResidence       float64 `json:"min_residence_s"`
-		WorstFlow          float64 `json:"worst_flow_m3_s"`
-		WorstRegime        string  `json:"worst_flow_regime"`
-		WorstAtSeal        bool    `json:"worst_flow_at_seal"`
-		WorstMinResidence  float64 `json:"worst_min_residence_s"`
-		JudgedTemperatureC float64 `json:"judged_temperature_C"`
-		CreditHeatLoss     bool    `json:"credit_heat_loss"`
-		Legal              *struct {
-			Met          bool    `json:"met"`
-			TemperatureC float64 `json:"row_temperature_C"`
-		} `json:"legal"`
-		LegalAtSetpoint *struct {
-			Met          bool    `json:"met"`
-			TemperatureC float64 `json:"row_temperature_C"`
-		} `json:"legal_at_setpoint"`
+		MaxFlow            float64    `json:"max_flow_m3_s"`
+		Reynolds           float64    `json:"reynolds"`
+		MinResidence       float64    `json:"min_residence_s"`
+		WorstFlow          float64    `json:"worst_flow_m3_s"`
+		WorstRegime        string     `json:"worst_flow_regime"`
+		WorstAtSeal        bool       `json:"worst_flow_at_seal"`
+		WorstMinResidence  float64    `json:"worst_min_residence_s"`
+		JudgedTemperatureC float64    `json:"judged_temperature_C"`
+		CreditHeatLoss     bool       `json:"credit_heat_loss"`
+		RequiredLength     *float64   `json:"required_length_m"`
+		RequiredLengthSeal *float64   `json:"required_length_at_seal_m"`
+		Legal              *legalJSON `json:"legal"`
+		LegalAtSetpoint    *legalJSON `json:"legal_at_setpoint"`
 	} `json:"holding_tube"`
 	Lethality []struct {
 		LogReduction float64  `json:"log_reduction"`
@@ -81,6 +77,15 @@ type judgedJSON struct {
 		Code   string             `json:"code"`
 		Values map[string]float64 `json:"values"`
 	} `json:"warnings"`
+}
+
+// legalJSON is a reading of the legal table in check --json.
+type legalJSON struct {
+	Met          bool    `json:"met"`
+	RowIndex     int     `json:"row_index"`
+	TemperatureC float64 `json:"row_temperature_C"`
+	TimeS        float64 `json:"row_time_s"`
+	MarginS      float64 `json:"margin_s"`
 }
 
 func judged(t *testing.T, path string) (judgedJSON, int) {
@@ -148,6 +153,13 @@ func TestJudgedAtTheWorstFlowBelowTheSeal(t *testing.T) {
 	if pass || code != 1 || math.Abs(req-210) > 1e-9 {
 		t.Errorf("holding-time pass %v required %g, exit %d; want a failure against 210 s, exit 1", pass, req, code)
 	}
+	// The length the 210 s row needs, L = t·r·v (docs/METHOD.md §7.5): at the
+	// worst flow 210·2·v₄₀₀₀, and beside it at the seal 210·r(Re)·v.
+	if h.RequiredLength == nil || h.RequiredLengthSeal == nil {
+		t.Fatalf("required lengths %v %v", h.RequiredLength, h.RequiredLengthSeal)
+	}
+	closeTo(t, "length needed at the worst flow", *h.RequiredLength, 210*2*v4000, 1e-9)
+	closeTo(t, "length needed at the seal", *h.RequiredLengthSeal, 210*turbulentRatio(re)*v, 1e-9)
 	// The text names the worst flow (v₄₀₀₀·A = 13.1 gpm) and still shows the seal's time.
 	out, _, _ := runBinary(t, "check", path)
 	for _, want := range []string{"judged at 13.1 gpm, the worst flow below it", "fastest particle 204.73 s", "at the sealed maximum 216.02 s"} {
@@ -404,6 +416,81 @@ holding_tube:
 	if !regexp.MustCompile(`Holding tube \(judged at the sealed maximum, 10[0-9]{3} L/h at the setpoint density \(10000 L/h at 10[0-9]{2}\.[0-9] kg/m³\)\)`).MatchString(out) {
 		t.Errorf("heading:\n%s", out)
 	}
+}
+
+func TestLegalReadingsBesideTheJudgedOne(t *testing.T) {
+	// The dessert base of TestSensorAccuracyIsJudged (laminar, t_min =
+	// 16.1/(2v) = 17.12 s at the seal, the worst flow) with other setpoints.
+	// The table is read at the judged temperature; its reading at the setpoint
+	// is always shown beside it, equal without a sensor accuracy; the length
+	// needed is that of the applicable row, t·2·v, and none (null) when no row
+	// is at or below the judged temperature (docs/METHOD.md §10.1).
+	d := 1.870 * inch
+	v := (3000 / 3.6e6) / (math.Pi * d * d / 4)
+	tMin := 16.1 / (2 * v)
+	src, err := os.ReadFile(filepath.Join(judgingDir, "dessert-accuracy-si.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	write := func(name, setpoint, accuracy string) string {
+		text := strings.NewReplacer("hold_setpoint: 86 °C", "hold_setpoint: "+setpoint,
+			"  sensor_accuracy: 0.5 °C\n", accuracy).Replace(string(src))
+		path := filepath.Join(dir, name+".yaml")
+		if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return path
+	}
+	for _, c := range []struct {
+		name, setpoint, accuracy string
+		judged, atSet            legalJSON // met, row_index, row temperature and time; margin t_min − row time
+		length                   float64   // row time · 2v; 0: null
+	}{
+		// No accuracy: judged at 86 °C, the 86 °C/15 s row met; the setpoint's reading is the same.
+		{"no-accuracy", "86 °C", "", legalJSON{true, 2, 86, 15, tMin - 15}, legalJSON{true, 2, 86, 15, tMin - 15}, 15 * 2 * v},
+		// No row at or below 79 °C: −1, reported against the coolest row (80 °C/25 s), no length.
+		{"below-every-row", "79 °C", "", legalJSON{false, -1, 80, 25, tMin - 25}, legalJSON{false, -1, 80, 25, tMin - 25}, 0},
+		// 80.2 °C less 0.5 K: none at 79.7 °C, while at the setpoint the 80 °C row applies (and fails).
+		{"row-only-at-setpoint", "80.2 °C", "  sensor_accuracy: 0.5 °C\n", legalJSON{false, -1, 80, 25, tMin - 25},
+			legalJSON{false, 0, 80, 25, tMin - 25}, 0},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			r, _ := judged(t, write(c.name, c.setpoint, c.accuracy))
+			h := r.HoldingTube
+			for _, g := range []struct {
+				what      string
+				got, want *legalJSON
+			}{{"legal", h.Legal, &c.judged}, {"legal_at_setpoint", h.LegalAtSetpoint, &c.atSet}} {
+				if g.got == nil {
+					t.Fatalf("%s absent", g.what)
+				}
+				if g.got.Met != g.want.Met || g.got.RowIndex != g.want.RowIndex {
+					t.Errorf("%s: %+v, want %+v", g.what, *g.got, *g.want)
+				}
+				closeTo(t, g.what+" row temperature", g.got.TemperatureC, g.want.TemperatureC, 1e-12)
+				closeTo(t, g.what+" row time", g.got.TimeS, g.want.TimeS, 1e-12)
+				closeTo(t, g.what+" margin", g.got.MarginS, g.want.MarginS, 1e-9)
+			}
+			switch {
+			case c.length == 0 && (h.RequiredLength != nil || h.RequiredLengthSeal != nil):
+				t.Errorf("no row applies, yet required lengths %s, %s", optional(h.RequiredLength), optional(h.RequiredLengthSeal))
+			case c.length > 0 && (h.RequiredLength == nil || h.RequiredLengthSeal == nil):
+				t.Errorf("required lengths %s, %s; want %g m", optional(h.RequiredLength), optional(h.RequiredLengthSeal), c.length)
+			case c.length > 0:
+				closeTo(t, "length needed", *h.RequiredLength, c.length, 1e-9)
+				closeTo(t, "length needed at the seal", *h.RequiredLengthSeal, c.length, 1e-9) // the seal is the worst flow
+			}
+		})
+	}
+}
+
+// optional prints a JSON number that may be null.
+func optional(v *float64) string {
+	if v == nil {
+		return "null"
+	}
+	return strconv.FormatFloat(*v, 'g', 12, 64)
 }
 
 func TestPrintedRiseMeetsTheRow(t *testing.T) {

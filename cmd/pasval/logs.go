@@ -38,7 +38,14 @@ own core, events keep their file, and the summary covers all. The columns are
 found by header name (time, hold_outlet_temperature, flow_rate, forward, or the
 names --columns gives); units come from the header ("flow_rate [gpm]") or from
 --temperature-unit and --flow-unit, and are never assumed. Times are RFC 3339
-clock times or seconds from a start. The method is docs/METHOD.md §13.`,
+clock times or seconds from a start. The method is docs/METHOD.md §13.
+
+With the heating section's temperatures (columns heating_product_in,
+heating_product_out, heating_medium_in, heating_medium_out, and optionally
+heating_medium_flow), it also follows the section's U over clock-aligned
+windows (--window), fits the fouling resistance and forecasts when to clean:
+when the heating medium the section needs reaches the hottest available, or
+the plant file's heating.max_medium_to_product (docs/METHOD.md §17).`,
 		Example: `  pasval logs testdata/demo/htst-milk-si.yaml testdata/demo/runs/htst-milk-si-shift.csv
   pasval logs line2.yaml exports/ --json > review.json
   pasval logs line2.yaml shift.csv --separator ';' --decimal-comma --timezone Europe/Berlin
@@ -76,6 +83,9 @@ func runLogs(opts logsOptions, out, diag io.Writer) error {
 	if opts.json {
 		j := rev.JSON()
 		j.SamplingNote = present.SamplingNote(rev)
+		if j.Heating != nil {
+			j.Heating.ForecastBasis = present.ForecastBasis(rev)
+		}
 		if err := writeJSON(out, j); err != nil {
 			return err
 		}
@@ -149,8 +159,34 @@ func writeRunReview(w io.Writer, rev *assess.RunReview, d present.Display) {
 		fmt.Fprintln(w, "\nDiversion response: each drop of the outlet temperature below the setpoint")
 		tableOf(drops).write(w)
 	}
+	if rev.Heating != nil {
+		writeHeating(w, rev, d)
+	}
 	fmt.Fprint(w, "\n"+wrap(present.SamplingNote(rev), "Note:", 88))
 
 	fmt.Fprintf(w, "\nResult: %s\n", present.RunOverall(rev))
 	fmt.Fprint(w, "\n"+wrap(rev.Caution, "Caution:", 88))
+}
+
+// writeHeating prints the heating section over the runs: U, the fouling and
+// its fits, the forecast of each limit and when to clean (docs/METHOD.md §17).
+func writeHeating(w io.Writer, rev *assess.RunReview, d present.Display) {
+	which := "the run"
+	if len(rev.Heating.Runs) > 1 {
+		which = "the latest run"
+	}
+	fmt.Fprintf(w, "\nHeating section: U and fouling over %s (docs/METHOD.md §17; %s)\n", which, present.TimeBasis(rev))
+	t := newTable("", "")
+	for _, kv := range present.HeatingFacts(rev, d) {
+		t.add(kv[0], kv[1])
+	}
+	for _, kv := range present.HeatingForecast(rev, d) {
+		t.add(kv[0], kv[1])
+	}
+	t.writeBare(w)
+	if len(rev.Heating.Runs) > 1 {
+		fmt.Fprintln(w, "\n  U at the start of each run, in date order (did cleaning restore it?)")
+		tableOf(present.HeatingRuns(rev, d)).write(w)
+	}
+	fmt.Fprint(w, "\n"+wrap(present.CleanBefore(rev, d), "Forecast:", 88))
 }

@@ -250,20 +250,36 @@ func TestLogsSameRunOtherForms(t *testing.T) {
 	}
 	want, wantCode := logsJSON(t, demoPlant, demoRun)
 	dir := t.TempDir()
-	rewrite := func(name, header, sep string, f func(ts string, tc, qlh float64, fwd string) []string) string {
+	// The heating section's four temperatures go through temp, like the
+	// holding-tube outlet's; an empty cell stays empty.
+	rewrite := func(name, header, sep string, f func(ts string, tc, qlh float64, fwd string) []string, temp func(float64) string) string {
 		var b bytes.Buffer
 		b.WriteString(header + "\n")
 		for _, line := range strings.Split(strings.TrimSpace(string(plain)), "\n")[1:] {
 			p := strings.Split(line, ",")
 			tc, _ := strconv.ParseFloat(p[1], 64)
 			q, _ := strconv.ParseFloat(p[2], 64)
-			b.WriteString(strings.Join(f(p[0], tc, q, p[3]), sep) + "\n")
+			cells := f(p[0], tc, q, p[3])
+			for _, h := range p[4:] {
+				if v, err := strconv.ParseFloat(h, 64); err == nil {
+					h = temp(v)
+				}
+				cells = append(cells, h)
+			}
+			b.WriteString(strings.Join(cells, sep) + "\n")
 		}
 		path := filepath.Join(dir, name)
 		writeFile(t, path, b.String())
 		return path
 	}
 	ff := func(v float64, prec int) string { return strconv.FormatFloat(v, 'f', prec, 64) }
+	heating := func(sep, unit string) string {
+		var h []string
+		for _, k := range []string{"heating_product_in", "heating_product_out", "heating_medium_in", "heating_medium_out"} {
+			h = append(h, k+unit)
+		}
+		return sep + strings.Join(h, sep)
+	}
 	var gz bytes.Buffer
 	zw := gzip.NewWriter(&gz)
 	zw.Write(plain)
@@ -277,16 +293,17 @@ func TestLogsSameRunOtherForms(t *testing.T) {
 	}{
 		// T·9/5 + 32 is exact in decimal at 0.01 °C → 0.018 °F; 1 gpm =
 		// 3.785411784 L/min (NIST SP 811); 12 decimals keep the flow to 1e-13.
-		{"°F and gpm", []string{rewrite("us.csv", "time,hold_outlet_temperature [°F],flow_rate [gpm],forward", ",", func(ts string, tc, q float64, fwd string) []string {
+		{"°F and gpm", []string{rewrite("us.csv", "time,hold_outlet_temperature [°F],flow_rate [gpm],forward"+heating(",", " [°F]"), ",", func(ts string, tc, q float64, fwd string) []string {
 			return []string{ts, ff(tc*9/5+32, 4), ff(q/60/3.785411784, 12), fwd}
-		})}},
-		{"';' and decimal commas", []string{rewrite("eu.csv", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward", ";", func(ts string, tc, q float64, fwd string) []string {
+		}, func(c float64) string { return ff(c*9/5+32, 4) })}},
+		{"';' and decimal commas", []string{rewrite("eu.csv", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward"+heating(";", " [°C]"), ";", func(ts string, tc, q float64, fwd string) []string {
 			return []string{ts, strings.ReplaceAll(ff(tc, 2), ".", ","), strings.ReplaceAll(ff(q, 1), ".", ","), fwd}
-		}), "--decimal-comma"}},
+		}, func(c float64) string { return strings.ReplaceAll(ff(c, 2), ".", ",") }), "--decimal-comma"}},
 		{"gzip-compressed", []string{gzPath}},
-		{"renamed columns", []string{rewrite("renamed.csv", "Timestamp;TT-301;FT-101;FDV", ";", func(ts string, tc, q float64, fwd string) []string {
+		{"renamed columns", []string{rewrite("renamed.csv", "Timestamp;TT-301;FT-101;FDV;TT-201;TT-202;TT-203;TT-204", ";", func(ts string, tc, q float64, fwd string) []string {
 			return []string{strings.Replace(ts, "T", " ", 1), ff(tc, 2), ff(q/1000, 4), map[string]string{"1": "Forward", "0": "Divert"}[fwd]}
-		}), "--columns", "time=Timestamp,hold_outlet_temperature=TT-301,flow_rate=FT-101,forward=FDV",
+		}, func(c float64) string { return ff(c, 2) }), "--columns", "time=Timestamp,hold_outlet_temperature=TT-301,flow_rate=FT-101,forward=FDV," +
+			"heating_product_in=TT-201,heating_product_out=TT-202,heating_medium_in=TT-203,heating_medium_out=TT-204",
 			"--temperature-unit", "°C", "--flow-unit", "m3/h", "--separator", ";"}},
 	}
 	for _, c := range cases {
@@ -312,6 +329,11 @@ var badRuns = map[string]struct{ pos, msg string }{
 	"time-backwards.csv":   {"3:1", "time goes backwards"},
 	// At the first ',' of a row in a ';' file.
 	"mixed-separators.csv": {"3:21", "mixed separators"},
+	// The heating section's columns (docs/METHOD.md §17.1): a unit is never
+	// assumed; all four temperatures or none; numbers as in any column.
+	"heating-no-unit.csv": {"1:60", `heating_product_in: no unit for temperature: write it in the header, as "heating_product_in [°C]"`},
+	"heating-partial.csv": {"1:1", "heating_medium_out: the header has heating_product_in, heating_product_out, heating_medium_in but no heating_medium_out"},
+	"heating-text.csv":    {"3:49", `heating_medium_in: expected a number, found "hot"`},
 }
 
 // TestLogsBadFiles: each malformed file is refused, exit 2, naming the
@@ -354,6 +376,9 @@ func TestLogsFlags(t *testing.T) {
 		{[]string{"--skip-bad-rows", "-1"}, "--skip-bad-rows: the number of bad rows to skip must be 0 or more"},
 		{[]string{"--timezone", "Mars/Olympus_Mons"}, `--timezone "Mars/Olympus_Mons" is not a time zone name`},
 		{[]string{"--gap", "-3"}, "--gap must be a number of seconds above 0"},
+		{[]string{"--window", "-60"}, "--window must be a number of seconds above 0 and at most 86400"},
+		{[]string{"--window", "1e6"}, "--window must be a number of seconds above 0 and at most 86400"},
+		{[]string{"--columns", "heating_medium=TT-201"}, `--columns: no column is called "heating_medium"`},
 		{[]string{"--units", "metric"}, "--units must be si or us"},
 	}
 	for _, c := range cases {
@@ -469,7 +494,7 @@ func TestLogsSkipBadRows(t *testing.T) {
 	}
 	lines := strings.SplitAfter(string(plain), "\n")
 	// Two garbled rows after lines 1000 and 3000 (file lines 1001 and 3002).
-	text := strings.Join(lines[:1000], "") + "2026-03-14T06:16:39Z,73.0#,10000.0,1\n" +
+	text := strings.Join(lines[:1000], "") + "2026-03-14T06:16:39Z,73.0#,10000.0,1,,,,\n" +
 		strings.Join(lines[1000:3000], "") + "2026-03-14T06:49:58Z,73.00,10000.0\n" + strings.Join(lines[3000:], "")
 	path := filepath.Join(t.TempDir(), "garbled.csv")
 	writeFile(t, path, text)
@@ -525,7 +550,16 @@ func TestLogsTimezone(t *testing.T) {
 	if ss["start"] != "2026-03-14T07:00:00+01:00" || ss["end"] != "2026-03-14T08:59:59+01:00" {
 		t.Errorf("start %v end %v, want 07:00:00+01:00 and 08:59:59+01:00", ss["start"], ss["end"])
 	}
-	sameJSON(t, "", utc, berlin, 1e-9, map[string]bool{"file": true, "files": true, "start": true, "end": true})
+	sameJSON(t, "", utc, berlin, 1e-9, map[string]bool{"file": true, "files": true, "start": true, "end": true,
+		"forecast_clean_before": true, "at": true, "clean_before": true})
+	// The heating section's forecast is the same instant, written in Berlin time.
+	for _, k := range [][]string{{"heating", "forecast_clean_before"}} {
+		a, errA := time.Parse(time.RFC3339Nano, jsonAt(utc, k...).(string))
+		b, errB := time.Parse(time.RFC3339Nano, jsonAt(berlin, k...).(string))
+		if errA != nil || errB != nil || !a.Equal(b) || !strings.HasSuffix(jsonAt(berlin, k...).(string), "+01:00") {
+			t.Errorf("%v: %v in UTC, %v in Berlin", k, jsonAt(utc, k...), jsonAt(berlin, k...))
+		}
+	}
 	var out bytes.Buffer
 	run([]string{"logs", demoPlant, path, "--timezone", "Europe/Berlin"}, &out, &bytes.Buffer{})
 	if !strings.Contains(out.String(), "Summary (times Europe/Berlin)") || !strings.Contains(out.String(), "2026-03-14 07:25:00  07:25:20") {

@@ -22,7 +22,7 @@ import (
 // writes it, 'verify REVIEW.pdf --log RUN.csv …' re-renders it.
 
 // runFlagNames are the flags of runFlags, which report takes only with --log.
-var runFlagNames = []string{"columns", "separator", "decimal-comma", "temperature-unit", "flow-unit", "timezone", "skip-bad-rows", "gap", "quiet"}
+var runFlagNames = []string{"columns", "separator", "decimal-comma", "temperature-unit", "flow-unit", "timezone", "skip-bad-rows", "gap", "window", "quiet"}
 
 // refuseRunFlags makes a run flag without --log a usage error.
 func refuseRunFlags(cmd *cobra.Command, logs []string) error {
@@ -173,7 +173,7 @@ func verifyRunReview(st *report.Stored, pdf []byte, logs []string, out, diag io.
 	}
 	again, err := assess.NewRunReview(p, rev.Model, files, rev.Location)
 	if err != nil {
-		return false, usagef("%v", err)
+		return false, reviewError(err)
 	}
 	doc := record.BuildRunReview(again, record.RunOptions{Date: st.Date, PlantName: plant.Name, Options: st.Options, Reading: f.reading()})
 	cover := doc.Cover

@@ -16,10 +16,12 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"pasval/fouling"
 	"pasval/internal/assess"
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/runlog"
+	"pasval/internal/units"
 	"pasval/runs"
 )
 
@@ -34,12 +36,48 @@ type runFlags struct {
 	timezone        string
 	skipBadRows     int
 	gap             float64 // s; 0: 5 × the median interval
+	window          float64 // s, the heating section's windows; 0: defaultWindow
 	quiet           bool
 }
 
+// defaultWindow is the width of the heating section's windows unless
+// --window says, s (docs/METHOD.md §17.1).
+const defaultWindow = 60.0
+
+// windowWidth is the heating section's window width, s.
+func (f runFlags) windowWidth() float64 {
+	if f.window == 0 {
+		return defaultWindow
+	}
+	return f.window
+}
+
+// The heating section's optional columns (docs/METHOD.md §17.1), in the
+// order of their values in runlog.Record.Optional: the four temperatures
+// first, then the medium flow.
+const (
+	keyHeatingProductIn  = "heating_product_in"
+	keyHeatingProductOut = "heating_product_out"
+	keyHeatingMediumIn   = "heating_medium_in"
+	keyHeatingMediumOut  = "heating_medium_out"
+	keyHeatingMediumFlow = "heating_medium_flow"
+)
+
+var heatingColumns = []runlog.Column{
+	{Key: keyHeatingProductIn, Role: runlog.RoleNumber, Kinds: []units.Kind{units.Temperature}},
+	{Key: keyHeatingProductOut, Role: runlog.RoleNumber, Kinds: []units.Kind{units.Temperature}},
+	{Key: keyHeatingMediumIn, Role: runlog.RoleNumber, Kinds: []units.Kind{units.Temperature}},
+	{Key: keyHeatingMediumOut, Role: runlog.RoleNumber, Kinds: []units.Kind{units.Temperature}},
+	{Key: keyHeatingMediumFlow, Role: runlog.RoleNumber, Kinds: []units.Kind{units.VolumeFlow, units.MassFlow}},
+}
+
+// heatingTemperatures is how many of heatingColumns are temperatures.
+const heatingTemperatures = 4
+
 func (f *runFlags) register(cmd *cobra.Command) {
 	fl := cmd.Flags()
-	fl.StringToStringVar(&f.columns, "columns", nil, "the file's header names for the columns, key=Header,… (keys: time, hold_outlet_temperature, flow_rate, forward)")
+	fl.StringToStringVar(&f.columns, "columns", nil, "the file's header names for the columns, key=Header,… (keys: time, hold_outlet_temperature, flow_rate, forward; "+
+		"optional: heating_product_in, heating_product_out, heating_medium_in, heating_medium_out, heating_medium_flow)")
 	fl.StringVar(&f.separator, "separator", "", "the separator between columns: ',', ';' or tab (default: the one the header uses)")
 	fl.BoolVar(&f.decimalComma, "decimal-comma", false, "numbers are written with a decimal comma (72,5); not with the ',' separator")
 	fl.StringVar(&f.temperatureUnit, "temperature-unit", "", "unit of a temperature column whose header gives none (°C, °F, K)")
@@ -47,6 +85,7 @@ func (f *runFlags) register(cmd *cobra.Command) {
 	fl.StringVar(&f.timezone, "timezone", "", "time zone of clock times written without an offset, and of the times shown (IANA name such as Europe/Berlin; default UTC)")
 	fl.IntVar(&f.skipBadRows, "skip-bad-rows", 0, "skip up to N malformed rows (counted, the first listed) instead of stopping at the first")
 	fl.Float64Var(&f.gap, "gap", 0, "longest interval between samples, s, that is not a recording gap (default: 5 × the median interval)")
+	fl.Float64Var(&f.window, "window", defaultWindow, "width of the clock-aligned windows over which the heating section's U is computed, s (with the heating columns)")
 	fl.BoolVar(&f.quiet, "quiet", false, "no progress bar")
 }
 
@@ -85,6 +124,9 @@ func (f runFlags) encode() string {
 	if f.gap != 0 {
 		v.Set("gap", strconv.FormatFloat(f.gap, 'g', -1, 64))
 	}
+	if w := f.windowWidth(); w != defaultWindow {
+		v.Set("window", strconv.FormatFloat(w, 'g', -1, 64))
+	}
 	return v.Encode()
 }
 
@@ -113,6 +155,11 @@ func decodeRunFlags(s string) (runFlags, error) {
 	}
 	if s := v.Get("gap"); s != "" {
 		if f.gap, err = strconv.ParseFloat(s, 64); err != nil {
+			return runFlags{}, err
+		}
+	}
+	if s := v.Get("window"); s != "" {
+		if f.window, err = strconv.ParseFloat(s, 64); err != nil {
 			return runFlags{}, err
 		}
 	}
@@ -157,7 +204,11 @@ func (f runFlags) reading() [][2]string {
 	if f.gap > 0 {
 		gap = strconv.FormatFloat(f.gap, 'g', -1, 64) + " s, as given"
 	}
-	return append(kv, [2]string{"gap limit", gap})
+	kv = append(kv, [2]string{"gap limit", gap})
+	if w := f.windowWidth(); w != defaultWindow {
+		kv = append(kv, [2]string{"heating windows", strconv.FormatFloat(w, 'g', -1, 64) + " s, as given"})
+	}
+	return kv
 }
 
 // optionFlags names the command-line flag of each runlog option.
@@ -174,7 +225,7 @@ var optionFlags = map[string]string{
 // and the time zone; every refusal names its flag (exit 2).
 func (f runFlags) readerOptions() (runlog.Options, *time.Location, error) {
 	opt := runlog.Options{Columns: f.columns, DecimalComma: f.decimalComma, TemperatureUnit: f.temperatureUnit,
-		FlowUnit: f.flowUnit, SkipBadRows: f.skipBadRows, Hash: true}
+		FlowUnit: f.flowUnit, SkipBadRows: f.skipBadRows, Hash: true, Optional: heatingColumns}
 	switch f.separator {
 	case "":
 	case ",", ";":
@@ -186,6 +237,9 @@ func (f runFlags) readerOptions() (runlog.Options, *time.Location, error) {
 	}
 	if !(f.gap >= 0) || f.gap > 1e9 {
 		return opt, nil, usagef("--gap must be a number of seconds above 0 (0 or absent: 5 × the median interval), not %g", f.gap)
+	}
+	if !(f.window >= 0) || f.window > 86400 {
+		return opt, nil, usagef("--window must be a number of seconds above 0 and at most 86400 (a day), not %g", f.window)
 	}
 	loc := time.UTC
 	if f.timezone != "" {
@@ -283,7 +337,7 @@ func reviewRunsTraced(p *plantfile.Plant, args []string, f runFlags, diag io.Wri
 	prog := newProgress(paths, f.quiet, diag)
 	files, errs := runlog.Each(paths, opt, 0, func(r *runlog.Reader) (assess.RunFile, error) {
 		prog.add(r)
-		return judgeRun(r, rm, runs.Options{GapThreshold: f.gap, Trace: trace})
+		return judgeRun(r, rm, runs.Options{GapThreshold: f.gap, Trace: trace}, f.windowWidth())
 	})
 	prog.done()
 	var all inputerr.List
@@ -302,20 +356,40 @@ func reviewRunsTraced(p *plantfile.Plant, args []string, f runFlags, diag io.Wri
 	}
 	rev, err := assess.NewRunReview(p, rm, files, loc)
 	if err != nil {
-		return nil, usagef("%v", err)
+		return nil, reviewError(err)
 	}
 	return rev, nil
 }
 
-// judgeRun feeds one file's samples to the engine.
-func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options) (assess.RunFile, error) {
+// reviewError is NewRunReview's error for the command line: a positioned
+// one as it is, files that mix time formats a usage error.
+func reviewError(err error) error {
+	var list inputerr.List
+	if errors.As(err, &list) {
+		return err
+	}
+	return usagef("%v", err)
+}
+
+// judgeRun feeds one file's samples to the engine, and with the heating
+// section's columns gathers them into windows of width s.
+func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options, width float64) (assess.RunFile, error) {
 	e, err := runs.NewEngine(rm.Model, opt)
 	if err != nil {
 		return assess.RunFile{}, err // NewRunModel has checked the criteria
 	}
+	heat, err := heatingWindower(r, width)
+	if err != nil {
+		return assess.RunFile{}, err
+	}
 	mass := r.FlowIsMass()
 	for r.Next() {
 		rec := r.Record()
+		if heat != nil {
+			o := rec.Optional
+			heat.Add(fouling.Sample{Time: rec.Time, ProductMassFlow: rm.ProductMassFlow(rec.Flow, mass), Forward: rec.Forward,
+				ProductIn: o[0], ProductOut: o[1], MediumIn: o[2], MediumOut: o[3], MediumFlow: o[4]})
+		}
 		s := runs.Sample{Time: rec.Time, Temperature: rec.Temperature, Flow: rm.TubeFlow(rec.Flow, mass), Forward: rec.Forward}
 		if err := e.Add(s); err != nil {
 			var se *runs.SampleError
@@ -330,6 +404,36 @@ func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options) (assess.Ru
 		return assess.RunFile{}, err
 	}
 	bad, listed := r.Skipped()
-	return assess.RunFile{Path: r.Name(), SHA256: hex.EncodeToString(r.SHA256()), Rows: r.Rows(), BadRows: bad, Listed: listed,
-		Clock: r.ClockTimes(), Result: e.Finish()}, nil
+	f := assess.RunFile{Path: r.Name(), SHA256: hex.EncodeToString(r.SHA256()), Rows: r.Rows(), BadRows: bad, Listed: listed,
+		Clock: r.ClockTimes(), Result: e.Finish()}
+	if heat != nil {
+		f.Heating = &assess.HeatingWindows{Windows: heat.Windows(), Width: heat.Width(), MediumMass: heat.MediumMass()}
+	}
+	return f, nil
+}
+
+// heatingWindower is the windower of a file that has the heating section's
+// four temperature columns, nil for a file that has none of them (nothing
+// about the heating section runs); a file with some but not all is refused
+// at its header.
+func heatingWindower(r *runlog.Reader, width float64) (*fouling.Windower, error) {
+	var have, missing []string
+	for i, c := range heatingColumns[:heatingTemperatures] {
+		if r.HasOptional(i) {
+			have = append(have, c.Key)
+		} else {
+			missing = append(missing, c.Key)
+		}
+	}
+	switch {
+	case len(have) == 0:
+		return nil, nil
+	case len(missing) > 0:
+		return nil, inputerr.List{inputerr.At(inputerr.Pos{File: r.Name(), Line: r.HeaderLine(), Column: 1}, missing[0],
+			"the header has %s but no %s: the heating section's U needs all four of its temperatures "+
+				"(name the file's columns for them with the columns option, or leave the heating columns out)",
+			strings.Join(have, ", "), strings.Join(missing, ", "))}
+	}
+	flow := r.Columns()[len(runlog.Standard)+heatingTemperatures]
+	return fouling.NewWindower(width, flow.Index >= 0 && flow.Kind == units.MassFlow), nil
 }

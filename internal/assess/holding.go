@@ -11,10 +11,17 @@ import (
 	"pasval/lethality"
 )
 
-// LegalOut is the judgement against the user's legal table.
+// LegalOut is the judgement against the user's legal table (docs/METHOD.md
+// §10.1). RowIndex is the 0-based index in legal_minimums of the row the
+// verdict is reported against (the hottest row met, else the hottest row at
+// or below the temperature judged), or −1 when no row is at or below that
+// temperature: the table is then not met, and TemperatureC, TimeS and the
+// margins are the coolest row's, against which the failing holding-time
+// check is reported (the index stays −1 so that it never reads as a row that
+// applies).
 type LegalOut struct {
 	Met          bool    `json:"met"`
-	RowIndex     int     `json:"row_index"` // in legal_minimums; −1 when no row is at or below the setpoint
+	RowIndex     int     `json:"row_index"` // in legal_minimums; −1 when no row is at or below the temperature judged
 	TemperatureC float64 `json:"row_temperature_C"`
 	TimeS        float64 `json:"row_time_s"`
 	MarginS      float64 `json:"margin_s"`
@@ -37,40 +44,48 @@ type RowOut struct {
 // (docs/METHOD.md §7.7), where the holding-time and log-reduction checks are
 // judged, at judged_temperature_C (docs/METHOD.md §9.4).
 type HoldingTube struct {
-	InnerDiameterM          float64  `json:"inner_diameter_m"`
-	OuterDiameterM          float64  `json:"outer_diameter_m,omitempty"`
-	LengthM                 float64  `json:"length_m"`
-	VolumeL                 float64  `json:"volume_L"`
-	MaxFlowM3s              float64  `json:"max_flow_m3_s"`
-	DensityKgM3             float64  `json:"density_at_hold_kg_m3"`
-	ViscosityPas            float64  `json:"viscosity_at_hold_Pa_s,omitempty"`
-	FlowIndex               float64  `json:"flow_index"`
-	MeanVelocity            float64  `json:"mean_velocity_m_s"`
-	Reynolds                float64  `json:"reynolds"`
-	Regime                  string   `json:"regime"`
-	FastestToMean           float64  `json:"fastest_to_mean"`
-	FastestToMeanOverridden bool     `json:"fastest_to_mean_overridden"`
-	MinResidenceS           float64  `json:"min_residence_s"`
-	MeanResidenceS          float64  `json:"mean_residence_s"`
-	WorstFlowM3s            float64  `json:"worst_flow_m3_s"`
-	WorstFlowRegime         string   `json:"worst_flow_regime"`
-	WorstFlowAtSeal         bool     `json:"worst_flow_at_seal"`
-	WorstReynolds           float64  `json:"worst_flow_reynolds"`
-	WorstFastestToMean      float64  `json:"worst_flow_fastest_to_mean"`
-	WorstMinResidenceS      float64  `json:"worst_min_residence_s"`
-	SetpointC               float64  `json:"setpoint_C"`
-	SensorAccuracyK         float64  `json:"sensor_accuracy_K"`
-	JudgedTemperatureC      float64  `json:"judged_temperature_C"`
-	CreditHeatLoss          bool     `json:"credit_heat_loss"`
-	RequiredLengthM         float64  `json:"required_length_m"` // for the applicable legal row, at the worst flow; 0 without one
-	InletTemperatureC       float64  `json:"inlet_temperature_C"`
-	HeatingOutletC          float64  `json:"heating_outlet_C"` // tube inlet at the normal rate
-	OutletTemperatureC      float64  `json:"outlet_temperature_C"`
-	Slope                   *float64 `json:"slope"`
-	MinSlope                float64  `json:"min_slope"`
-	PasteurizationUnits     *float64 `json:"pasteurization_units,omitempty"`
+	InnerDiameterM          float64 `json:"inner_diameter_m"`
+	OuterDiameterM          float64 `json:"outer_diameter_m,omitempty"`
+	LengthM                 float64 `json:"length_m"`
+	VolumeL                 float64 `json:"volume_L"`
+	MaxFlowM3s              float64 `json:"max_flow_m3_s"`
+	DensityKgM3             float64 `json:"density_at_hold_kg_m3"`
+	ViscosityPas            float64 `json:"viscosity_at_hold_Pa_s,omitempty"`
+	FlowIndex               float64 `json:"flow_index"`
+	MeanVelocity            float64 `json:"mean_velocity_m_s"`
+	Reynolds                float64 `json:"reynolds"`
+	Regime                  string  `json:"regime"`
+	FastestToMean           float64 `json:"fastest_to_mean"`
+	FastestToMeanOverridden bool    `json:"fastest_to_mean_overridden"`
+	MinResidenceS           float64 `json:"min_residence_s"`
+	MeanResidenceS          float64 `json:"mean_residence_s"`
+	WorstFlowM3s            float64 `json:"worst_flow_m3_s"`
+	WorstFlowRegime         string  `json:"worst_flow_regime"`
+	WorstFlowAtSeal         bool    `json:"worst_flow_at_seal"`
+	WorstReynolds           float64 `json:"worst_flow_reynolds"`
+	WorstFastestToMean      float64 `json:"worst_flow_fastest_to_mean"`
+	WorstMinResidenceS      float64 `json:"worst_min_residence_s"`
+	SetpointC               float64 `json:"setpoint_C"`
+	SensorAccuracyK         float64 `json:"sensor_accuracy_K"`
+	JudgedTemperatureC      float64 `json:"judged_temperature_C"`
+	CreditHeatLoss          bool    `json:"credit_heat_loss"`
+	// RequiredLengthM is L_req = t_row·r·v for the applicable legal row (the
+	// hottest at or below the judged temperature) at the worst flow, and
+	// RequiredLengthAtSealM the same row's at the sealed maximum, shown
+	// beside it (docs/METHOD.md §10.1); both null when no row applies or
+	// there are no rows.
+	RequiredLengthM       *float64 `json:"required_length_m"`
+	RequiredLengthAtSealM *float64 `json:"required_length_at_seal_m"`
+	InletTemperatureC     float64  `json:"inlet_temperature_C"`
+	HeatingOutletC        float64  `json:"heating_outlet_C"` // tube inlet at the normal rate
+	OutletTemperatureC    float64  `json:"outlet_temperature_C"`
+	Slope                 *float64 `json:"slope"`
+	MinSlope              float64  `json:"min_slope"`
+	PasteurizationUnits   *float64 `json:"pasteurization_units,omitempty"`
 	// Legal is judged at the judged temperature; LegalAtSetpoint is the same
-	// table at the nominal setpoint (both at the worst flow).
+	// table read at the nominal setpoint (both at the worst flow), shown beside
+	// it whether or not a sensor accuracy is entered (without one they are
+	// equal). Both are absent without legal rows.
 	Legal           *LegalOut  `json:"legal,omitempty"`
 	LegalAtSetpoint *LegalOut  `json:"legal_at_setpoint,omitempty"`
 	Rows            []RowOut   `json:"rows"`
@@ -177,15 +192,17 @@ func runHolding(p *plantfile.Plant, res *Result) (float64, error) {
 		c, _ := ev.Check(HoldingTime)
 		out.Legal = legalOut(*v, c)
 		if v.RowIndex >= 0 {
-			out.RequiredLengthM = worst.RequiredLength(v.Applicable.Time)
+			l, s := worst.RequiredLength(v.Applicable.Time), hyd.RequiredLength(v.Applicable.Time)
+			out.RequiredLengthM, out.RequiredLengthAtSealM = &l, &s
 		}
-		if in.SensorAccuracy > 0 {
-			nc := NewCheck(HoldingTime, c.Required, c.Actual)
-			if ev.LegalNominal.RowIndex >= 0 {
-				nc = NewCheck(HoldingTime, ev.LegalNominal.Row.Time, c.Actual)
-			}
-			out.LegalAtSetpoint = legalOut(*ev.LegalNominal, nc)
+		// With no row at or below the setpoint there is none at or below the
+		// judged temperature either: c is then reported against the coolest
+		// row, and so is the setpoint's reading.
+		nc := c
+		if ev.LegalNominal.RowIndex >= 0 {
+			nc = NewCheck(HoldingTime, ev.LegalNominal.Row.Time, c.Actual)
 		}
+		out.LegalAtSetpoint = legalOut(*ev.LegalNominal, nc)
 	}
 	for i, org := range in.Organisms {
 		o := ev.Organisms[i]

@@ -159,11 +159,12 @@ type HoldingEval struct {
 // shown beside it.
 type OrganismEval struct {
 	LogReduction float64 // judged: at the judged temperature and the worst flow (with the credit only when opted in)
-	AtSetpoint   float64 // the same at the nominal setpoint
-	AtSeal       float64 // the same at the sealed maximum
+	AtSetpoint   float64 // the same at the nominal setpoint (same rule: with the credit only when opted in)
+	AtSeal       float64 // the same at the sealed maximum (likewise)
 	Isothermal   float64 // tube isothermal at the judged temperature, worst flow
-	// Credit is the log reduction with the heat-loss profile (outlet at the
-	// judged temperature), the lower of the candidate flows; NaN without heat loss.
+	// Credit is the log reduction with the heat-loss profile at the sealed
+	// maximum (outlet at the judged temperature), the lower of the candidate
+	// flows (docs/METHOD.md §9.4); NaN without heat loss.
 	Credit    float64
 	FlowM3s   float64 // the flow at which the judged value is found
 	EquivTime float64 // s at the organism's D_temperature, judged case
@@ -173,36 +174,49 @@ type OrganismEval struct {
 
 // passage is the fastest particle's way through the tube at one candidate flow.
 type passage struct {
-	flow, massFlow, uMax float64
-	atSeal               bool
+	flow, uMax float64
+	atSeal     bool
 }
 
 // passages are the candidate flows of docs/METHOD.md §7.7: the seal, then the
 // worst flow when it lies below the seal (n of them; an array, so that the
 // judged core does not allocate).
-func (ev *HoldingEval) passages(in *HoldingInputs) (ps [2]passage, n int) {
-	ps[0] = passage{flow: ev.Flow.Volumetric, massFlow: in.MaxMassFlow, uMax: ev.Hyd.FastestToMean * ev.Hyd.MeanVelocity, atSeal: true}
+func (ev *HoldingEval) passages() (ps [2]passage, n int) {
+	ps[0] = passage{flow: ev.Flow.Volumetric, uMax: ev.Hyd.FastestToMean * ev.Hyd.MeanVelocity, atSeal: true}
 	if w := ev.Worst; !w.AtSeal {
-		ps[1] = passage{flow: w.Volumetric, massFlow: w.Volumetric * in.Density, uMax: w.FastestToMean * w.MeanVelocity}
+		ps[1] = passage{flow: w.Volumetric, uMax: w.FastestToMean * w.MeanVelocity}
 		return ps, 2
 	}
 	return ps, 1
 }
 
+// lethalProfile is the temperature profile a log reduction is computed with,
+// outlet at outlet °C: the tube isothermal, or with the heat-loss credit the
+// profile of docs/METHOD.md §8 at ṁ(max_rate) whatever the flow the particle
+// moves at (docs/METHOD.md §9.4). With the outlet held, a smaller mass flow
+// cools faster and so needs a hotter inlet: every flow up to the seal has a
+// profile at least as hot at every point, and the seal's is the flattest, the
+// least credit.
+func (in *HoldingInputs) lethalProfile(outlet float64, credit bool) lethality.Profile {
+	if !credit {
+		return lethality.Isothermal(outlet, in.Length)
+	}
+	return in.profile(outlet, in.MaxMassFlow)
+}
+
 // lowest is the lowest log reduction over the passages with the outlet at
-// outlet °C: isothermal, or with the heat-loss profile when credit.
-func (in *HoldingInputs) lowest(outlet float64, ps []passage, credit bool, org lethality.Organism) (float64, passage, lethality.Profile) {
-	best, bp, bprof := math.Inf(1), ps[0], lethality.Profile{}
+// outlet °C: isothermal, or with the heat-loss credit when credit (one
+// profile, lethalProfile, for every passage; the fastest particle at each
+// passage's speed).
+func (in *HoldingInputs) lowest(outlet float64, ps []passage, credit bool, org lethality.Organism) (float64, passage) {
+	prof := in.lethalProfile(outlet, credit)
+	best, bp := math.Inf(1), ps[0]
 	for _, p := range ps {
-		prof := lethality.Isothermal(outlet, in.Length)
-		if credit {
-			prof = in.profile(outlet, p.massFlow)
-		}
 		if lr := lethality.LogReduction(prof, p.uMax, org); lr < best {
-			best, bp, bprof = lr, p, prof
+			best, bp = lr, p
 		}
 	}
-	return best, bp, bprof
+	return best, bp
 }
 
 // KineticsRange is how far from its D_temperature an organism's kinetics are
@@ -306,13 +320,13 @@ func (ev *HoldingEval) Judge(in *HoldingInputs, t *HoldingTables) error {
 
 // judgeLethality finds each organism's judged log reduction and its check.
 func (ev *HoldingEval) judgeLethality(in *HoldingInputs) {
-	arr, n := ev.passages(in)
+	arr, n := ev.passages()
 	ps := arr[:n]
 	credit := in.CreditHeatLoss && in.HeatLoss
 	ev.Organisms = ev.Organisms[:0]
 	for i, org := range in.Organisms {
 		o := OrganismEval{}
-		o.LogReduction, o.at, _ = in.lowest(ev.JudgedC, ps, credit, org)
+		o.LogReduction, o.at = in.lowest(ev.JudgedC, ps, credit, org)
 		o.FlowM3s = o.at.flow
 		ev.Organisms = append(ev.Organisms, o)
 		if in.Judged[i] {
@@ -346,21 +360,20 @@ func (ev *HoldingEval) report(in *HoldingInputs) {
 	if !in.RiseGiven {
 		ev.Warnings = append(ev.Warnings, Warning{Code: WarnNoRise, Field: "holding_tube.rise"})
 	}
-	arr, n := ev.passages(in)
+	arr, n := ev.passages()
 	ps := arr[:n]
 	credit := in.CreditHeatLoss && in.HeatLoss
+	prof := in.lethalProfile(ev.JudgedC, credit) // the judged case's
 	for i, org := range in.Organisms {
 		o := &ev.Organisms[i]
-		o.AtSetpoint, _, _ = in.lowest(in.Setpoint, ps, credit, org)
-		o.AtSeal, _, _ = in.lowest(ev.JudgedC, ps[:1], credit, org)
-		o.Isothermal, _, _ = in.lowest(ev.JudgedC, ps, false, org)
+		// Beside the judged value, under its rule (isothermal, or with the
+		// credit when opted in): at the setpoint, and at the seal's flow.
+		o.AtSetpoint, _ = in.lowest(in.Setpoint, ps, credit, org)
+		o.AtSeal, _ = in.lowest(ev.JudgedC, ps[:1], credit, org)
+		o.Isothermal, _ = in.lowest(ev.JudgedC, ps, false, org)
 		o.Credit = math.NaN()
 		if in.HeatLoss {
-			o.Credit, _, _ = in.lowest(ev.JudgedC, ps, true, org)
-		}
-		prof := lethality.Isothermal(ev.JudgedC, in.Length)
-		if credit {
-			prof = in.profile(ev.JudgedC, o.at.massFlow)
+			o.Credit, _ = in.lowest(ev.JudgedC, ps, true, org)
 		}
 		o.EquivTime = lethality.EquivalentTime(prof, o.at.uMax, org.DTemperature, org.Z)
 		o.Along = lethality.Accumulated(prof, o.at.uMax, org, AlongStations)
@@ -387,10 +400,6 @@ func (ev *HoldingEval) report(in *HoldingInputs) {
 	if in.PU {
 		ev.PU = math.Inf(1)
 		for _, p := range ps {
-			prof := lethality.Isothermal(ev.JudgedC, in.Length)
-			if credit {
-				prof = in.profile(ev.JudgedC, p.massFlow)
-			}
 			ev.PU = math.Min(ev.PU, lethality.PasteurizationUnits(prof, p.uMax))
 		}
 	}

@@ -17,14 +17,17 @@ import (
 
 // ReviewJSON is the whole review.
 type ReviewJSON struct {
-	Tool        string        `json:"tool"`
-	Version     string        `json:"version"`
-	Plant       string        `json:"plant"`
-	PlantSHA256 string        `json:"plant_sha256"`
-	Summary     SummaryJSON   `json:"summary"`
-	Events      []EventJSON   `json:"events"`
-	Drops       []DropJSON    `json:"drops"`
-	Files       []RunFileJSON `json:"files"`
+	Tool        string      `json:"tool"`
+	Version     string      `json:"version"`
+	Plant       string      `json:"plant"`
+	PlantSHA256 string      `json:"plant_sha256"`
+	Summary     SummaryJSON `json:"summary"`
+	Events      []EventJSON `json:"events"`
+	Drops       []DropJSON  `json:"drops"`
+	// Heating is the heating section over the runs that have its columns
+	// (docs/METHOD.md §17); absent when none has.
+	Heating *HeatingJSON  `json:"heating,omitempty"`
+	Files   []RunFileJSON `json:"files"`
 	// SamplingNote states the sampling interval's limit on every time of
 	// the review, in words (internal/present fills it, in SI).
 	SamplingNote string `json:"sampling_note"`
@@ -112,6 +115,9 @@ func (r *RunReview) JSON() ReviewJSON {
 	}
 	if s.Rows == 0 {
 		out.Summary.Start, out.Summary.End = nil, nil
+	}
+	if r.Heating != nil {
+		out.Heating = r.heatingJSON()
 	}
 	for _, f := range r.Files {
 		fj := RunFileJSON{Path: f.Path, SHA256: f.SHA256, Rows: f.Rows, BadRows: f.BadRows, Listed: []string{}}

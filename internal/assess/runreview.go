@@ -81,6 +81,15 @@ func (rm RunModel) TubeFlow(q float64, mass bool) float64 {
 	return q * rm.ProductDensity / rm.HoldDensity
 }
 
+// ProductMassFlow is the product's mass flow, kg/s, for a recorded flow q:
+// a volumetric one (m³/s) with the product density, a mass flow as it is.
+func (rm RunModel) ProductMassFlow(q float64, mass bool) float64 {
+	if mass {
+		return q
+	}
+	return q * rm.ProductDensity
+}
+
 // Recorded turns a tube flow or volume (m³/s, m³) into the recorded flow's
 // own volumetric terms (a mass over the product density), the terms every
 // flow and volume of a review is shown in.
@@ -103,6 +112,9 @@ type RunFile struct {
 	// seconds from an origin of the file's own.
 	Clock  bool
 	Result runs.Result
+	// Heating is the run's windows of the heating section's columns
+	// (docs/METHOD.md §17); nil when the file has none.
+	Heating *HeatingWindows
 }
 
 // RunReview is one review of recorded runs against a plant: every file, and
@@ -114,14 +126,19 @@ type RunReview struct {
 	Summary  runs.Summary
 	Location *time.Location // for clock times in output; UTC unless given
 	Clock    bool           // every file has clock times
-	Caution  string
+	// Heating is the heating section over the runs that have its columns
+	// (docs/METHOD.md §17); nil when none has.
+	Heating *HeatingReview
+	Caution string
 }
 
 // ErrMixedTimes is a review whose files do not all write time the same way.
 var ErrMixedTimes = errors.New("the files mix clock times and seconds from a start: review them separately")
 
-// NewRunReview merges the files' summaries into one review; loc is the zone
-// clock times are shown in (nil: UTC).
+// NewRunReview merges the files' summaries into one review, and analyses
+// the heating section of the runs that have its columns; loc is the zone
+// clock times are shown in (nil: UTC). Errors: ErrMixedTimes, and the
+// heating section's (HeatingSection: an inputerr.List).
 func NewRunReview(p *plantfile.Plant, rm RunModel, files []RunFile, loc *time.Location) (*RunReview, error) {
 	if loc == nil {
 		loc = time.UTC
@@ -136,6 +153,11 @@ func NewRunReview(p *plantfile.Plant, rm RunModel, files []RunFile, loc *time.Lo
 		r.Clock = r.Clock && f.Clock
 	}
 	r.Summary = runs.MergeSummaries(sums)
+	h, err := newHeatingReview(p, files, r.Clock)
+	if err != nil {
+		return nil, err
+	}
+	r.Heating = h
 	return r, nil
 }
 

@@ -27,10 +27,10 @@ var SetpointOffsetsUS = []float64{-2 * 5.0 / 9, -1 * 5.0 / 9, 0, 1 * 5.0 / 9, 2 
 // legal table for setpoints offset by offsets (K) from the entered one, each
 // judged as the check judges the entered one: at the setpoint less the
 // sensor accuracy, at the worst flow, isothermal unless the heat-loss credit
-// is taken (then the profile moves with the outlet temperature). The
-// hydraulics (viscosity at the entered setpoint) are held. A row that is not
-// finite (kinetics far from their reference) is refused with the entered
-// values that cause it (finite.go).
+// is taken (then the profile at the sealed maximum, moved with the outlet
+// temperature, docs/METHOD.md §9.4). The hydraulics (viscosity at the entered
+// setpoint) are held. A row that is not finite (kinetics far from their
+// reference) is refused with the entered values that cause it (finite.go).
 func SetpointTable(res *Result, offsets []float64) ([]SetpointRow, error) {
 	rows := setpointTable(res, offsets)
 	where, bad := nonFinite(rows)
@@ -53,7 +53,7 @@ func setpointTable(res *Result, offsets []float64) []SetpointRow {
 		return nil
 	}
 	in, ev := h.Model.Inputs, h.Model.Eval
-	arr, n := ev.passages(&in)
+	arr, n := ev.passages()
 	ps := arr[:n]
 	credit := in.CreditHeatLoss && in.HeatLoss
 	var out []SetpointRow
@@ -62,7 +62,7 @@ func setpointTable(res *Result, offsets []float64) []SetpointRow {
 		tj := sp - in.SensorAccuracy
 		r := SetpointRow{OffsetK: off, SetpointC: sp, JudgedC: tj, LogReductions: []float64{}}
 		for _, o := range in.Organisms {
-			lr, _, _ := in.lowest(tj, ps, credit, o)
+			lr, _ := in.lowest(tj, ps, credit, o)
 			r.LogReductions = append(r.LogReductions, lr)
 		}
 		if len(in.Legal) > 0 {

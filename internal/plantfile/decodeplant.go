@@ -61,7 +61,7 @@ func (d *decoder) decodePlant(p *Plant, top *object) {
 		p.Regeneration = r
 	}
 	if ht := top.sub("heating"); ht != nil {
-		p.Heating = &Heating{Pos: d.pos(ht.node), MediumSide: d.decodeMediumSide(ht)}
+		p.Heating = &Heating{Pos: d.pos(ht.node), MediumSide: d.decodeMediumSide(ht), MaxMediumToProduct: ht.quantity("max_medium_to_product")}
 	}
 	for i, n := range top.list("cooling") {
 		st := d.object(n, fmt.Sprintf("cooling[%d]", i))

@@ -474,5 +474,8 @@ func table() []Field {
 		Field{Path: uncertaintyEntry + ".distribution", Value: KindEnum, Values: []string{"uniform", "normal", "triangular"}, Required: true,
 			Description: "uniform on ±X, normal with σ = X/2 truncated at ±1.5X and at the physical bounds, or triangular on ±X", Example: "uniform"})
 	add(acceptanceFields()...)
+	// The cleaning forecast of a recorded run (docs/METHOD.md §17).
+	add(q("heating.max_medium_to_product", units.TemperatureDifference,
+		"burn-on limit: the largest medium inlet less product outlet of the heating section, a difference; logs forecasts when fouling makes it needed", "6 °C"))
 	return t
 }

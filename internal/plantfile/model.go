@@ -321,7 +321,11 @@ type MediumSide struct {
 // Heating is the heating section.
 type Heating struct {
 	MediumSide
-	Pos inputerr.Pos
+	// MaxMediumToProduct is the burn-on limit on the medium inlet less the
+	// product outlet (a difference, K), optional: the cleaning forecast of
+	// a recorded run (docs/METHOD.md §17.3).
+	MaxMediumToProduct Quantity
+	Pos                inputerr.Pos
 }
 
 // CoolingStage is one cooling stage.

@@ -23,6 +23,7 @@ func Validate(p *Plant) error {
 	}
 	if p.Heating != nil {
 		v.mediumSide("heating", p.Heating.Pos, &p.Heating.MediumSide)
+		v.positive(p.Heating.MaxMediumToProduct, "heating.max_medium_to_product")
 		if p.Heating.Plates.Plates == 0 && p.Heating.MediumInlet.Set && p.Process.HoldSetpoint.Set &&
 			!(p.Heating.MediumInlet.SI > p.Process.HoldSetpoint.SI) {
 			v.add(p.Heating.MediumInlet.Pos, "heating.medium_inlet",

@@ -193,6 +193,25 @@ func TestSmallMarginsShowTheirSign(t *testing.T) {
 	}
 }
 
+func TestSci(t *testing.T) {
+	cases := []struct {
+		v    float64
+		want string
+	}{
+		{2.2076689e-5, "2.21×10⁻⁵"}, // three significant digits, exponent in superscript (by hand)
+		{1.8938e-4, "1.89×10⁻⁴"},
+		{-3.5e-7, "−3.50×10⁻⁷"},
+		{4.2, "4.20"},
+		{1234, "1.23×10³"},
+		{0, "0"},
+	}
+	for _, c := range cases {
+		if got := Sci(c.v); got != c.want {
+			t.Errorf("Sci(%g) = %q, want %q", c.v, got, c.want)
+		}
+	}
+}
+
 func TestFailingCheckShowsNoPositiveMargin(t *testing.T) {
 	// A check can fail while its time or temperature is above the limit:
 	// the holding time when no legal row applies at the judged temperature

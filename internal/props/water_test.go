@@ -73,6 +73,39 @@ func TestWaterAtMediumConditions(t *testing.T) {
 	}
 }
 
+func TestWaterPressureSensitivity(t *testing.T) {
+	// docs/METHOD.md §3.1 (Pressure used) quotes how much one more MPa above
+	// the tool's medium pressure changes liquid water. Computed with Debian's
+	// python3-iapws 1.5.2 at each whole °C from 1 to 120:
+	//   from iapws.iapws97 import _Region1, _PSat_T
+	//   p = 0.101325, or max(p, 1.01·_PSat_T(T)) above 99 °C (MPa)
+	//   a, b = _Region1(T, p), _Region1(T, p + 1)
+	//   ρ: a['v']/b['v'] − 1;  c_p: b['cp']/a['cp'] − 1
+	// Over that range ρ rises 0.044–0.053 % and c_p falls 0.052–0.114 % per
+	// MPa; the cases below are the ends of both ranges.
+	for _, c := range []struct {
+		tempC, rho, cp float64
+	}{
+		{1, 5.045014e-04, -1.142005e-03},   // c_p's largest change
+		{40, 4.405532e-04, -5.884180e-04},  // ρ's smallest
+		{72, 4.513587e-04, -5.212208e-04},  // near c_p's smallest
+		{120, 5.297267e-04, -6.004811e-04}, // ρ's largest (at 1.01·p_s)
+	} {
+		p := MediumPressure(c.tempC)
+		a, err := IF97Region1(c.tempC+273.15, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := IF97Region1(c.tempC+273.15, p+1e6)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rho, cp := b.Density/a.Density-1, b.Cp/a.Cp-1; math.Abs(rho-c.rho) > 1e-4*math.Abs(c.rho) || math.Abs(cp-c.cp) > 1e-4*math.Abs(c.cp) {
+			t.Errorf("%g °C: ρ %+.6e, c_p %+.6e per MPa; want %+.6e, %+.6e", c.tempC, rho, cp, c.rho, c.cp)
+		}
+	}
+}
+
 func TestViscosityIAPWS2008(t *testing.T) {
 	// IAPWS R12-08, Table 4 (verification values without critical enhancement):
 	// 298.15 K, 998 kg/m³: 889.735100 µPa·s; 373.15 K, 1000 kg/m³: 307.883622 µPa·s.

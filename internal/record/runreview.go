@@ -79,6 +79,11 @@ func BuildRunReview(rev *assess.RunReview, opts RunOptions) *report.Document {
 		runSummarySection(rev, d),
 		trendSection(rev, d),
 		eventsSection(rev, d),
+	}
+	if rev.Heating != nil {
+		doc.Sections = append(doc.Sections, heatingSection(rev, d))
+	}
+	doc.Sections = append(doc.Sections,
 		runMethodSection(rev),
 		runCautionSection(rev),
 		report.Section{Heading: "Sign-off", Blocks: []report.Block{
@@ -86,7 +91,7 @@ func BuildRunReview(rev *assess.RunReview, opts RunOptions) *report.Document {
 				"the disposition of the product at risk were reviewed; they do not make this record a regulatory approval."},
 			report.SignOff{Roles: []string{"Reviewed by", "Corrective action approved by"}},
 		}},
-	}
+	)
 	return doc
 }
 
@@ -361,6 +366,13 @@ func runMethodSection(rev *assess.RunReview) report.Section {
 	}
 	if math.IsNaN(rev.Summary.GapThreshold) {
 		items = append(items, "Each file was judged with its own gap limit (5 × its median interval, or as given).")
+	}
+	if rev.Heating != nil {
+		items = append(items, "Heating section (docs/METHOD.md §17): U = q/(A·ΔT_lm) per window from the window's mean temperatures and "+
+			"product flow, A the installed area; R_f = 1/U − 1/U_clean, U_clean from the plate pack at each window's conditions or else the "+
+			"fitted U at the run's start; linear and asymptotic least-squares fits chosen by AIC; the medium inlet required at the normal rate "+
+			"from the same rating as the design check, with U_service = 1/(1/U_clean + R_f(t)); its uncertainty by the delta method, and the "+
+			"time to clean 1.645 σ before the central forecast.")
 	}
 	return report.Section{Heading: "Method", Blocks: []report.Block{report.Bullets{Items: items}}}
 }

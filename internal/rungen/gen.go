@@ -4,6 +4,13 @@
 // testdata/demo/runs/ and, for benchmarks, files of any length with the same
 // shape (RFC 3339 time, two numbers, a flag). Every number is made up.
 //
+// With a heating section (WriteRun), the run also carries the heating
+// section's four temperatures every HeatingEvery seconds, computed from the
+// plant model: the section is rated at each recorded second with the
+// fouling of the scenario (Fouling) on its clean U, the product leaving it
+// at the holding-tube outlet plus the tube's heat loss and entering it from
+// the regenerator (docs/METHOD.md §17).
+//
 // The demo file is regenerated with
 //
 //	go test ./internal/rungen -run TestDemoFile -update
@@ -18,6 +25,8 @@ import (
 	"math/rand/v2"
 	"strconv"
 	"time"
+
+	"pasval/fouling"
 )
 
 // ShiftLength is the demo shift's length, s (two hours of one-second samples).
@@ -26,8 +35,36 @@ const ShiftLength = 7200
 // Start is the demo shift's first sample time.
 var Start = time.Date(2026, 3, 14, 6, 0, 0, 0, time.UTC)
 
-// Header is the demo file's header row.
+// Header is the header row of a run without the heating section's columns.
 const Header = "time,hold_outlet_temperature [°C],flow_rate [L/h],forward"
+
+// HeatingHeader is what WriteRun adds to Header with a heating section.
+const HeatingHeader = ",heating_product_in [°C],heating_product_out [°C],heating_medium_in [°C],heating_medium_out [°C]"
+
+// HeatingEvery is how often the heating section's columns are recorded, s:
+// the rows between leave them empty (a historian that logs the heating loop
+// more slowly than the holding tube), which keeps the demo file small.
+const HeatingEvery = 10
+
+// The demo plant's temperatures that place the heating section in the
+// scenario: the raw inlet and the diversion setpoint (process.raw_inlet,
+// process.hold_setpoint; a test holds them to the plant file).
+const (
+	RawInlet = 5.0
+	Setpoint = 72.5
+)
+
+// Fouling is the demo shift's fouling resistance on the heating section's
+// clean U at t seconds from the shift's start, m²·K/W: a deposit growing at
+// FoulingRate from FoulingStart (the plates somewhat below the plate
+// correlation's clean U from the start).
+func Fouling(t float64) float64 { return FoulingStart + FoulingRate*t/3600 }
+
+// The demo shift's fouling: m²·K/W, and m²·K/W per h.
+const (
+	FoulingStart = 2e-5
+	FoulingRate  = 2.2e-5
+)
 
 // The scripted happenings of the shift, as seconds from its start.
 const (
@@ -106,33 +143,62 @@ const (
 // Write writes rows samples, the demo shift repeated with time running on
 // (the first ShiftLength−GapLength+1 rows are the demo shift), with the
 // header. seed fixes the noise.
-func Write(w io.Writer, rows int, seed uint64) error {
+func Write(w io.Writer, rows int, seed uint64) error { return WriteRun(w, rows, seed, nil) }
+
+// WriteRun is Write, with the heating section's columns when heat is not
+// nil: heat is the demo plant's heating section (assess.HeatingSection),
+// rated every HeatingEvery seconds (Heated).
+func WriteRun(w io.Writer, rows int, seed uint64, heat *fouling.Section) error {
 	bw := bufio.NewWriterSize(w, 64<<10)
 	rng := rand.New(rand.NewPCG(seed, 0x5eed))
-	if _, err := bw.WriteString(Header + "\n"); err != nil {
+	heatRNG := rand.New(rand.NewPCG(seed, 0x4ea7)) // a stream of its own: the other columns are those of Write
+	header := Header
+	if heat != nil {
+		header += HeatingHeader
+	}
+	if _, err := bw.WriteString(header + "\n"); err != nil {
 		return err
 	}
-	buf := make([]byte, 0, 64)
+	buf := make([]byte, 0, 128)
 	for n, k := 0, 0; n < rows; k++ {
 		shift, sec := k/ShiftLength, k%ShiftLength
 		temp, flow, fwd, skip := Script(sec)
 		tn, fn := rng.NormFloat64(), rng.NormFloat64() // drawn for every second, so the noise does not depend on the gap
+		var hn [4]float64
+		if heat != nil {
+			for i := range hn {
+				hn[i] = heatRNG.NormFloat64()
+			}
+		}
 		if skip {
 			continue
 		}
-		temp = math.Round((temp+TemperatureNoise*tn)*100) / 100
-		flow = math.Round((flow+FlowNoise*fn)*10) / 10
 		t := Start.Add(time.Duration(shift*ShiftLength+sec) * time.Second)
 		buf = t.AppendFormat(buf[:0], time.RFC3339)
 		buf = append(buf, ',')
-		buf = strconv.AppendFloat(buf, temp, 'f', 2, 64)
+		buf = strconv.AppendFloat(buf, math.Round((temp+TemperatureNoise*tn)*100)/100, 'f', 2, 64)
 		buf = append(buf, ',')
-		buf = strconv.AppendFloat(buf, flow, 'f', 1, 64)
+		buf = strconv.AppendFloat(buf, math.Round((flow+FlowNoise*fn)*10)/10, 'f', 1, 64)
 		if fwd {
-			buf = append(buf, ",1\n"...)
+			buf = append(buf, ",1"...)
 		} else {
-			buf = append(buf, ",0\n"...)
+			buf = append(buf, ",0"...)
 		}
+		if heat != nil {
+			if sec%HeatingEvery != 0 {
+				buf = append(buf, ",,,,"...)
+			} else {
+				h, err := Heated(*heat, temp, float64(sec))
+				if err != nil {
+					return err
+				}
+				for i, v := range h {
+					buf = append(buf, ',')
+					buf = strconv.AppendFloat(buf, math.Round((v+TemperatureNoise*hn[i])*100)/100, 'f', 2, 64)
+				}
+			}
+		}
+		buf = append(buf, '\n')
 		if _, err := bw.Write(buf); err != nil {
 			return err
 		}
@@ -140,6 +206,30 @@ func Write(w io.Writer, rows int, seed uint64) error {
 	}
 	return bw.Flush()
 }
+
+// Heated is the heating section at a second of the scenario, before noise:
+// product in, product out, medium in and medium out, °C. The product leaves
+// it at the holding-tube outlet temp plus the tube's heat loss at the normal
+// rate (the design's ProductOut − Setpoint) and enters it from the
+// regenerator, whose pasteurized side enters at temp, with the design's
+// ratio (ProductIn − RawInlet)/(Setpoint − RawInlet); the medium inlet is
+// the one the section requires with the fouling Fouling(t) on its clean U
+// (fouling.Section.Rate: the plant model of check), the medium outlet by its
+// energy balance.
+func Heated(heat fouling.Section, temp, t float64) ([4]float64, error) {
+	ratio := (heat.ProductIn - RawInlet) / (Setpoint - RawInlet)
+	heat.ProductOut, heat.ProductIn = temp+heat.ProductOut-Setpoint, RawInlet+ratio*(temp-RawInlet)
+	sec, err := heat.Rate(DemoCleanU, Fouling(t))
+	if err != nil {
+		return [4]float64{}, err
+	}
+	return [4]float64{sec.ProductIn, sec.ProductOut, sec.OtherIn, sec.OtherOut}, nil
+}
+
+// DemoCleanU is the clean U, W/(m²·K), a heating section without a plate
+// pack is rated with in the scenario (the demo's has one: its pack's clean
+// U is used).
+const DemoCleanU = 5000.0
 
 // ShiftRows is the number of rows in one shift (the gap's samples missing).
 const ShiftRows = ShiftLength - (GapLength - 1)

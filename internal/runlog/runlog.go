@@ -304,6 +304,9 @@ func (r *Reader) Separator() byte { return r.cfg.sep }
 // for an optional column it lacks), standard ones first.
 func (r *Reader) Columns() []Found { return append([]Found(nil), r.found...) }
 
+// HeaderLine is the header's line in the file.
+func (r *Reader) HeaderLine() int { return r.header }
+
 // HasOptional says whether the header has Options.Optional[i].
 func (r *Reader) HasOptional(i int) bool { return r.found[len(Standard)+i].Index >= 0 }
 

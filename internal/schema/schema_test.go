@@ -133,7 +133,7 @@ var (
 		"missing-flow", "negative-flow", "negative-viscosity", "organism-D-as-temperature", "organism-zero-z",
 		"organisms-without-tube", "percent-flow", "rate-above-max", "rated-stage-with-outlet", "ratio-above-one", "ratio-one",
 		"ratio-zero", "raw-above-setpoint", "raw-at-setpoint", "setpoint-out-of-range", "unknown-unit", "water-frozen",
-		"wrong-dimension-density", "wrong-dimension-flow", "wrong-dimension-u", "zero-flow", "zero-medium-flow",
+		"wrong-dimension-density", "wrong-dimension-flow", "wrong-dimension-u", "zero-flow", "zero-medium-flow", "heating-burn-on-zero",
 		"viscosity-same-temperature", "temperature-overflow", "temperature-beyond-range", "kinetics-non-finite",
 		"economics-price-huge", "rate-above-max-mixed-units", "organism-z-tiny",
 		// Uncertainty: a path of the right form that names no varied value, a

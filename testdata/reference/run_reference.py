@@ -3,8 +3,8 @@
 (testdata/demo/htst-milk-si.yaml), written from docs/METHOD.md §13 and §7
 with the Python standard library only, not from pasval's code.
 
-Usage: run_reference.py RUN.csv   (header: time, hold_outlet_temperature [°C],
-flow_rate [L/h], forward; RFC 3339 times in UTC)
+Usage: run_reference.py RUN.csv   (first columns: time, hold_outlet_temperature [°C],
+flow_rate [L/h], forward, any others ignored; RFC 3339 times in UTC)
 
 Prints JSON with the keys of 'pasval logs --json' (summary, events, drops),
 SI, for cmd/pasval/logs_test.go to compare. It walks each parcel back through
@@ -82,7 +82,8 @@ def read(path):
     with open(path, newline="", encoding="utf-8") as f:
         rows = csv.reader(f)
         next(rows)
-        for ts, temp, flow, fwd in rows:
+        for row in rows:
+            ts, temp, flow, fwd = row[:4]  # further columns (the heating section's) are not read
             when = datetime.datetime.strptime(ts, "%Y-%m-%dT%H:%M:%SZ").replace(tzinfo=datetime.timezone.utc)
             samples.append((when.timestamp(), float(temp), float(flow) / 3.6e6, fwd == "1"))
     return samples
