@@ -144,13 +144,13 @@ func verifyRunReview(st *report.Stored, pdf []byte, logs []string, out, diag io.
 			}
 		}
 		if found < 0 {
-			fmt.Fprintf(out, "%-27s %s  DIFFERS: no file given has it\n", in.Name, in.SHA256)
+			writePathLine(out, in.Name, in.SHA256+"  DIFFERS: no file given has it")
 			matched = false
 			continue
 		}
 		used[found] = true
 		g := rev.Files[found]
-		fmt.Fprintf(out, "%-27s %s  matches\n", g.Path, g.SHA256)
+		writePathLine(out, g.Path, g.SHA256+"  matches")
 		// Shown under the name the record gave it.
 		g.Path = in.Name
 		listed := make(inputerr.List, len(g.Listed))
@@ -164,7 +164,7 @@ func verifyRunReview(st *report.Stored, pdf []byte, logs []string, out, diag io.
 	}
 	for j, g := range rev.Files {
 		if !used[j] {
-			fmt.Fprintf(out, "%-27s %s  DIFFERS: not a run of this record\n", g.Path, g.SHA256)
+			writePathLine(out, g.Path, g.SHA256+"  DIFFERS: not a run of this record")
 			matched = false
 		}
 	}

@@ -12,6 +12,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"runtime"
 	"strings"
 	"testing"
@@ -258,5 +259,12 @@ func TestVerifyRunReviewWithoutItsRunsIsPartial(t *testing.T) {
 	out, _, code = runBinary(t, "verify", rec, "--log", shift)
 	if code != exitPass || !strings.Contains(out, "\nMATCH\n") || strings.Contains(out, "PARTIAL") {
 		t.Errorf("with the run: exit %d\n%s", code, out)
+	}
+	// The run's path is long: the hashes still line up in one column.
+	hash := regexp.MustCompile(`[0-9a-f]{64}`)
+	for _, l := range strings.Split(out, "\n") {
+		if loc := hash.FindStringIndex(l); loc != nil && loc[0] != 28 {
+			t.Errorf("a hash at column %d, not 28: %q", loc[0], l)
+		}
 	}
 }
