@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"pasval/internal/assess"
+	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/present"
 	"pasval/internal/units"
@@ -138,7 +139,13 @@ func runPlates(opts platesOptions, out io.Writer) error {
 	w, err := assess.AddPlates(p, added, opts.knee, layout)
 	var tooMany *assess.AddedPlatesError
 	if errors.As(err, &tooMany) {
-		return usagef("%v", err)
+		if tooMany.Added < 1 || tooMany.Pos.Line == 0 {
+			return usagef("%v", err)
+		}
+		// The sum is over the limit: point at the installed plates, which
+		// the reader may have to check as much as the flag.
+		return inputerr.List{inputerr.At(tooMany.Pos, "regeneration.plates",
+			"%d installed; --add/--sweep: %v", tooMany.Installed, err)}
 	}
 	if err != nil {
 		return err

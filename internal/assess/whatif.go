@@ -110,6 +110,9 @@ type RoundedRequest struct {
 // with: at least 1, and the regenerator at most plantfile.MaxPlates in all.
 type AddedPlatesError struct {
 	Installed, Added int
+	// Pos is where the installed plates were written: a regenerator
+	// already near the limit is a fact of the file, not only of the flag.
+	Pos inputerr.Pos
 }
 
 func (e *AddedPlatesError) Error() string {
@@ -213,7 +216,7 @@ func addPlates(p *plantfile.Plant, added []int, kneeFraction float64, layout Lay
 	}
 	for _, a := range added {
 		if a < 1 || p.Regeneration.Plates.Plates+a > plantfile.MaxPlates {
-			return nil, &AddedPlatesError{Installed: p.Regeneration.Plates.Plates, Added: a}
+			return nil, &AddedPlatesError{Installed: p.Regeneration.Plates.Plates, Added: a, Pos: p.Regeneration.Plates.PlatesPos}
 		}
 		steps := max(1, int(math.Round(float64(a)/float64(step))))
 		if steps*step != a {
