@@ -14,6 +14,8 @@ type Engine struct {
 	m         Model
 	threshold float64 // gap threshold, s; 0 until known
 	median    float64
+	origin    float64 // Options.Origin, added to the result's times
+	t0        float64 // the first sample's time: the tracker's time is from it
 
 	// Waiting for the median interval.
 	pending   []Sample
@@ -83,7 +85,7 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		panic(fmt.Sprintf("%sNewEngine: gap threshold %g s", panicPrefix, opt.GapThreshold))
 	}
 	no := len(m.Organisms)
-	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no),
+	e := &Engine{m: m, threshold: opt.GapThreshold, origin: opt.Origin, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no),
 		rheos: rheologies{ids: map[lethality.Rheology]uint32{}}}
 	e.tr.length = m.Tube.Length
 	if opt.Trace != 0 {
@@ -171,13 +173,16 @@ func (e *Engine) settle() {
 func (e *Engine) take(s Sample) {
 	if e.n > 0 {
 		e.close(e.last, e.n-1, s.Time-e.last.Time)
-		e.tr.advance(e.lastU, s.Time)
+		// In time from the first sample: residences are differences of
+		// times, and a time far from its origin loses their digits.
+		e.tr.advance(e.lastU, s.Time-e.t0)
 	}
 	e.lastTemp = e.temps.at(s.Temperature, e)
 	u := e.speed(s.Flow, e.lastTemp)
 	if e.n == 0 {
+		e.t0 = s.Time
 		e.sum.Start = s.Time
-		e.tr.start(s.Time, u)
+		e.tr.start(0, u)
 	}
 	e.lastRes = e.tr.residence()
 	for i, d := range e.lastTemp.d {
@@ -416,6 +421,7 @@ func (e *Engine) Finish() Result {
 			ev.DivertAfter = &v
 		}
 	}
+	e.shiftTimes()
 	s := &e.sum
 	s.MedianInterval, s.GapThreshold = e.median, e.threshold
 	if s.ForwardSamples == 0 {
@@ -435,6 +441,28 @@ func (e *Engine) Finish() Result {
 		res.Trace = e.trace.buckets()
 	}
 	return res
+}
+
+// shiftTimes adds Options.Origin to every time of the result; a drop's and
+// an event's response time, a difference, stays as computed.
+func (e *Engine) shiftTimes() {
+	if e.origin == 0 {
+		return
+	}
+	o := e.origin
+	e.sum.Start += o
+	e.sum.End += o
+	for i := range e.events {
+		e.events[i].Start += o
+		e.events[i].End += o
+	}
+	for i := range e.drops {
+		e.drops[i].Start += o
+		e.drops[i].End += o
+	}
+	if e.trace != nil {
+		e.trace.origin = o
+	}
 }
 
 // finite says whether v is a number other than ±Inf.

@@ -568,3 +568,66 @@ func TestLaminarBelowTheSeal(t *testing.T) {
 		t.Errorf("%d events at the seal, want none", len(res.Events))
 	}
 }
+
+// TestTimeFarFromItsOrigin: the engine computes in time from the first
+// sample, so the same run with its times written from 0 and from
+// 1 773 468 000 s (Unix seconds in 2026, where a float64 steps by 2^-22 s =
+// 0.24 µs) gives the same residences, to the last bit of a residence near
+// 15 s. The flows make the fastest particle take 15 s − 5×10⁻⁸ s at the
+// 72 °C / 15 s row's temperature (computed here from the tube's area and an
+// entered ratio of 2), short by more than the row's tolerance (10⁻⁹ × 15 s,
+// docs/METHOD.md §1.5).
+func TestTimeFarFromItsOrigin(t *testing.T) {
+	m := demoModel(t)
+	m.FastestToMean = 2
+	m.Organisms = nil
+	m.Legal = []lethality.LegalRow{{Temperature: 72, Time: 15}}
+	area := math.Pi * m.Tube.InnerDiameter * m.Tube.InnerDiameter / 4
+	q := m.Tube.Length * area / (2 * (15 - 5e-8)) // m³/s: L/(2·Q/A) = 15 s − 5e-8 s
+	run := func(origin float64) runs.Result {
+		var s []runs.Sample
+		for i := range 60 {
+			s = append(s, runs.Sample{Time: origin + float64(i), Temperature: 72.5, Flow: q, Forward: true})
+		}
+		return analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	}
+	// Every parcel falls short, those that entered before the run and
+	// those that entered during it: one lethality event over all 60 samples.
+	for name, res := range map[string]runs.Result{"from 0": run(0), "from 1 773 468 000 s": run(1_773_468_000)} {
+		checkNear(t, name+": min residence", res.Summary.MinForwardResidence, 15-5e-8, 1e-14)
+		if len(res.Events) != 1 || res.Events[0].Kind != runs.KindLethality || res.Events[0].First != 0 || res.Events[0].Last != 59 {
+			t.Errorf("%s: events %+v; want one lethality event over samples 0 to 59", name, res.Events)
+		}
+	}
+}
+
+// TestOriginShiftsTheResultsTimes: Options.Origin is added to every time the
+// result gives, and to nothing else.
+func TestOriginShiftsTheResultsTimes(t *testing.T) {
+	m := demoModel(t)
+	const origin = 1_773_446_400 // 2026-03-14T00:00:00Z
+	plain := analyse(t, m, runs.Options{Trace: 8}, scriptedShift())
+	shifted := analyse(t, m, runs.Options{Trace: 8, Origin: origin}, scriptedShift())
+	checkNear(t, "start", shifted.Summary.Start, plain.Summary.Start+origin, 1e-15)
+	checkNear(t, "end", shifted.Summary.End, plain.Summary.End+origin, 1e-15)
+	for i, e := range shifted.Events {
+		p := plain.Events[i]
+		checkNear(t, "event start", e.Start, p.Start+origin, 1e-15)
+		checkNear(t, "event end", e.End, p.End+origin, 1e-15)
+		checkNear(t, "event duration", e.Duration, p.Duration, 1e-15)
+		checkNear(t, "event residence", e.MinResidence, p.MinResidence, 1e-15)
+	}
+	for i, d := range shifted.Drops {
+		checkNear(t, "drop start", d.Start, plain.Drops[i].Start+origin, 1e-15)
+		if (d.DivertAfter == nil) != (plain.Drops[i].DivertAfter == nil) || d.DivertAfter != nil && *d.DivertAfter != *plain.Drops[i].DivertAfter {
+			t.Errorf("drop %d: divert after %v, want %v", i, d.DivertAfter, plain.Drops[i].DivertAfter)
+		}
+	}
+	for i, b := range shifted.Trace {
+		checkNear(t, "bucket start", b.Start, plain.Trace[i].Start+origin, 1e-15)
+		checkNear(t, "bucket end", b.End, plain.Trace[i].End+origin, 1e-15)
+	}
+	if len(shifted.Events) != len(plain.Events) || len(shifted.Drops) == 0 || len(shifted.Trace) == 0 {
+		t.Errorf("%d events, %d drops, %d buckets", len(shifted.Events), len(shifted.Drops), len(shifted.Trace))
+	}
+}

@@ -23,14 +23,20 @@ import (
 var demoRun = filepath.Join("..", "testdata", "demo", "runs", "htst-milk-si-shift.csv")
 
 // review reads one file and analyses it, as the command layer does: a mass
-// flow is turned into a volumetric one with the model's density.
+// flow is turned into a volumetric one with the model's density; the engine
+// starts at the first record, when the reader's origin of clock times is
+// known, so that results are in Unix seconds.
 func review(r *runlog.Reader, m runs.Model, opt runs.Options) (runs.Result, error) {
-	e, err := runs.NewEngine(m, opt)
-	if err != nil {
-		return runs.Result{}, err
-	}
+	var e *runs.Engine
 	mass := r.FlowIsMass()
 	for r.Next() {
+		if e == nil {
+			var err error
+			opt.Origin = float64(r.Origin())
+			if e, err = runs.NewEngine(m, opt); err != nil {
+				return runs.Result{}, err
+			}
+		}
 		rec := r.Record()
 		q := rec.Flow
 		if mass {
@@ -42,6 +48,9 @@ func review(r *runlog.Reader, m runs.Model, opt runs.Options) (runs.Result, erro
 	}
 	if err := r.Err(); err != nil {
 		return runs.Result{}, err
+	}
+	if e == nil { // not reached: a file without rows is an error
+		return runs.Result{}, fmt.Errorf("%s: no records", r.Name())
 	}
 	return e.Finish(), nil
 }

@@ -131,7 +131,12 @@ func (m *Model) check() error {
 
 // Sample is one recorded sample, in SI.
 type Sample struct {
-	Time        float64 // s, on any fixed origin (Unix seconds for clock times)
+	// Time is in s from Options.Origin. The engine works in time from the
+	// first sample, so any origin gives the same residences; but a float64
+	// far from its origin has coarse steps (Unix seconds in 2026: 0.24 µs,
+	// more than the tolerance of a legal row's time), so give times from a
+	// nearby origin when they carry fractions of a second.
+	Time        float64
 	Temperature float64 // °C at the holding-tube outlet (the diversion sensor)
 	Flow        float64 // m³/s; zero or negative is read as no flow
 	Forward     bool    // the flow-diversion device in forward flow
@@ -145,6 +150,11 @@ type Options struct {
 	// Trace is the number of buckets of Result.Trace, even; 0 keeps none.
 	// Between Trace/2 and Trace of them cover the run.
 	Trace int
+	// Origin is added to every time the result gives (Summary, Events,
+	// Drops, Trace), s: the Unix second a reader's clock times count from,
+	// say, so that results are in Unix seconds. 0 gives them as the
+	// samples' own times.
+	Origin float64
 }
 
 // GapFactor times the median interval is the default gap threshold.
@@ -286,9 +296,10 @@ func (e *SampleError) Error() string {
 	return fmt.Sprintf("sample %d: %s is %g, not a finite number", e.Index, e.Field, e.Value)
 }
 
-// UnixSeconds is a clock time as a Sample.Time: seconds since 1970-01-01
-// UTC. float64 keeps such times to about 0.2 µs, far finer than any
-// recorder's sampling.
+// UnixSeconds is a clock time as seconds since 1970-01-01 UTC, the form of
+// a result's times with a reader's Origin. float64 keeps such times to about
+// 0.2 µs: fine for showing a time, too coarse to compute a residence with
+// (see Sample.Time).
 func UnixSeconds(t time.Time) float64 {
 	return float64(t.Unix()) + float64(t.Nanosecond())*1e-9
 }

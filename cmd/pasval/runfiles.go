@@ -373,21 +373,30 @@ func reviewError(err error) error {
 
 // judgeRun feeds one file's samples to the engine, and with the heating
 // section's columns gathers them into windows of width s.
+//
+// The engine starts at the first record, when the reader knows the origin
+// its clock times count from: the engine computes in those times (exact to
+// the nanosecond) and gives its results in Unix seconds.
 func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options, width float64) (assess.RunFile, error) {
-	e, err := runs.NewEngine(rm.Model, opt)
-	if err != nil {
-		return assess.RunFile{}, err // NewRunModel has checked the criteria
-	}
 	heat, err := heatingWindower(r, width)
 	if err != nil {
 		return assess.RunFile{}, err
 	}
+	var e *runs.Engine
+	origin := 0.0
 	mass := r.FlowIsMass()
 	for r.Next() {
+		if e == nil {
+			origin = float64(r.Origin())
+			opt.Origin = origin
+			if e, err = runs.NewEngine(rm.Model, opt); err != nil {
+				return assess.RunFile{}, err // NewRunModel has checked the criteria
+			}
+		}
 		rec := r.Record()
 		if heat != nil {
 			o := rec.Optional
-			heat.Add(fouling.Sample{Time: rec.Time, ProductMassFlow: rm.ProductMassFlow(rec.Flow, mass), Forward: rec.Forward,
+			heat.Add(fouling.Sample{Time: origin + rec.Time, ProductMassFlow: rm.ProductMassFlow(rec.Flow, mass), Forward: rec.Forward,
 				ProductIn: o[0], ProductOut: o[1], MediumIn: o[2], MediumOut: o[3], MediumFlow: o[4]})
 		}
 		s := runs.Sample{Time: rec.Time, Temperature: rec.Temperature, Flow: rm.TubeFlow(rec.Flow, mass), Forward: rec.Forward}
@@ -402,6 +411,9 @@ func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options, width floa
 	}
 	if err := r.Err(); err != nil {
 		return assess.RunFile{}, err
+	}
+	if e == nil { // not reached: the reader refuses a file without rows
+		return assess.RunFile{}, inputerr.List{inputerr.At(inputerr.Pos{File: r.Name(), Line: r.HeaderLine() + 1, Column: 1}, "", "no data rows after the header")}
 	}
 	bad, listed := r.Skipped()
 	f := assess.RunFile{Path: r.Name(), SHA256: hex.EncodeToString(r.SHA256()), Rows: r.Rows(), BadRows: bad, Listed: listed,

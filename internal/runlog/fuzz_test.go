@@ -183,7 +183,7 @@ func referenceRead(t *testing.T, data []byte, r *Reader, opt Options) ([]Record,
 			if err != nil {
 				return recs, line
 			}
-			rec.Time = float64(tm.Unix()) + float64(tm.Nanosecond())*1e-9
+			rec.Time = float64(tm.Unix()-r.Origin()) + float64(tm.Nanosecond())*1e-9
 		} else {
 			v, ok := refNumber(tf, opt.DecimalComma)
 			if !ok {

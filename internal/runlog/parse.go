@@ -273,19 +273,16 @@ func daysFromCivil(y, m, d int) int64 {
 	return int64(era)*146097 + int64(doe) - 719468
 }
 
-// seconds gives the clock's instant as seconds since 1970-01-01 UTC. A time
-// without an offset is read in loc, exactly as time.Date reads it (in a
-// repeated hour at the end of daylight saving time time.Date picks one of the
-// two instants; a recorder writing local times without offset cannot say
-// which).
-func (c clock) seconds(loc *time.Location) float64 {
-	var unix int64
+// unix gives the clock's instant as whole seconds since 1970-01-01 UTC (the
+// fraction is c.nsec). A time without an offset is read in loc, exactly as
+// time.Date reads it (in a repeated hour at the end of daylight saving time
+// time.Date picks one of the two instants; a recorder writing local times
+// without offset cannot say which).
+func (c clock) unix(loc *time.Location) int64 {
 	if c.zoned || loc == time.UTC {
-		unix = daysFromCivil(c.year, c.month, c.day)*86400 + int64(c.hour*3600+c.min*60+c.sec) - int64(c.offset)
-	} else {
-		unix = time.Date(c.year, time.Month(c.month), c.day, c.hour, c.min, c.sec, 0, loc).Unix()
+		return daysFromCivil(c.year, c.month, c.day)*86400 + int64(c.hour*3600+c.min*60+c.sec) - int64(c.offset)
 	}
-	return float64(unix) + float64(c.nsec)*1e-9
+	return time.Date(c.year, time.Month(c.month), c.day, c.hour, c.min, c.sec, 0, loc).Unix()
 }
 
 // parseFlag reads the flow-diversion position: 1, true or forward for

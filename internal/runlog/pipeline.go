@@ -158,7 +158,9 @@ func fill(rd io.Reader, buf []byte) ([]byte, error) {
 }
 
 // decide fixes the time format from the first row with the header's
-// number of fields, before any block is parsed.
+// number of fields, before any block is parsed, and with clock times the
+// origin they count from (the start of that row's date: any whole second
+// near the run keeps a time's fraction exact enough).
 func (r *Reader) decide(blk block) {
 	sp := splitter{sep: r.cfg.sep}
 	data := blk.data
@@ -173,7 +175,12 @@ func (r *Reader) decide(blk block) {
 		if len(l) == 0 || sp.split(l, blk.quotes) != nil || sp.n != r.cfg.nfields {
 			continue
 		}
-		r.cfg.clock = looksLikeClock(trim(sp.field(r.cfg.timeField), r.cfg.sep))
+		tb := trim(sp.field(r.cfg.timeField), r.cfg.sep)
+		r.cfg.clock = looksLikeClock(tb)
+		var cl clock
+		if _, ok := scanClock(tb, &cl); r.cfg.clock && ok {
+			r.cfg.origin = daysFromCivil(cl.year, cl.month, cl.day) * 86400
+		}
 		r.decided = true
 		return
 	}

@@ -13,14 +13,18 @@ import (
 // and the first row has settled the time format, then shared read-only by
 // the parsing goroutines.
 type rowConfig struct {
-	name         string
-	nfields      int
-	sep          byte
-	timeField    int
-	flagField    int
-	timeUnit     string  // a unit of time from the header, "" for none
-	timeScale    float64 // seconds per unit of a numeric time
-	clock        bool    // times are RFC 3339 clock times
+	name      string
+	nfields   int
+	sep       byte
+	timeField int
+	flagField int
+	timeUnit  string  // a unit of time from the header, "" for none
+	timeScale float64 // seconds per unit of a numeric time
+	clock     bool    // times are RFC 3339 clock times
+	// origin is the Unix second clock times count from (Record.Time): the
+	// start of the first row's date, so that a time keeps its nanoseconds
+	// in a float64 (Unix seconds in a float64 are rounded to 0.24 µs).
+	origin       int64
 	numeric      []numField
 	roles        []fieldRole // per field of a line, for the fast path
 	nOptional    int
@@ -264,18 +268,20 @@ func fieldEnd(line []byte, pos int, sep byte) int {
 	return len(line)
 }
 
-// seconds is a clock's instant in seconds since 1970-01-01 UTC (see
-// clock.seconds), remembering the last date's day number.
+// seconds is a clock's instant in seconds since the file's origin
+// (rowConfig.origin; see clock.unix), remembering the last date's day number.
 func (p *parser) seconds(cl *clock) float64 {
+	var unix int64
 	if !cl.zoned && p.cfg.loc != time.UTC {
-		return cl.seconds(p.cfg.loc)
+		unix = cl.unix(p.cfg.loc)
+	} else {
+		if !p.dateOK || cl.year != p.dateY || cl.month != p.dateM || cl.day != p.dateD {
+			p.dateY, p.dateM, p.dateD, p.dateOK = cl.year, cl.month, cl.day, true
+			p.dateDays = daysFromCivil(cl.year, cl.month, cl.day)
+		}
+		unix = p.dateDays*86400 + int64(cl.hour*3600+cl.min*60+cl.sec) - int64(cl.offset)
 	}
-	if !p.dateOK || cl.year != p.dateY || cl.month != p.dateM || cl.day != p.dateD {
-		p.dateY, p.dateM, p.dateD, p.dateOK = cl.year, cl.month, cl.day, true
-		p.dateDays = daysFromCivil(cl.year, cl.month, cl.day)
-	}
-	unix := p.dateDays*86400 + int64(cl.hour*3600+cl.min*60+cl.sec) - int64(cl.offset)
-	return float64(unix) + float64(cl.nsec)*1e-9
+	return float64(unix-p.cfg.origin) + float64(cl.nsec)*1e-9
 }
 
 func (p *parser) numberError(n *numField, b []byte, lineNo int) *inputerr.Error {

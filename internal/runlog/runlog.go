@@ -109,8 +109,11 @@ const headerBuffer = 64 << 10
 
 // Record is one sample, in SI. The Reader reuses it: copy what you keep.
 type Record struct {
-	Line        int     // the file's line
-	Time        float64 // s: since 1970-01-01 UTC for clock times, else as written
+	Line int // the file's line
+	// Time is in s: for clock times since the Reader's Origin (a whole
+	// second near the run, so that the fraction of a time keeps its
+	// nanoseconds), else as written.
+	Time        float64
 	Temperature float64 // °C, hold_outlet_temperature
 	Flow        float64 // m³/s, or kg/s when the Reader's FlowIsMass
 	Forward     bool
@@ -314,10 +317,16 @@ func (r *Reader) HasOptional(i int) bool { return r.found[len(Standard)+i].Index
 // volumetric one (m³/s).
 func (r *Reader) FlowIsMass() bool { return r.found[2].Kind == units.MassFlow }
 
-// ClockTimes says whether times are clock times (seconds since 1970-01-01
-// UTC) rather than seconds from an origin of the file's own; known after the
+// ClockTimes says whether times are clock times (seconds since Origin)
+// rather than seconds from an origin of the file's own; known after the
 // first row.
 func (r *Reader) ClockTimes() bool { return r.cfg.clock }
+
+// Origin is the Unix second (since 1970-01-01 UTC) that clock times count
+// from: a clock time is Origin + Record.Time. It is the start of the first
+// row's date as written; 0 for seconds from a start. Known after the first
+// row, like ClockTimes.
+func (r *Reader) Origin() int64 { return r.cfg.origin }
 
 // ZoneLess says whether some clock time was written without an offset (and
 // so read in Options.Location).

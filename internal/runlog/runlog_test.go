@@ -19,7 +19,8 @@ import (
 	"pasval/internal/units"
 )
 
-// readAll reads a whole file from text; it fails the test on error.
+// readAll reads a whole file from text, clock times as Unix seconds (Origin
+// added); it fails the test on error.
 func readAll(t *testing.T, text string, opt Options) ([]Record, *Reader) {
 	t.Helper()
 	r, err := NewReader(strings.NewReader(text), "run.csv", opt)
@@ -30,6 +31,7 @@ func readAll(t *testing.T, text string, opt Options) ([]Record, *Reader) {
 	for r.Next() {
 		rec := *r.Record()
 		rec.Optional = append([]float64(nil), rec.Optional...)
+		rec.Time += float64(r.Origin())
 		recs = append(recs, rec)
 	}
 	if err := r.Err(); err != nil {
@@ -136,7 +138,9 @@ func TestGzipByContent(t *testing.T) {
 		}
 		var got []Record
 		for r.Next() {
-			got = append(got, *r.Record())
+			rec := *r.Record()
+			rec.Time += float64(r.Origin())
+			got = append(got, rec)
 		}
 		if err := r.Err(); err != nil {
 			t.Fatal(err)
@@ -195,6 +199,49 @@ func TestTimes(t *testing.T) {
 			t.Errorf("08:00 at +02:00 read as %g, want %g (zone-less %v)", got[0].Time, want, r.ZoneLess())
 		}
 	})
+}
+
+// TestClockTimesKeepTheirFraction: clock times count from the start of the
+// first row's date (Origin), so a fraction of a second is kept to the
+// nanosecond; as Unix seconds in a float64 (2^31 s < 1.77e9 s < 2^31, a
+// step of 2^-22 s = 0.24 µs) it would be rounded. The values are exact
+// decimal arithmetic on the text.
+func TestClockTimesKeepTheirFraction(t *testing.T) {
+	text := "time,hold_outlet_temperature [°C],flow_rate [L/h],forward\n" +
+		"2026-03-14T06:00:00.000000001Z,72.8,10000,1\n" +
+		"2026-03-14T06:00:15.000000002Z,72.8,10000,1\n" +
+		"2026-03-15T00:00:00.25+00:00,72.8,10000,1\n"
+	r, err := NewReader(strings.NewReader(text), "run.csv", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []float64
+	for r.Next() {
+		got = append(got, r.Record().Time)
+	}
+	if err := r.Err(); err != nil {
+		t.Fatal(err)
+	}
+	// 2026-03-14T00:00:00Z, by the standard library.
+	if want := time.Date(2026, 3, 14, 0, 0, 0, 0, time.UTC).Unix(); r.Origin() != want {
+		t.Errorf("origin %d, want %d", r.Origin(), want)
+	}
+	// 6 h = 21 600 s; the next day's midnight is 86 400 s.
+	want := []float64{21600.000000001, 21615.000000002, 86400.25}
+	for i, w := range want {
+		if i >= len(got) || math.Abs(got[i]-w) > 1e-12*w {
+			t.Fatalf("times %v, want %v", got, want)
+		}
+	}
+	// The interval of 15.000000001 s survives; in Unix seconds it would not.
+	if d := got[1] - got[0]; math.Abs(d-15.000000001) > 1e-11 {
+		t.Errorf("interval %.12f s, want 15.000000001 s", d)
+	}
+	// Seconds from a start count from 0.
+	_, sr := readAll(t, "time [s],hold_outlet_temperature [°C],flow_rate [L/h],forward\n5,72.8,10000,1\n", Options{})
+	if sr.Origin() != 0 {
+		t.Errorf("seconds from a start: origin %d, want 0", sr.Origin())
+	}
 }
 
 // TestOptionalColumns reads a further numeric column by a Column entry.

@@ -90,7 +90,11 @@ def read(path):
 
 
 def clock(s):
-    return datetime.datetime.fromtimestamp(s, datetime.timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ")
+    """A time from the first sample as RFC 3339 (ORIGIN: the first sample's Unix time)."""
+    return datetime.datetime.fromtimestamp(ORIGIN + s, datetime.timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ")
+
+
+ORIGIN = 0.0
 
 
 def number(v):
@@ -100,7 +104,13 @@ def number(v):
 def main(path):
     s = read(path)
     n = len(s)
-    times = [x[0] for x in s]
+    # Times from the first sample: a residence is a difference of times, and
+    # Unix seconds in a float (steps of 0.24 us in 2026) would lose its last
+    # digits (docs/METHOD.md §13.4).
+    global ORIGIN
+    ORIGIN = origin = s[0][0]
+    times = [x[0] - origin for x in s]
+    s = [(t,) + x[1:] for t, x in zip(times, s)]
     speeds = [fastest_speed(x[2], x[1]) for x in s]
     positive = [b - a for a, b in zip(times, times[1:]) if b > a][:MEDIAN_WINDOW]
     positive.sort()
