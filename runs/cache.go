@@ -68,7 +68,8 @@ func (c *tempCache) at(temp float64, eng *Engine) *tempEntry {
 		e.d[i] = o.DAt(temp)
 	}
 	if eng.m.RheologyAt != nil {
-		e.rh = eng.rheologyID(temp) // may start a new generation
+		// The colder of the reading and the setpoint (Model.RheologyAt).
+		e.rh = eng.rheologyID(math.Min(temp, eng.m.Setpoint)) // may start a new generation
 	}
 	e.gen = c.gen
 	return e

@@ -631,3 +631,59 @@ func TestOriginShiftsTheResultsTimes(t *testing.T) {
 		t.Errorf("%d events, %d drops, %d buckets", len(shifted.Events), len(shifted.Drops), len(shifted.Trace))
 	}
 }
+
+// TestViscosityAtTheColderOfReadingAndSetpoint: the Reynolds number of an
+// interval takes the viscosity at its recorded temperature when that is
+// below the setpoint (colder product is more viscous), and at the setpoint
+// when the reading is above it (hotter product is not credited beyond the
+// design model, which takes the setpoint; docs/METHOD.md §13.4). A product
+// laminar below the 72.5 °C setpoint, turbulent above it and thinner still
+// from 75 °C (viscosity steps invented for the test) shows both sides: at
+// 80 °C the parcels are held as at 72.5 °C, at 71 °C as laminar product.
+func TestViscosityAtTheColderOfReadingAndSetpoint(t *testing.T) {
+	m := demoModel(t)
+	var asked []float64
+	m.RheologyAt = func(temp float64) lethality.Rheology {
+		asked = append(asked, temp)
+		switch {
+		case temp < 72.5:
+			return lethality.Newtonian{Viscosity: 0.05} // Re ≈ 1540 at 10 000 L/h: laminar
+		case temp < 75:
+			return lethality.Newtonian{Viscosity: 2e-3} // Re ≈ 38 400: turbulent
+		}
+		return lethality.Newtonian{Viscosity: 0.72e-3} // Re ≈ 106 600: turbulent, a smaller ratio
+	}
+	q := 10000 * lh
+	flow := lethality.Flow{Volumetric: q, Density: m.Density}
+	steady := func(temp float64) runs.Result {
+		var s []runs.Sample
+		for i := range 100 {
+			s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: q, Forward: true})
+		}
+		return analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	}
+	for _, c := range []struct {
+		name        string
+		temp, muAt  float64 // the reading; where the viscosity must be taken
+		wantLaminar bool
+	}{
+		{"above the setpoint: at the setpoint", 80, 72.5, false},
+		{"below the setpoint: at the reading", 71, 71, true},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			asked = asked[:0]
+			res := steady(c.temp)
+			for _, a := range asked {
+				if a != c.muAt { // exact: the engine passes one of the two values through
+					t.Fatalf("viscosity asked at %g °C, want %g °C", a, c.muAt)
+				}
+			}
+			h := m.Tube.Hydraulics(flow, m.RheologyAt(c.muAt), 0)
+			at := m.Tube.Hydraulics(flow, m.RheologyAt(c.temp), 0) // at the reading: what must not be used above the setpoint
+			if (h.Regime != lethality.Turbulent) != c.wantLaminar || c.temp > m.Setpoint && near(at.MinResidence, h.MinResidence, 1e-6) {
+				t.Fatalf("regime %s; residences %g s and %g s at the reading: the case shows nothing", h.Regime, h.MinResidence, at.MinResidence)
+			}
+			checkNear(t, "min residence", res.Summary.MinForwardResidence, h.MinResidence, 1e-12)
+		})
+	}
+}

@@ -89,11 +89,14 @@ type Model struct {
 	// Rheology is the product's flow behaviour; used for every interval
 	// when RheologyAt is nil.
 	Rheology lethality.Rheology
-	// RheologyAt, when set, gives the rheology at a recorded temperature
-	// (°C), so that each interval's Reynolds number is taken at its own
-	// temperature (a Newtonian viscosity curve, for instance). Its values
-	// must be comparable (lethality.Newtonian and PowerLaw are): equal ones
-	// share cached speeds.
+	// RheologyAt, when set, gives the rheology at a temperature (°C) (a
+	// Newtonian viscosity curve, for instance). The engine takes each
+	// interval's Reynolds number with it at the colder of the recorded
+	// temperature and Setpoint: product recorded below the setpoint is
+	// more viscous, and product recorded above it is never credited beyond
+	// the design model, which takes the viscosity at the setpoint
+	// (docs/METHOD.md §13.4). Its values must be comparable
+	// (lethality.Newtonian and PowerLaw are): equal ones share cached speeds.
 	RheologyAt func(temperature float64) lethality.Rheology
 	Density    float64 // kg/m³ at the holding temperature, > 0
 	// FastestToMean overrides u_max/u_mean for every flow when > 0; 0 takes

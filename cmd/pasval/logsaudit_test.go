@@ -45,3 +45,37 @@ func TestLogsClockTimesAsExactAsSeconds(t *testing.T) {
 		sameJSON(t, key, secs[key], clock[key], 0, skip)
 	}
 }
+
+// TestLogsViscosityNotCreditedAboveTheSetpoint: product recorded hotter than
+// the setpoint is not credited with its lower viscosity (docs/METHOD.md
+// §13.4). In the audit's cream run, 720–760 s at 78 °C and 1620 L/h against
+// a 76 °C setpoint: hand calculation, A = π (0.0475 m)²/4 = 1.77205e-3 m²,
+// v = 0.253943 m/s; μ ln-interpolated between the plant's 3.2 mPa·s at
+// 75 °C and 2.8 at 85 °C (docs/METHOD.md §4): 3.15755 mPa·s at 76 °C,
+// 3.07434 at 78 °C; Re = 1030 · 0.253943 · 0.0475 / μ = 3935 at the
+// setpoint (laminar: r = 2, 12 m / (2v) = 23.627 s, short of the 25 s row)
+// and 4041 at the reading (turbulent: 35.6 s, no event). The parcels leaving
+// from 728 s to 780 s are a lethality event: the audit's 52 s at 23.63 s.
+func TestLogsViscosityNotCreditedAboveTheSetpoint(t *testing.T) {
+	v, code := logsJSON(t, filepath.Join(auditRuns, "cream-plant.yaml"), filepath.Join(auditRuns, "cream-run.csv"))
+	if code != exitFail {
+		t.Errorf("exit %d, want 1", code)
+	}
+	var found bool
+	for _, e := range v["events"].([]any) {
+		e := e.(map[string]any)
+		if e["start"].(float64) < 720 {
+			continue
+		}
+		found = true
+		if e["kind"] != "lethality" || e["verdict"] != "product at risk" || e["start"] != 728.0 || e["duration_s"] != 52.0 {
+			t.Errorf("event %v at %v s for %v s, %v; want lethality at 728 s for 52 s, product at risk", e["kind"], e["start"], e["duration_s"], e["verdict"])
+		}
+		if got := e["min_residence_s"].(float64); math.Abs(got-23.627395) > 1e-5 {
+			t.Errorf("min residence %.6f s, want 23.627395 s", got)
+		}
+	}
+	if !found {
+		t.Error("no event after 720 s: the hotter samples were credited with their lower viscosity")
+	}
+}

@@ -55,11 +55,11 @@ def viscosity(t):
 
 
 def fastest_speed(q, t):
-    """u_max = r v (§7.2-7.4): laminar below Re 4000 (r = 2), else Petukhov's n_p."""
+    """u_max = r v (§7.2-7.4): laminar below Re 4000 (r = 2), else Petukhov's n_p; mu at min(t, setpoint) (§13.4)."""
     if q <= 0:
         return 0.0
     v = q / AREA
-    re = RHO * v * D / viscosity(t)
+    re = RHO * v * D / viscosity(min(t, SETPOINT))  # the colder of reading and setpoint (§13.4)
     if re < 4000:
         r = 2.0
     else:
