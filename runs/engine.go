@@ -27,6 +27,8 @@ type Engine struct {
 	lastU    float64   // its fastest-particle speed, m/s
 	lastRes  float64   // its parcel's residence, s
 	lastLR   []float64 // its parcel's log reduction per organism
+	low      bool      // Model.SensorAccuracy > 0: judge at the lowered reading too
+	lowLR    []float64 // scratch: a parcel's log reduction per organism at the lowered reading
 	required []float64 // each organism's required log reduction (0: none)
 	prevTime float64   // the latest time added (for order)
 	tr       tracker
@@ -85,7 +87,8 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		panic(fmt.Sprintf("%sNewEngine: gap threshold %g s", panicPrefix, opt.GapThreshold))
 	}
 	no := len(m.Organisms)
-	e := &Engine{m: m, threshold: opt.GapThreshold, origin: opt.Origin, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no),
+	low := m.SensorAccuracy > 0
+	e := &Engine{m: m, threshold: opt.GapThreshold, origin: opt.Origin, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no, low), low: low,
 		rheos: rheologies{ids: map[lethality.Rheology]uint32{}}}
 	e.tr.length = m.Tube.Length
 	if opt.Trace != 0 {
@@ -100,6 +103,10 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		MinForwardLogReduction: make([]float64, no), MedianInterval: math.NaN()}
 	for i := range e.sum.MinForwardLogReduction {
 		e.sum.MinForwardLogReduction[i] = math.Inf(1)
+	}
+	if low {
+		e.lowLR = make([]float64, no)
+		e.sum.MinForwardLogReductionAtSensorLow = infinities(no)
 	}
 	return e, nil
 }
@@ -289,6 +296,10 @@ func (e *Engine) close(s Sample, i int, d float64) {
 			reqMet = false
 		}
 	}
+	if !legal || !reqMet {
+		sum.SamplesShort++
+	}
+	lowShort := e.low && e.judgeLow()
 	var class eventClass
 	switch {
 	case gap:
@@ -325,6 +336,17 @@ func (e *Engine) close(s Sample, i int, d float64) {
 	for k, lr := range e.lastLR {
 		ev.MinLogReduction[k] = math.Min(ev.MinLogReduction[k], lr)
 	}
+	if e.low {
+		if ev.MinLogReductionAtSensorLow == nil {
+			ev.MinLogReductionAtSensorLow = infinities(len(e.lowLR))
+		}
+		for k, lr := range e.lowLR {
+			ev.MinLogReductionAtSensorLow[k] = math.Min(ev.MinLogReductionAtSensorLow[k], lr)
+		}
+		if lowShort {
+			ev.SamplesShortAtSensorLow++
+		}
+	}
 	if gap {
 		ev.AtRiskVolume += vol
 		return
@@ -343,6 +365,39 @@ func (e *Engine) close(s Sample, i int, d float64) {
 		ev.allMet = false
 		ev.AtRiskVolume += vol
 	}
+}
+
+// judgeLow judges the last sample's parcel with its reading lowered by the
+// sensor accuracy (the residence as recorded: the accuracy is a doubt about
+// the reading, applied where the rules read a temperature, docs/METHOD.md
+// §13.4): it fills e.lowLR, books the summary's figures and says whether the
+// parcel then fails a legal row or a required log reduction.
+func (e *Engine) judgeLow() (short bool) {
+	sum := &e.sum
+	short = !e.lastTemp.meetsLegalLow(e.lastRes, &e.m)
+	for k, d := range e.lastTemp.dLow {
+		lr := e.lastRes / d
+		e.lowLR[k] = lr
+		if lr < sum.MinForwardLogReductionAtSensorLow[k] {
+			sum.MinForwardLogReductionAtSensorLow[k] = lr
+		}
+		if r := e.required[k]; r > 0 && !(lr >= r) {
+			short = true
+		}
+	}
+	if short {
+		sum.SamplesShortAtSensorLow++
+	}
+	return short
+}
+
+// infinities is n values of +Inf, the start of a minimum.
+func infinities(n int) []float64 {
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = math.Inf(1)
+	}
+	return v
 }
 
 // trackDrop follows the temperature drops below the setpoint.
@@ -428,6 +483,9 @@ func (e *Engine) Finish() Result {
 		s.MinForwardTemperature, s.MaxForwardFlow, s.MinForwardResidence = math.NaN(), math.NaN(), math.NaN()
 		for k := range s.MinForwardLogReduction {
 			s.MinForwardLogReduction[k] = math.NaN()
+		}
+		for k := range s.MinForwardLogReductionAtSensorLow {
+			s.MinForwardLogReductionAtSensorLow[k] = math.NaN()
 		}
 	}
 	if e.events == nil {

@@ -687,3 +687,54 @@ func TestViscosityAtTheColderOfReadingAndSetpoint(t *testing.T) {
 		})
 	}
 }
+
+// TestSensorLowReading: with a sensor accuracy, every forward parcel is
+// judged once more with its reading lowered by it, beside the verdicts on
+// the readings as recorded (docs/METHOD.md §13.4). Setpoint and row at
+// 72 °C, accuracy 0.25 K, 10 000 L/h throughout (one residence, L/u):
+// 50 samples at 72.10 °C meet the row as recorded and miss it at 71.85 °C;
+// 50 at 72.30 °C meet it either way (72.05 °C); then 5 at 71.95 °C, below
+// the setpoint and the row, an event whose parcels fail either way.
+func TestSensorLowReading(t *testing.T) {
+	m := demoModel(t)
+	m.Setpoint, m.SensorAccuracy = 72, 0.25
+	m.Legal = []lethality.LegalRow{{Temperature: 72, Time: 15}}
+	q := 10000 * lh
+	var s []runs.Sample
+	for i := range 105 {
+		temp := 72.10
+		switch {
+		case i >= 100:
+			temp = 71.95
+		case i >= 50:
+			temp = 72.30
+		}
+		s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: q, Forward: true})
+	}
+	res := analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	resid := m.Tube.Length / uMax(m, 10000) // 17.94 s: meets 15 s wherever a row applies
+	// Listeria, D = 0.9 s · 10^((71.7 − T)/6.3) (the plant file's kinetics,
+	// docs/METHOD.md §9.1): its LR is far above 5 at every temperature here.
+	dL := func(temp float64) float64 { return 0.9 * math.Pow(10, (71.7-temp)/6.3) }
+	sum := res.Summary
+	if sum.SamplesShort != 5 || sum.SamplesShortAtSensorLow != 55 {
+		t.Errorf("samples short %d as recorded, %d at the low reading; want 5 and 55", sum.SamplesShort, sum.SamplesShortAtSensorLow)
+	}
+	checkNear(t, "min LR at the low reading", sum.MinForwardLogReductionAtSensorLow[1], resid/dL(71.95-0.25), 1e-12)
+	checkNear(t, "min LR as recorded", sum.MinForwardLogReduction[1], resid/dL(71.95), 1e-12)
+	if len(res.Events) != 1 || res.Events[0].Kind != runs.KindTemperature || res.Events[0].Verdict != runs.ProductAtRisk {
+		t.Fatalf("events %+v; want the dip, product at risk", res.Events)
+	}
+	e := res.Events[0]
+	if e.SamplesShortAtSensorLow != 5 {
+		t.Errorf("event: %d samples short at the low reading, want 5", e.SamplesShortAtSensorLow)
+	}
+	checkNear(t, "event min LR at the low reading", e.MinLogReductionAtSensorLow[1], resid/dL(71.7), 1e-12)
+
+	// Without an accuracy, nothing at the low reading.
+	m.SensorAccuracy = 0
+	plain := analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	if plain.Summary.SamplesShortAtSensorLow != 0 || plain.Summary.MinForwardLogReductionAtSensorLow != nil || plain.Events[0].MinLogReductionAtSensorLow != nil {
+		t.Errorf("without an accuracy: %+v", plain.Summary)
+	}
+}

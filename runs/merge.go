@@ -19,9 +19,16 @@ func MergeSummaries(runs []Summary) Summary {
 	for k := range m.MinForwardLogReduction {
 		m.MinForwardLogReduction[k] = math.NaN()
 	}
+	if runs[0].MinForwardLogReductionAtSensorLow != nil {
+		m.MinForwardLogReductionAtSensorLow = make([]float64, len(runs[0].MinForwardLogReductionAtSensorLow))
+		for k := range m.MinForwardLogReductionAtSensorLow {
+			m.MinForwardLogReductionAtSensorLow[k] = math.NaN()
+		}
+	}
 	for _, r := range runs {
-		if len(r.MinForwardLogReduction) != len(m.MinForwardLogReduction) {
-			panic(panicPrefix + "MergeSummaries: runs judged with different organisms")
+		if len(r.MinForwardLogReduction) != len(m.MinForwardLogReduction) ||
+			len(r.MinForwardLogReductionAtSensorLow) != len(m.MinForwardLogReductionAtSensorLow) {
+			panic(panicPrefix + "MergeSummaries: runs judged with different organisms or sensor accuracies")
 		}
 		m.Rows += r.Rows
 		m.Start, m.End = math.Min(m.Start, r.Start), math.Max(m.End, r.End)
@@ -31,6 +38,11 @@ func MergeSummaries(runs []Summary) Summary {
 		m.DivertedVolume += r.DivertedVolume
 		m.ForwardSamples += r.ForwardSamples
 		m.Gaps += r.Gaps
+		m.SamplesShort += r.SamplesShort
+		m.SamplesShortAtSensorLow += r.SamplesShortAtSensorLow
+		for k, v := range r.MinForwardLogReductionAtSensorLow {
+			m.MinForwardLogReductionAtSensorLow[k] = minKnown(m.MinForwardLogReductionAtSensorLow[k], v)
+		}
 		m.MinForwardTemperature = minKnown(m.MinForwardTemperature, r.MinForwardTemperature)
 		m.MaxForwardFlow = -minKnown(-m.MaxForwardFlow, -r.MaxForwardFlow)
 		m.MinForwardResidence = minKnown(m.MinForwardResidence, r.MinForwardResidence)

@@ -46,6 +46,11 @@
 //	summary.min_forward_log_reduction_by_organism
 //	                                    Summary.MinForwardLogReduction[i] keyed by Model.Organisms[i].Name
 //	summary.min_forward_residence_s     Summary.MinForwardResidence
+//	summary.samples_short               Summary.SamplesShort
+//	summary.sensor_low_K                Model.SensorAccuracy (the keys "at sensor low" only when > 0)
+//	summary.samples_short_at_sensor_low Summary.SamplesShortAtSensorLow
+//	summary.min_forward_log_reduction_at_sensor_low(_by_organism)
+//	                                    Summary.MinForwardLogReductionAtSensorLow
 //	summary.gaps                        Summary.Gaps
 //	summary.bad_rows                    (the reader's count of skipped rows)
 //	summary.median_interval_s           Summary.MedianInterval (the resolution of every time)
@@ -59,6 +64,8 @@
 //	events[].min_residence_s            Event.MinResidence
 //	events[].min_sample_residence_s     Event.MinSampleResidence (the per-sample estimate beside it)
 //	events[].legal_row_met              Event.LegalRowMet
+//	events[].samples_short_at_sensor_low, min_log_reduction_at_sensor_low(_by_organism)
+//	                                    Event.SamplesShortAtSensorLow, MinLogReductionAtSensorLow
 //	events[].divert_after_s             Event.DivertAfter (null when nil)
 //	drops[]                             Result.Drops (every drop below the setpoint, diverted ones too)
 //
@@ -106,6 +113,12 @@ type Model struct {
 	Legal         []lethality.LegalRow
 	Setpoint      float64 // °C, the diversion setpoint (cut-out)
 	MaxFlow       float64 // m³/s, the sealed maximum flow, > 0
+	// SensorAccuracy is the outlet sensor's stated accuracy, K, ≥ 0; 0 for
+	// none. Readings are judged as recorded; beside them each forward
+	// sample's parcel is judged once more with its reading lowered by this
+	// much (the legal table and the kinetics read there; the residence is
+	// the recorded one), for Summary's and Event's figures "at sensor low".
+	SensorAccuracy float64
 }
 
 // ErrNoCriteria is returned for a model with neither legal rows nor an
@@ -115,9 +128,10 @@ var ErrNoCriteria = errors.New("neither a legal time–temperature row nor a req
 // check panics on a model no plant file can produce.
 func (m *Model) check() error {
 	if !(m.Tube.InnerDiameter > 0) || !(m.Tube.Length > 0) || !(m.Density > 0) || !(m.MaxFlow > 0) ||
-		math.IsNaN(m.Setpoint) || math.IsInf(m.Setpoint, 0) || m.FastestToMean < 0 || (m.Rheology == nil && m.RheologyAt == nil) {
-		panic(fmt.Sprintf("%sNewEngine: invalid model: tube %+v, density %g, max flow %g, setpoint %g, fastest-to-mean %g, rheology %v",
-			panicPrefix, m.Tube, m.Density, m.MaxFlow, m.Setpoint, m.FastestToMean, m.Rheology != nil || m.RheologyAt != nil))
+		math.IsNaN(m.Setpoint) || math.IsInf(m.Setpoint, 0) || m.FastestToMean < 0 || (m.Rheology == nil && m.RheologyAt == nil) ||
+		!(m.SensorAccuracy >= 0) || math.IsInf(m.SensorAccuracy, 0) {
+		panic(fmt.Sprintf("%sNewEngine: invalid model: tube %+v, density %g, max flow %g, setpoint %g, fastest-to-mean %g, rheology %v, sensor accuracy %g",
+			panicPrefix, m.Tube, m.Density, m.MaxFlow, m.Setpoint, m.FastestToMean, m.Rheology != nil || m.RheologyAt != nil, m.SensorAccuracy))
 	}
 	required := false
 	for _, o := range m.Organisms {
@@ -227,6 +241,12 @@ type Event struct {
 	LegalRowMet        bool // every parcel met a legal row; false for a gap (no proof)
 	Verdict            Verdict
 	AtRiskVolume       float64 // m³: the samples whose parcels failed; all of a gap
+	// With Model.SensorAccuracy > 0, the parcels judged with the reading
+	// lowered by it: how many of the event's samples' parcels then fail a
+	// legal row or a required log reduction, and the least log reduction
+	// per organism. Zero and nil without a sensor accuracy.
+	SamplesShortAtSensorLow    int
+	MinLogReductionAtSensorLow []float64
 	// Drop is the index in Result.Drops of the temperature drop the event
 	// belongs to; −1 for a flow event or a gap.
 	Drop int
@@ -266,7 +286,16 @@ type Summary struct {
 	MaxForwardFlow         float64   // m³/s
 	MinForwardLogReduction []float64 // per organism, Model order
 	MinForwardResidence    float64   // s
-	Gaps                   int       // gap events
+	// SamplesShort counts the forward samples whose parcels failed a legal
+	// row or a required log reduction (a gap's included, judged on its
+	// parcel figures).
+	SamplesShort int
+	// With Model.SensorAccuracy > 0, the same with every reading lowered by
+	// it (Event's fields of the name); MinForwardLogReductionAtSensorLow is
+	// NaN without forward samples, nil without a sensor accuracy.
+	SamplesShortAtSensorLow           int
+	MinForwardLogReductionAtSensorLow []float64
+	Gaps                              int // gap events
 	// MedianInterval is the median of the first MedianWindow positive
 	// intervals (NaN with none): the resolution of every time here.
 	MedianInterval float64

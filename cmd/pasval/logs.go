@@ -130,6 +130,9 @@ func writeRunReview(w io.Writer, rev *assess.RunReview, d present.Display) {
 			fmt.Fprintf(w, "    … and %d more\n", more)
 		}
 	}
+	if text := present.SensorLow(rev, d); text != "" {
+		fmt.Fprint(w, "\n"+wrap(text, "  ", 88))
+	}
 
 	if rev.Events() > 0 {
 		fmt.Fprintf(w, "\nEvents (%s)\n", present.TimeBasis(rev))

@@ -6,7 +6,9 @@ package main
 
 import (
 	"math"
+	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
@@ -77,5 +79,56 @@ func TestLogsViscosityNotCreditedAboveTheSetpoint(t *testing.T) {
 	}
 	if !found {
 		t.Error("no event after 720 s: the hotter samples were credited with their lower viscosity")
+	}
+}
+
+// TestLogsSensorLowReading: with process.sensor_accuracy the review shows,
+// beside the verdicts on the readings as recorded, the parcels judged with
+// every reading lowered by it (docs/METHOD.md §13.4; the figures themselves
+// are held to the independent reference in TestLogsAgainstReference); without
+// it the keys are null and the sentence is left out.
+func TestLogsSensorLowReading(t *testing.T) {
+	v, _ := logsJSON(t, demoPlant, demoRun)
+	s := v["summary"].(map[string]any)
+	// The demo plant's 0.25 °C; one more parcel falls short at the low
+	// reading than as recorded: the dip to 72.24 °C reads 71.99 °C, below
+	// every legal row (72, 89 and 90 °C).
+	if s["sensor_low_K"] != 0.25 || s["samples_short"] != 40.0 || s["samples_short_at_sensor_low"] != 41.0 {
+		t.Errorf("sensor low %v K, short %v as recorded and %v at the low reading; want 0.25, 40, 41",
+			s["sensor_low_K"], s["samples_short"], s["samples_short_at_sensor_low"])
+	}
+	first := v["events"].([]any)[0].(map[string]any)
+	if first["samples_short_at_sensor_low"] != 1.0 || first["verdict"] != "limits met" {
+		t.Errorf("the 72.24 °C dip: %v short at the low reading, verdict %v; want 1 and limits met as recorded",
+			first["samples_short_at_sensor_low"], first["verdict"])
+	}
+	for _, c := range []struct{ units, want string }{
+		{"si", "With the sensor reading 0.25 K low (its stated accuracy), 41 forward samples' parcels\n  would fall short"},
+		{"us", "With the sensor reading 0.45 °F low"},
+	} {
+		out, _, _ := runBinary(t, "logs", demoPlant, demoRun, "--units", c.units)
+		if !strings.Contains(out, c.want) || !strings.Contains(out, "The verdicts take the readings\n  as recorded.") && c.units == "si" {
+			t.Errorf("--units %s: no %q in\n%s", c.units, c.want, out)
+		}
+	}
+
+	src, err := os.ReadFile(demoPlant)
+	if err != nil {
+		t.Fatal(err)
+	}
+	plant := filepath.Join(t.TempDir(), "no-accuracy.yaml")
+	writeFile(t, plant, strings.Replace(string(src), "  sensor_accuracy: 0.25 °C", "", 1))
+	v, _ = logsJSON(t, plant, demoRun)
+	s = v["summary"].(map[string]any)
+	for _, k := range []string{"sensor_low_K", "samples_short_at_sensor_low", "min_forward_log_reduction_at_sensor_low", "min_forward_log_reduction_at_sensor_low_by_organism"} {
+		if got, ok := s[k]; !ok || got != nil {
+			t.Errorf("without an accuracy: summary.%s = %v (present %v), want null", k, got, ok)
+		}
+	}
+	if s["samples_short"] != 40.0 {
+		t.Errorf("samples short as recorded %v without an accuracy, want 40", s["samples_short"])
+	}
+	if out, _, _ := runBinary(t, "logs", plant, demoRun); strings.Contains(out, "sensor reading") {
+		t.Errorf("without an accuracy the review speaks of the sensor:\n%s", out)
 	}
 }

@@ -40,7 +40,8 @@ func NewRunModel(p *plantfile.Plant) (RunModel, error) {
 		return RunModel{}, holdingInputError(p, err)
 	}
 	m := runs.Model{Tube: ev.Tube, Rheology: ev.Rheology, Density: in.Density, FastestToMean: in.FastestToMean,
-		Organisms: in.Organisms, Legal: in.Legal, Setpoint: in.Setpoint, MaxFlow: in.MaxMassFlow / in.Density}
+		Organisms: in.Organisms, Legal: in.Legal, Setpoint: in.Setpoint, MaxFlow: in.MaxMassFlow / in.Density,
+		SensorAccuracy: in.SensorAccuracy}
 	if in.FlowIndex == 0 && len(in.Viscosity) > 1 {
 		// Each interval's Reynolds number at its own recorded temperature,
 		// on the product's viscosity curve (docs/METHOD.md §4 (viscosity)).

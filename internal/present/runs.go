@@ -173,6 +173,40 @@ func RunOverall(r *assess.RunReview) string {
 	return fmt.Sprintf("%d event%s (%s)", r.Events(), plural(r.Events()), strings.SplitN(eventCounts(r), ": ", 2)[1])
 }
 
+// SensorLow says, when the plant gives the sensor's accuracy, what the
+// review's parcels would have been with every reading lowered by it
+// (docs/METHOD.md §13.4): how many forward samples' parcels would fall
+// short, and the least log reduction per organism, each beside its value as
+// recorded. "" without an accuracy or without forward samples.
+func SensorLow(r *assess.RunReview, d Display) string {
+	a, s := r.Model.Model.SensorAccuracy, r.Summary
+	if !(a > 0) || s.ForwardSamples == 0 {
+		return ""
+	}
+	var b strings.Builder
+	whose := "samples'"
+	if s.SamplesShortAtSensorLow == 1 {
+		whose = "sample's"
+	}
+	fmt.Fprintf(&b, "with the sensor reading %s low (its stated accuracy), %d forward %s parcels would fall short of a legal row or a "+
+		"required log reduction, against %d as recorded", d.With(a, units.TemperatureDifference, 2), s.SamplesShortAtSensorLow, whose, s.SamplesShort)
+	orgs := r.Model.Model.Organisms
+	for i, o := range orgs {
+		switch i {
+		case 0:
+			b.WriteString("; the least log reduction would be ")
+		case len(orgs) - 1:
+			b.WriteString(" and ")
+		default:
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(&b, "%s for %s (%s as recorded)", logReduction(s.MinForwardLogReductionAtSensorLow[i]), o.Name, logReduction(s.MinForwardLogReduction[i]))
+	}
+	b.WriteString(". The verdicts take the readings as recorded.")
+	text := b.String()
+	return strings.ToUpper(text[:1]) + text[1:]
+}
+
 // residence prints a fastest-particle residence; +Inf is product that has
 // not moved since the run began.
 func residence(s float64) string {

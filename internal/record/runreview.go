@@ -207,6 +207,9 @@ func runSummarySection(rev *assess.RunReview, d present.Display) report.Section 
 		}
 		blocks = append(blocks, report.Paragraph{Text: "Malformed rows skipped (the first of each file):"}, report.Bullets{Items: lines})
 	}
+	if text := present.SensorLow(rev, d); text != "" {
+		blocks = append(blocks, report.Paragraph{Text: text})
+	}
 	return report.Section{Heading: "Summary", Blocks: blocks}
 }
 
