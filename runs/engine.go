@@ -20,6 +20,8 @@ type Engine struct {
 	// Waiting for the median interval.
 	pending   []Sample
 	intervals []float64
+	// The first MedianWindow forward samples' temperatures and flows.
+	fwdTemps, fwdFlows []float64
 
 	// The sample awaiting its held interval, and its parcel.
 	n        int // samples taken so far
@@ -158,12 +160,7 @@ func (e *Engine) Add(s Sample) error {
 // the samples held back.
 func (e *Engine) settle() {
 	if len(e.intervals) > 0 {
-		sort.Float64s(e.intervals)
-		n := len(e.intervals)
-		e.median = e.intervals[n/2]
-		if n%2 == 0 {
-			e.median = (e.intervals[n/2-1] + e.intervals[n/2]) / 2
-		}
+		e.median = median(e.intervals)
 		e.threshold = GapFactor * e.median
 	} else {
 		e.threshold = math.Inf(1)
@@ -257,6 +254,10 @@ func (e *Engine) close(s Sample, i int, d float64) {
 		sum.Forward += d
 		sum.ForwardVolume += vol
 		sum.ForwardSamples++
+		if len(e.fwdTemps) < MedianWindow {
+			e.fwdTemps = append(e.fwdTemps, s.Temperature)
+			e.fwdFlows = append(e.fwdFlows, s.Flow)
+		}
 		// Plain comparisons: every value here is a number (Add refuses NaN;
 		// a residence may be +Inf), and math.Min's NaN and −0 rules cost time
 		// in the per-sample path.
@@ -391,6 +392,20 @@ func (e *Engine) judgeLow() (short bool) {
 	return short
 }
 
+// median is the median of v, the mean of the middle two for an even count;
+// NaN for none. It sorts v.
+func median(v []float64) float64 {
+	n := len(v)
+	if n == 0 {
+		return math.NaN()
+	}
+	sort.Float64s(v)
+	if n%2 == 0 {
+		return (v[n/2-1] + v[n/2]) / 2
+	}
+	return v[n/2]
+}
+
 // infinities is n values of +Inf, the start of a minimum.
 func infinities(n int) []float64 {
 	v := make([]float64, n)
@@ -467,6 +482,8 @@ func (e *Engine) Finish() Result {
 	if e.n > 0 {
 		e.close(e.last, e.n-1, 0)
 	}
+	e.sum.MedianForwardTemperature, e.sum.MedianForwardFlow = median(e.fwdTemps), median(e.fwdFlows)
+	e.fwdTemps, e.fwdFlows = nil, nil
 	e.closeEvent()
 	e.done = true
 	for i := range e.events {

@@ -738,3 +738,28 @@ func TestSensorLowReading(t *testing.T) {
 		t.Errorf("without an accuracy: %+v", plain.Summary)
 	}
 }
+
+// TestForwardMedians: the medians of the first MedianWindow forward samples'
+// temperatures and flows, diverted samples left out (computed here from the
+// definition: the middle of the sorted values, the mean of the middle two
+// for an even count).
+func TestForwardMedians(t *testing.T) {
+	m := demoModel(t)
+	var s []runs.Sample
+	temps := []float64{60, 73.1, 72.9, 73.0, 73.4, 90} // the first and last diverted
+	for i, temp := range temps {
+		s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: float64(9000+500*i) * lh, Forward: i > 0 && i < len(temps)-1})
+	}
+	res := analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	// Forward: 73.1, 72.9, 73.0, 73.4 → (73.0 + 73.1)/2; flows 9500…11000 L/h → 10 250 L/h.
+	checkNear(t, "median forward temperature", res.Summary.MedianForwardTemperature, 73.05, 1e-12)
+	checkNear(t, "median forward flow", res.Summary.MedianForwardFlow, 10250*lh, 1e-12)
+	none := analyse(t, m, runs.Options{GapThreshold: 5}, s[:1])
+	if !math.IsNaN(none.Summary.MedianForwardTemperature) || !math.IsNaN(none.Summary.MedianForwardFlow) {
+		t.Errorf("no forward sample: medians %g, %g; want NaN", none.Summary.MedianForwardTemperature, none.Summary.MedianForwardFlow)
+	}
+	merged := runs.MergeSummaries([]runs.Summary{res.Summary, res.Summary})
+	if !math.IsNaN(merged.MedianForwardTemperature) {
+		t.Errorf("merged medians %g, want NaN (medians do not merge)", merged.MedianForwardTemperature)
+	}
+}

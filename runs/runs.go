@@ -296,6 +296,12 @@ type Summary struct {
 	SamplesShortAtSensorLow           int
 	MinForwardLogReductionAtSensorLow []float64
 	Gaps                              int // gap events
+	// MedianForwardTemperature and MedianForwardFlow are the medians over
+	// the first MedianWindow forward samples (°C, m³/s; NaN with none): what
+	// the run mostly recorded, to tell a column read in the wrong unit. A
+	// merged summary has them only when it merges one run (NaN otherwise).
+	MedianForwardTemperature float64
+	MedianForwardFlow        float64
 	// MedianInterval is the median of the first MedianWindow positive
 	// intervals (NaN with none): the resolution of every time here.
 	MedianInterval float64

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -130,5 +131,77 @@ func TestLogsSensorLowReading(t *testing.T) {
 	}
 	if out, _, _ := runBinary(t, "logs", plant, demoRun); strings.Contains(out, "sensor reading") {
 		t.Errorf("without an accuracy the review speaks of the sensor:\n%s", out)
+	}
+}
+
+// TestLogsUnitsImplausible: a column whose header names one unit but holds
+// values in another passes every parser; the review warns, with the
+// numbers, when the median forward temperature lies more than 15 K from the
+// setpoint or the median forward flow outside 0.2 to 5 × the normal rate
+// (docs/METHOD.md §13.1). The demo shift with its temperatures written in
+// °F under a [°C] header (73.00 °C = 163.40 °F: 1.8 × 73 + 32) and with its
+// flows in gpm under [L/h] (10 000 L/h = 44.03 gpm; 1 gpm = 3.785411784 L ×
+// 60 = 227.1247 L/h, NIST SP 811).
+func TestLogsUnitsImplausible(t *testing.T) {
+	plain, err := os.ReadFile(demoRun)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(plain)), "\n")
+	rewrite := func(name string, col int, f func(float64) float64) string {
+		out := []string{lines[0]}
+		for _, l := range lines[1:] {
+			p := strings.Split(l, ",")
+			v, err := strconv.ParseFloat(p[col], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			p[col] = strconv.FormatFloat(f(v), 'f', 2, 64)
+			out = append(out, strings.Join(p, ","))
+		}
+		path := filepath.Join(t.TempDir(), name)
+		writeFile(t, path, strings.Join(out, "\n")+"\n")
+		return path
+	}
+	cases := []struct {
+		name, path, code, field string
+		values                  map[string]float64 // to 1e-6 relative
+		words                   string
+	}{
+		{"°F under [°C]", rewrite("fahrenheit.csv", 1, func(c float64) float64 { return 1.8*c + 32 }), "run-temperature-implausible",
+			"hold_outlet_temperature",
+			// The median of the first 4096 forward samples: 73.00 °C in the demo, 163.40 °F.
+			map[string]float64{"median_C": 163.4, "setpoint_C": 72.5, "limit_K": 15},
+			"the median forward hold_outlet_temperature is 163.40 °C, 90.9 K from the setpoint 72.50 °C (more than 15 K): check the units of the column"},
+		{"gpm under [L/h]", rewrite("gpm.csv", 2, func(q float64) float64 { return q / 227.12470704 }), "run-flow-implausible", "flow_rate",
+			// The demo's median forward flow, 10 000 L/h, is 44.03 gpm, read as 44.03 L/h.
+			map[string]float64{"median_m3_s": 44.03 / 3.6e6, "normal_m3_s": 10000 / 3.6e6, "low_ratio": 0.2, "high_ratio": 5},
+			"the median forward flow_rate is 44 L/h, 0.0044 × the plant's normal rate 10000 L/h (outside 0.2 to 5 ×): check the units of the column"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			v, _ := logsJSON(t, demoPlant, c.path)
+			ws := v["warnings"].([]any)
+			if len(ws) != 1 {
+				t.Fatalf("warnings %v, want one", ws)
+			}
+			w := ws[0].(map[string]any)
+			if w["code"] != c.code || w["file"] != c.path || w["field"] != c.field || !strings.Contains(w["message"].(string), c.words) {
+				t.Errorf("warning %v", w)
+			}
+			for k, want := range c.values {
+				if got, ok := w["values"].(map[string]any)[k].(float64); !ok || math.Abs(got-want) > 1e-6*math.Abs(want) {
+					t.Errorf("values.%s = %v, want %g", k, w["values"].(map[string]any)[k], want)
+				}
+			}
+			out, _, _ := runBinary(t, "logs", demoPlant, c.path)
+			if !strings.Contains(strings.Join(strings.Fields(out), " "), "Warnings ! "+c.path+": "+c.words) { // the words unwrapped
+				t.Errorf("the text shows no warning:\n%s", out)
+			}
+		})
+	}
+	// The demo as written: no warning.
+	if v, _ := logsJSON(t, demoPlant, demoRun); len(v["warnings"].([]any)) != 0 {
+		t.Errorf("the demo shift: warnings %v, want none", v["warnings"])
 	}
 }

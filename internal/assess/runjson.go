@@ -28,6 +28,8 @@ type ReviewJSON struct {
 	// (docs/METHOD.md §17); absent when none has.
 	Heating *HeatingJSON  `json:"heating,omitempty"`
 	Files   []RunFileJSON `json:"files"`
+	// Warnings are the review's warnings (the caller words them, in SI).
+	Warnings []Warning `json:"warnings"`
 	// SamplingNote states the sampling interval's limit on every time of
 	// the review, in words (internal/present fills it, in SI).
 	SamplingNote string `json:"sampling_note"`
@@ -118,7 +120,7 @@ func (r *RunReview) JSON() ReviewJSON {
 	s := r.Summary
 	orgs := r.Model.Model.Organisms
 	out := ReviewJSON{Tool: "pasval", Version: version.Version, Plant: r.Plant.File, PlantSHA256: r.Plant.SHA256,
-		Events: []EventJSON{}, Drops: []DropJSON{}, Files: []RunFileJSON{}, Caution: r.Caution}
+		Events: []EventJSON{}, Drops: []DropJSON{}, Files: []RunFileJSON{}, Warnings: append([]Warning{}, r.Warnings...), Caution: r.Caution}
 	out.Summary = SummaryJSON{Rows: s.Rows, Start: r.timeJSON(s.Start), End: r.timeJSON(s.End), ForwardS: s.Forward, DivertedS: s.Diverted,
 		ForwardVolumeL: r.Model.Recorded(s.ForwardVolume) * 1e3, DivertedVolumeL: r.Model.Recorded(s.DivertedVolume) * 1e3,
 		MinForwardTemperatureC: number(s.MinForwardTemperature), MaxForwardFlowLh: number(r.Model.Recorded(s.MaxForwardFlow) * m3sToLh),

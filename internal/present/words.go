@@ -166,6 +166,8 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 			"(%s) allows on purpose", d.temp(v["outlet_C"]), d.coldLimit(v["limit_C"]), d.temp(v["target_C"]))
 	case assess.WarnAcceptanceNotJudged:
 		return notJudgedText(w, p, d)
+	case assess.WarnRunTemperatureUnit, assess.WarnRunFlowUnit:
+		return runUnitText(w, d)
 	}
 	if text, ok := packWarningText(w, p, d); ok {
 		return text
