@@ -5,12 +5,18 @@ package main
 // the audit asked for.
 
 import (
+	"bytes"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/spf13/cobra"
+
+	"pasval/internal/runlog"
 )
 
 const auditRuns = "../../testdata/audit-runs"
@@ -203,5 +209,45 @@ func TestLogsUnitsImplausible(t *testing.T) {
 	// The demo as written: no warning.
 	if v, _ := logsJSON(t, demoPlant, demoRun); len(v["warnings"].([]any)) != 0 {
 		t.Errorf("the demo shift: warnings %v, want none", v["warnings"])
+	}
+}
+
+// TestRunMessagesNameTheFlags: the reader's messages that say what to change
+// name the command line's flags, and each flag they name is one that logs
+// and report register (the names are runlog's constants).
+func TestRunMessagesNameTheFlags(t *testing.T) {
+	for _, cmd := range []*cobra.Command{newLogsCmd(io.Discard), newReportCmd(io.Discard)} {
+		for _, f := range []string{runlog.FlagSeparator, runlog.FlagDecimalComma, runlog.FlagColumns, runlog.FlagTemperatureUnit,
+			runlog.FlagFlowUnit, runlog.FlagTimezone, runlog.FlagSkipBadRows, runlog.FlagGap, runlog.FlagWindow} {
+			if cmd.Flags().Lookup(strings.TrimPrefix(f, "--")) == nil {
+				t.Errorf("%s has no flag %s", cmd.Name(), f)
+			}
+		}
+	}
+	dir := t.TempDir()
+	const row = "2026-03-14T06:00:00Z,73,10000,1\n"
+	for _, c := range []struct{ name, text, msg string }{
+		{"no-unit.csv", "time,hold_outlet_temperature,flow_rate [L/h],forward\n" + row, "or give --temperature-unit"},
+		{"no-flow-unit.csv", "time,hold_outlet_temperature [°C],flow_rate,forward\n" + row, "or give --flow-unit"},
+		{"renamed.csv", "time,TT-301 [°C],flow_rate [L/h],forward\n" + row, "name the file's column for it with --columns hold_outlet_temperature=NAME"},
+		{"decimal-comma.csv", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;73,0;10000;1\n",
+			"if the file is written with decimal commas, read it with --decimal-comma"},
+		{"heating-partial.csv", "time,hold_outlet_temperature [°C],flow_rate [L/h],forward,heating_product_in [°C]\n" + strings.TrimSuffix(row, "\n") + ",61\n",
+			"name the file's columns for them with --columns heating_product_out=NAME"},
+	} {
+		path := filepath.Join(dir, c.name)
+		writeFile(t, path, c.text)
+		var out, errb bytes.Buffer
+		if code := run([]string{"logs", demoPlant, path}, &out, &errb); code != exitInput || !strings.Contains(errb.String(), c.msg) {
+			t.Errorf("%s: exit %d, %q; want 2 and %q", c.name, code, errb.String(), c.msg)
+		}
+	}
+	// Skipping: the limit names its flag.
+	bad := filepath.Join(dir, "two-bad.csv")
+	writeFile(t, bad, "time,hold_outlet_temperature [°C],flow_rate [L/h],forward\n"+row+"2026-03-14T06:00:01Z,x,10000,1\n2026-03-14T06:00:02Z,y,10000,1\n")
+	var out, errb bytes.Buffer
+	if code := run([]string{"logs", demoPlant, bad, "--skip-bad-rows", "1"}, &out, &errb); code != exitInput ||
+		!strings.Contains(errb.String(), "(one more than --skip-bad-rows 1 allows)") {
+		t.Errorf("over the limit: exit %d, %q", code, errb.String())
 	}
 }

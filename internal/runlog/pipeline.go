@@ -358,7 +358,7 @@ func (r *Reader) Next() bool {
 			r.ei++
 			if e.fatal || r.bad >= r.opt.SkipBadRows {
 				if r.bad > 0 && !e.fatal {
-					e.err.Msg += fmt.Sprintf(" (one more than the %d bad rows allowed)", r.opt.SkipBadRows)
+					e.err.Msg += fmt.Sprintf(" (one more than %s %d allows)", FlagSkipBadRows, r.opt.SkipBadRows)
 				}
 				r.fail(e.err)
 				return false

@@ -292,7 +292,11 @@ func (p *parser) numberError(n *numField, b []byte, lineNo int) *inputerr.Error 
 		return inputerr.At(pos, n.key, "empty: expected a number")
 	case !c.decimalComma && bytes.IndexByte(b, ',') >= 0:
 		if _, ok := parseNumber(b, true); ok {
-			return inputerr.At(pos, n.key, "expected a number with '.' as the decimal mark, found %q: is the file written with decimal commas?", clip(b))
+			how := "read it with " + FlagDecimalComma
+			if c.sep == ',' {
+				how = "export it with ';' or tabs between columns and read it with " + FlagDecimalComma
+			}
+			return inputerr.At(pos, n.key, "expected a number with '.' as the decimal mark, found %q: if the file is written with decimal commas, %s", clip(b), how)
 		}
 	case c.decimalComma && bytes.IndexByte(b, '.') >= 0:
 		return inputerr.At(pos, n.key, "expected a number with ',' as the decimal mark, found %q ('.' could be a thousands separator)", clip(b))

@@ -286,14 +286,19 @@ func TestBadFiles(t *testing.T) {
 		{"header only", hdr, Options{}, 2, 1, "", "no data rows"},
 		{"unknown unit", "time,hold_outlet_temperature [°X],flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "not a unit of temperature"},
 		{"flow unit of the wrong kind", "time,hold_outlet_temperature [°C],flow_rate [kPa],forward\n" + row, Options{}, 1, 36, KeyFlow, "not a unit of volumetric flow or mass flow"},
-		{"no unit", "time,hold_outlet_temperature,flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "no unit"},
-		{"unit conflict", hdr + row, Options{TemperatureUnit: "°F"}, 1, 6, KeyTemperature, "the header says [°C] but the unit option says"},
-		{"missing column", "time,hold_outlet_temperature [°C],flow_rate [L/h]\n2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 1, 1, KeyForward, `no column "forward"`},
+		// Messages that say what to change name the command line's flags.
+		{"no unit", "time,hold_outlet_temperature,flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "no unit for temperature: write it in the header, as \"hold_outlet_temperature [°C]\", or give --temperature-unit"},
+		{"no flow unit", "time,hold_outlet_temperature [°C],flow_rate,forward\n" + row, Options{}, 1, 36, KeyFlow, "or give --flow-unit"},
+		{"unit conflict", hdr + row, Options{TemperatureUnit: "°F"}, 1, 6, KeyTemperature, `the header says [°C] but --temperature-unit says "°F"`},
+		{"missing column", "time,hold_outlet_temperature [°C],flow_rate [L/h]\n2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 1, 1, KeyForward, `no column "forward" (it has "time", "hold_outlet_temperature [°C]", "flow_rate [L/h]"); name the file's column for it with --columns forward=NAME`},
 		{"two columns for one key", "time,hold_outlet_temperature [°C],flow_rate [L/h],forward,Forward\n", Options{}, 1, 60, KeyForward, "a second column"},
-		{"decimal comma with a ',' header", hdr + row, Options{DecimalComma: true}, 1, 1, "", "cannot go with decimal commas"},
-		{"separator unknown", "time hold_outlet_temperature flow_rate forward\n", Options{}, 1, 1, "", "cannot tell the separator"},
+		{"decimal comma with a ',' header", hdr + row, Options{DecimalComma: true}, 1, 1, "", "cannot go with decimal commas: export with ';' or tabs between columns, or read without --decimal-comma"},
+		{"separator unknown", "time hold_outlet_temperature flow_rate forward\n", Options{}, 1, 1, "", "give --separator if the header uses several"},
 		{"text in a number", hdr + row + "2026-03-14T06:00:01Z,72.8,ten,1\n", Options{}, 3, 27, KeyFlow, `expected a number, found "ten"`},
-		{"decimal comma unannounced", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10000;1\n", Options{}, 2, 22, KeyTemperature, "decimal commas"},
+		{"decimal comma unannounced", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10000;1\n", Options{}, 2, 22, KeyTemperature,
+			`found "72,8": if the file is written with decimal commas, read it with --decimal-comma`},
+		{"decimal comma in quotes, ',' separator", hdr + "2026-03-14T06:00:00Z,\"72,8\",10000,1\n", Options{}, 2, 22, KeyTemperature,
+			"export it with ';' or tabs between columns and read it with --decimal-comma"},
 		{"point with decimal comma", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10.000;1\n", Options{DecimalComma: true}, 2, 27, KeyFlow, "thousands separator"},
 		{"time backwards", hdr + row + "2026-03-14T06:00:02Z,72.8,10000,1\n2026-03-14T06:00:01Z,72.8,10000,1\n", Options{}, 4, 1, KeyTime, "time goes backwards"},
 		{"bad time", hdr + row + "2026-03-14T06:00:61Z,72.8,10000,1\n", Options{}, 3, 1, KeyTime, "expected an RFC 3339 date and time"},
@@ -367,7 +372,7 @@ func TestSkipBadRows(t *testing.T) {
 		for r.Next() {
 		}
 		var l inputerr.List
-		if !errors.As(r.Err(), &l) || len(l) != 4 || l[3].Pos.Line != 9 || !strings.Contains(l[3].Msg, "one more than the 3 bad rows allowed") {
+		if !errors.As(r.Err(), &l) || len(l) != 4 || l[3].Pos.Line != 9 || !strings.Contains(l[3].Msg, "one more than --skip-bad-rows 3 allows") {
 			t.Errorf("error %v", r.Err())
 		}
 	})
