@@ -3,6 +3,7 @@ package runlog
 import (
 	"bytes"
 	"fmt"
+	"math"
 	"strings"
 
 	"pasval/internal/inputerr"
@@ -92,6 +93,18 @@ func (r *Reader) readHeader() error {
 		r.cfg.numeric = append(r.cfg.numeric, n)
 	}
 	r.cfg.setRoles()
+	if r.cfg.nOptional > 0 {
+		r.cfg.noOptional = make([]float64, r.cfg.nOptional)
+		for c := range r.opt.Optional {
+			if r.found[len(Standard)+c].Index >= 0 {
+				r.cfg.noOptional = nil // some are read: each record has its own
+				break
+			}
+		}
+		for i := range r.cfg.noOptional {
+			r.cfg.noOptional[i] = math.NaN()
+		}
+	}
 	return nil
 }
 

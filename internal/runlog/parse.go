@@ -302,6 +302,14 @@ var flagWords = [...]struct {
 // bytes it took. No word is the start of another, so the first that fits is
 // the only one.
 func scanFlag(b []byte) (forward bool, n int, ok bool) {
+	if len(b) > 0 { // the common case first: "1" and "0" begin no other word
+		switch b[0] {
+		case '1':
+			return true, 1, true
+		case '0':
+			return false, 1, true
+		}
+	}
 	for _, w := range flagWords {
 		if len(b) >= len(w.word) && equalFold(b[:len(w.word)], w.word) {
 			return w.forward, len(w.word), true

@@ -78,8 +78,12 @@ func (r *Reader) start() {
 	}
 }
 
-// stop ends the goroutines and waits for them.
+// stop ends the goroutines and waits for them (the hashing one too: after
+// the producer's finish it has nothing left to do).
 func (r *Reader) stop() {
+	if r.hash != nil {
+		defer r.hash.abort()
+	}
 	if r.quit == nil {
 		return
 	}
@@ -137,7 +141,9 @@ func (r *Reader) produce(jobs chan<- job) {
 				// Hash the whole file as stored, trailing bytes included.
 				if _, err := io.Copy(io.Discard, r.raw); err != nil {
 					r.sendFatal(inputerr.At(inputerr.Pos{File: r.cfg.name}, "", "cannot read to the end: %v", err))
+					return
 				}
+				r.hash.finish()
 			}
 			return
 		}
@@ -215,7 +221,7 @@ func (p *parser) parseBlock(blk block, b *batch) {
 	// growing by appending would copy the records over and over.
 	if n := len(data)/p.lineLen + 64; cap(b.recs) < n {
 		b.recs = make([]Record, 0, n)
-		if k := p.cfg.nOptional; k > 0 {
+		if k := p.cfg.nOptional; k > 0 && p.cfg.noOptional == nil {
 			b.opt = make([]float64, 0, n*k)
 		}
 	}
@@ -236,7 +242,13 @@ func (p *parser) parseBlock(blk block, b *batch) {
 		if len(l) == 0 {
 			continue
 		}
-		rec := b.grow(p.cfg.nOptional)
+		var rec *Record
+		if p.cfg.noOptional != nil {
+			rec = b.grow(0)
+			rec.Optional = p.cfg.noOptional
+		} else {
+			rec = b.grow(p.cfg.nOptional)
+		}
 		if blk.quotes || blk.general || !p.fastRow(l, lineNo, rec, &res) {
 			p.parseRow(l, lineNo, rec, blk.quotes, &res)
 		}

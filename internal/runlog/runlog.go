@@ -57,9 +57,7 @@ package runlog
 import (
 	"bufio"
 	"compress/gzip"
-	"crypto/sha256"
 	"errors"
-	"hash"
 	"io"
 	"os"
 	"sync"
@@ -118,7 +116,8 @@ type Record struct {
 	Flow        float64 // m³/s, or kg/s when the Reader's FlowIsMass
 	Forward     bool
 	// Optional holds Options.Optional's columns in SI, in that order; NaN
-	// where the column is absent or the cell empty.
+	// where the column is absent or the cell empty. Read it only: a file
+	// with none of the columns shares one slice of NaNs between records.
 	Optional []float64
 }
 
@@ -131,7 +130,7 @@ type Reader struct {
 	closer io.Closer
 	raw    *bufio.Reader // the bytes as stored
 	src    *bufio.Reader // the text (raw itself, or decompressed)
-	hash   hash.Hash
+	hash   *asyncHash
 	count  *countingReader
 
 	line   int // the last line of the header phase
@@ -192,7 +191,7 @@ func NewReader(rd io.Reader, name string, opt Options) (*Reader, error) {
 	return newReader(rd, name, opt)
 }
 
-func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
+func newReader(rd io.Reader, name string, opt Options) (_ *Reader, err error) {
 	r := &Reader{name: name, opt: opt}
 	r.cfg.name, r.cfg.decimalComma, r.cfg.loc, r.cfg.nOptional = name, opt.DecimalComma, opt.Location, len(opt.Optional)
 	if r.cfg.loc == nil {
@@ -201,12 +200,17 @@ func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
 	r.count = &countingReader{r: rd}
 	var in io.Reader = r.count
 	if opt.Hash {
-		r.hash = sha256.New()
-		in = io.TeeReader(in, r.hash)
+		r.hash = newAsyncHash(in)
+		in = r.hash
 	}
 	// Small buffers: the blocks (pipeline.go) are larger, so once the
 	// header is read bufio hands their reads straight to the file or the
 	// decompressor instead of copying.
+	defer func() {
+		if err != nil && r.hash != nil {
+			r.hash.abort()
+		}
+	}()
 	r.raw = bufio.NewReaderSize(in, headerBuffer)
 	r.src = r.raw
 	// A file shorter than two bytes cannot be gzip; Peek's error then only says so.
@@ -338,7 +342,7 @@ func (r *Reader) SHA256() []byte {
 	if r.hash == nil || !r.done || r.err != nil {
 		return nil
 	}
-	return r.hash.Sum(nil)
+	return r.hash.Sum()
 }
 
 // Progress is how many bytes of the file as stored have been read, and its
