@@ -11,8 +11,10 @@ import (
 	"sync"
 	"testing"
 
+	"pasval/internal/props"
 	gen "pasval/internal/rungen"
 	"pasval/internal/runlog"
+	"pasval/lethality"
 	"pasval/runs"
 )
 
@@ -110,7 +112,7 @@ func BenchmarkReadRun(b *testing.B) {
 // BenchmarkPipeline reads and analyses the file: the work of a run review.
 func BenchmarkPipeline(b *testing.B) {
 	path, size := bigRun(b)
-	m := demoModel(b)
+	m := commandModel(b)
 	b.SetBytes(size)
 	b.ReportAllocs()
 	rows := 0
@@ -129,11 +131,30 @@ func BenchmarkPipeline(b *testing.B) {
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(rows), "ns/row")
 }
 
+// commandModel is the demo model as the command builds it from the plant
+// file: the viscosity points (taken at the colder of the reading and the
+// setpoint) and the sensor accuracy of testdata/demo/htst-milk-si.yaml.
+func commandModel(b *testing.B) runs.Model {
+	m := demoModel(b)
+	curve, err := props.NewViscosityCurve([]props.ViscosityPoint{{TempC: 4, Viscosity: 3.1e-3}, {TempC: 40, Viscosity: 1.35e-3},
+		{TempC: 72.5, Viscosity: 0.72e-3}, {TempC: 80, Viscosity: 0.64e-3}})
+	if err != nil {
+		b.Fatal(err)
+	}
+	m.RheologyAt = func(t float64) lethality.Rheology {
+		mu, _ := curve.At(t)
+		return lethality.Newtonian{Viscosity: mu}
+	}
+	m.SensorAccuracy = 0.25
+	return m
+}
+
 // BenchmarkEngine analyses samples already in memory: the engine's share.
 // The samples are 20 generated shifts (noise included, as recorders write
-// them), run through ten times with time running on: 1.4 million samples.
+// them), run through ten times with time running on: 1.4 million samples,
+// judged against the demo plant as the command judges them (commandModel).
 func BenchmarkEngine(b *testing.B) {
-	m := demoModel(b)
+	m := commandModel(b)
 	var text bytes.Buffer
 	if err := gen.Write(&text, 20*gen.ShiftRows, 1); err != nil {
 		b.Fatal(err)

@@ -21,14 +21,17 @@ const (
 func slot(key uint64, bits uint) uint64 { return (key * 0x9E3779B97F4A7C15) >> (64 - bits) }
 
 // tempEntry is what depends on a recorded outlet temperature alone: each
-// organism's D value and what is known of the legal table there.
+// organism's D value and what is known of the legal table there, as read and
+// with the reading lowered by the sensor accuracy.
 type tempEntry struct {
-	key   uint64 // math.Float64bits of the temperature
-	used  bool
-	gen   uint32    // the cache's generation when filled
-	d     []float64 // D per organism, s
-	legal legalBounds
-	rh    uint32 // the number of the rheology at this temperature (Engine.rheologyID); 0 when it does not depend on it
+	key      uint64 // math.Float64bits of the temperature
+	used     bool
+	gen      uint32    // the cache's generation when filled
+	d        []float64 // D per organism, s
+	legal    legalBounds
+	dLow     []float64 // D per organism at the reading less Model.SensorAccuracy, s (nil without one)
+	legalLow legalBounds
+	rh       uint32 // the number of the rheology at this temperature (Engine.rheologyID); 0 when it does not depend on it
 }
 
 // legalBounds are, for one temperature, the least residence known to meet
@@ -46,11 +49,18 @@ type tempCache struct {
 	gen     uint32 // raised when the rheology numbers start afresh
 }
 
-func newTempCache(organisms int) *tempCache {
+func newTempCache(organisms int, low bool) *tempCache {
 	c := &tempCache{}
 	d := make([]float64, organisms*len(c.entries))
+	var dLow []float64
+	if low {
+		dLow = make([]float64, organisms*len(c.entries))
+	}
 	for i := range c.entries {
 		c.entries[i].d = d[i*organisms : (i+1)*organisms : (i+1)*organisms]
+		if low {
+			c.entries[i].dLow = dLow[i*organisms : (i+1)*organisms : (i+1)*organisms]
+		}
 	}
 	return c
 }
@@ -63,12 +73,19 @@ func (c *tempCache) at(temp float64, eng *Engine) *tempEntry {
 	if e.used && e.key == key && e.gen == c.gen {
 		return e
 	}
-	e.key, e.used, e.legal, e.rh = key, true, legalBounds{}, 0
+	e.key, e.used, e.legal, e.legalLow, e.rh = key, true, legalBounds{}, legalBounds{}, 0
 	for i, o := range eng.m.Organisms {
 		e.d[i] = o.DAt(temp)
 	}
+	if e.dLow != nil {
+		low := temp - eng.m.SensorAccuracy
+		for i, o := range eng.m.Organisms {
+			e.dLow[i] = o.DAt(low)
+		}
+	}
 	if eng.m.RheologyAt != nil {
-		e.rh = eng.rheologyID(temp) // may start a new generation
+		// The colder of the reading and the setpoint (Model.RheologyAt).
+		e.rh = eng.rheologyID(math.Min(temp, eng.m.Setpoint)) // may start a new generation
 	}
 	e.gen = c.gen
 	return e
@@ -78,17 +95,28 @@ func (c *tempCache) at(temp float64, eng *Engine) *tempEntry {
 // residence res (s) meets a row of the legal table; true when the model has
 // none.
 func (e *tempEntry) meetsLegal(res float64, m *Model) bool {
+	return judgeLegal(&e.legal, math.Float64frombits(e.key), res, m)
+}
+
+// meetsLegalLow is meetsLegal with the reading lowered by the sensor
+// accuracy.
+func (e *tempEntry) meetsLegalLow(res float64, m *Model) bool {
+	return judgeLegal(&e.legalLow, math.Float64frombits(e.key)-m.SensorAccuracy, res, m)
+}
+
+// judgeLegal judges the legal table at temperature temp for residence res,
+// asking lethality.JudgeLegal only when b does not already tell.
+func judgeLegal(b *legalBounds, temp, res float64, m *Model) bool {
 	if len(m.Legal) == 0 {
 		return true
 	}
-	b := &e.legal
 	switch {
 	case b.hasMet && res >= b.met:
 		return true
 	case b.hasFail && res <= b.fail:
 		return false
 	}
-	met := lethality.JudgeLegal(m.Legal, math.Float64frombits(e.key), res, legalTolerance).Met
+	met := lethality.JudgeLegal(m.Legal, temp, res, legalTolerance).Met
 	if met {
 		b.met, b.hasMet = res, true
 	} else {

@@ -14,10 +14,14 @@ type Engine struct {
 	m         Model
 	threshold float64 // gap threshold, s; 0 until known
 	median    float64
+	origin    float64 // Options.Origin, added to the result's times
+	t0        float64 // the first sample's time: the tracker's time is from it
 
 	// Waiting for the median interval.
 	pending   []Sample
 	intervals []float64
+	// The first MedianWindow forward samples' temperatures and flows.
+	fwdTemps, fwdFlows []float64
 
 	// The sample awaiting its held interval, and its parcel.
 	n        int // samples taken so far
@@ -25,6 +29,8 @@ type Engine struct {
 	lastU    float64   // its fastest-particle speed, m/s
 	lastRes  float64   // its parcel's residence, s
 	lastLR   []float64 // its parcel's log reduction per organism
+	low      bool      // Model.SensorAccuracy > 0: judge at the lowered reading too
+	lowLR    []float64 // scratch: a parcel's log reduction per organism at the lowered reading
 	required []float64 // each organism's required log reduction (0: none)
 	prevTime float64   // the latest time added (for order)
 	tr       tracker
@@ -83,7 +89,8 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		panic(fmt.Sprintf("%sNewEngine: gap threshold %g s", panicPrefix, opt.GapThreshold))
 	}
 	no := len(m.Organisms)
-	e := &Engine{m: m, threshold: opt.GapThreshold, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no),
+	low := m.SensorAccuracy > 0
+	e := &Engine{m: m, threshold: opt.GapThreshold, origin: opt.Origin, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no, low), low: low,
 		rheos: rheologies{ids: map[lethality.Rheology]uint32{}}}
 	e.tr.length = m.Tube.Length
 	if opt.Trace != 0 {
@@ -98,6 +105,10 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 		MinForwardLogReduction: make([]float64, no), MedianInterval: math.NaN()}
 	for i := range e.sum.MinForwardLogReduction {
 		e.sum.MinForwardLogReduction[i] = math.Inf(1)
+	}
+	if low {
+		e.lowLR = make([]float64, no)
+		e.sum.MinForwardLogReductionAtSensorLow = infinities(no)
 	}
 	return e, nil
 }
@@ -149,12 +160,7 @@ func (e *Engine) Add(s Sample) error {
 // the samples held back.
 func (e *Engine) settle() {
 	if len(e.intervals) > 0 {
-		sort.Float64s(e.intervals)
-		n := len(e.intervals)
-		e.median = e.intervals[n/2]
-		if n%2 == 0 {
-			e.median = (e.intervals[n/2-1] + e.intervals[n/2]) / 2
-		}
+		e.median = median(e.intervals)
 		e.threshold = GapFactor * e.median
 	} else {
 		e.threshold = math.Inf(1)
@@ -171,13 +177,16 @@ func (e *Engine) settle() {
 func (e *Engine) take(s Sample) {
 	if e.n > 0 {
 		e.close(e.last, e.n-1, s.Time-e.last.Time)
-		e.tr.advance(e.lastU, s.Time)
+		// In time from the first sample: residences are differences of
+		// times, and a time far from its origin loses their digits.
+		e.tr.advance(e.lastU, s.Time-e.t0)
 	}
 	e.lastTemp = e.temps.at(s.Temperature, e)
 	u := e.speed(s.Flow, e.lastTemp)
 	if e.n == 0 {
+		e.t0 = s.Time
 		e.sum.Start = s.Time
-		e.tr.start(s.Time, u)
+		e.tr.start(0, u)
 	}
 	e.lastRes = e.tr.residence()
 	for i, d := range e.lastTemp.d {
@@ -245,6 +254,10 @@ func (e *Engine) close(s Sample, i int, d float64) {
 		sum.Forward += d
 		sum.ForwardVolume += vol
 		sum.ForwardSamples++
+		if len(e.fwdTemps) < MedianWindow {
+			e.fwdTemps = append(e.fwdTemps, s.Temperature)
+			e.fwdFlows = append(e.fwdFlows, s.Flow)
+		}
 		// Plain comparisons: every value here is a number (Add refuses NaN;
 		// a residence may be +Inf), and math.Min's NaN and −0 rules cost time
 		// in the per-sample path.
@@ -284,6 +297,10 @@ func (e *Engine) close(s Sample, i int, d float64) {
 			reqMet = false
 		}
 	}
+	if !legal || !reqMet {
+		sum.SamplesShort++
+	}
+	lowShort := e.low && e.judgeLow()
 	var class eventClass
 	switch {
 	case gap:
@@ -320,6 +337,17 @@ func (e *Engine) close(s Sample, i int, d float64) {
 	for k, lr := range e.lastLR {
 		ev.MinLogReduction[k] = math.Min(ev.MinLogReduction[k], lr)
 	}
+	if e.low {
+		if ev.MinLogReductionAtSensorLow == nil {
+			ev.MinLogReductionAtSensorLow = infinities(len(e.lowLR))
+		}
+		for k, lr := range e.lowLR {
+			ev.MinLogReductionAtSensorLow[k] = math.Min(ev.MinLogReductionAtSensorLow[k], lr)
+		}
+		if lowShort {
+			ev.SamplesShortAtSensorLow++
+		}
+	}
 	if gap {
 		ev.AtRiskVolume += vol
 		return
@@ -338,6 +366,53 @@ func (e *Engine) close(s Sample, i int, d float64) {
 		ev.allMet = false
 		ev.AtRiskVolume += vol
 	}
+}
+
+// judgeLow judges the last sample's parcel with its reading lowered by the
+// sensor accuracy (the residence as recorded: the accuracy is a doubt about
+// the reading, applied where the rules read a temperature, docs/METHOD.md
+// §13.4): it fills e.lowLR, books the summary's figures and says whether the
+// parcel then fails a legal row or a required log reduction.
+func (e *Engine) judgeLow() (short bool) {
+	sum := &e.sum
+	short = !e.lastTemp.meetsLegalLow(e.lastRes, &e.m)
+	for k, d := range e.lastTemp.dLow {
+		lr := e.lastRes / d
+		e.lowLR[k] = lr
+		if lr < sum.MinForwardLogReductionAtSensorLow[k] {
+			sum.MinForwardLogReductionAtSensorLow[k] = lr
+		}
+		if r := e.required[k]; r > 0 && !(lr >= r) {
+			short = true
+		}
+	}
+	if short {
+		sum.SamplesShortAtSensorLow++
+	}
+	return short
+}
+
+// median is the median of v, the mean of the middle two for an even count;
+// NaN for none. It sorts v.
+func median(v []float64) float64 {
+	n := len(v)
+	if n == 0 {
+		return math.NaN()
+	}
+	sort.Float64s(v)
+	if n%2 == 0 {
+		return (v[n/2-1] + v[n/2]) / 2
+	}
+	return v[n/2]
+}
+
+// infinities is n values of +Inf, the start of a minimum.
+func infinities(n int) []float64 {
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = math.Inf(1)
+	}
+	return v
 }
 
 // trackDrop follows the temperature drops below the setpoint.
@@ -407,6 +482,8 @@ func (e *Engine) Finish() Result {
 	if e.n > 0 {
 		e.close(e.last, e.n-1, 0)
 	}
+	e.sum.MedianForwardTemperature, e.sum.MedianForwardFlow = median(e.fwdTemps), median(e.fwdFlows)
+	e.fwdTemps, e.fwdFlows = nil, nil
 	e.closeEvent()
 	e.done = true
 	for i := range e.events {
@@ -416,12 +493,16 @@ func (e *Engine) Finish() Result {
 			ev.DivertAfter = &v
 		}
 	}
+	e.shiftTimes()
 	s := &e.sum
 	s.MedianInterval, s.GapThreshold = e.median, e.threshold
 	if s.ForwardSamples == 0 {
 		s.MinForwardTemperature, s.MaxForwardFlow, s.MinForwardResidence = math.NaN(), math.NaN(), math.NaN()
 		for k := range s.MinForwardLogReduction {
 			s.MinForwardLogReduction[k] = math.NaN()
+		}
+		for k := range s.MinForwardLogReductionAtSensorLow {
+			s.MinForwardLogReductionAtSensorLow[k] = math.NaN()
 		}
 	}
 	if e.events == nil {
@@ -435,6 +516,28 @@ func (e *Engine) Finish() Result {
 		res.Trace = e.trace.buckets()
 	}
 	return res
+}
+
+// shiftTimes adds Options.Origin to every time of the result; a drop's and
+// an event's response time, a difference, stays as computed.
+func (e *Engine) shiftTimes() {
+	if e.origin == 0 {
+		return
+	}
+	o := e.origin
+	e.sum.Start += o
+	e.sum.End += o
+	for i := range e.events {
+		e.events[i].Start += o
+		e.events[i].End += o
+	}
+	for i := range e.drops {
+		e.drops[i].Start += o
+		e.drops[i].End += o
+	}
+	if e.trace != nil {
+		e.trace.origin = o
+	}
 }
 
 // finite says whether v is a number other than ±Inf.

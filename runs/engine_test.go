@@ -568,3 +568,198 @@ func TestLaminarBelowTheSeal(t *testing.T) {
 		t.Errorf("%d events at the seal, want none", len(res.Events))
 	}
 }
+
+// TestTimeFarFromItsOrigin: the engine computes in time from the first
+// sample, so the same run with its times written from 0 and from
+// 1 773 468 000 s (Unix seconds in 2026, where a float64 steps by 2^-22 s =
+// 0.24 µs) gives the same residences, to the last bit of a residence near
+// 15 s. The flows make the fastest particle take 15 s − 5×10⁻⁸ s at the
+// 72 °C / 15 s row's temperature (computed here from the tube's area and an
+// entered ratio of 2), short by more than the row's tolerance (10⁻⁹ × 15 s,
+// docs/METHOD.md §1.5).
+func TestTimeFarFromItsOrigin(t *testing.T) {
+	m := demoModel(t)
+	m.FastestToMean = 2
+	m.Organisms = nil
+	m.Legal = []lethality.LegalRow{{Temperature: 72, Time: 15}}
+	area := math.Pi * m.Tube.InnerDiameter * m.Tube.InnerDiameter / 4
+	q := m.Tube.Length * area / (2 * (15 - 5e-8)) // m³/s: L/(2·Q/A) = 15 s − 5e-8 s
+	run := func(origin float64) runs.Result {
+		var s []runs.Sample
+		for i := range 60 {
+			s = append(s, runs.Sample{Time: origin + float64(i), Temperature: 72.5, Flow: q, Forward: true})
+		}
+		return analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	}
+	// Every parcel falls short, those that entered before the run and
+	// those that entered during it: one lethality event over all 60 samples.
+	for name, res := range map[string]runs.Result{"from 0": run(0), "from 1 773 468 000 s": run(1_773_468_000)} {
+		checkNear(t, name+": min residence", res.Summary.MinForwardResidence, 15-5e-8, 1e-14)
+		if len(res.Events) != 1 || res.Events[0].Kind != runs.KindLethality || res.Events[0].First != 0 || res.Events[0].Last != 59 {
+			t.Errorf("%s: events %+v; want one lethality event over samples 0 to 59", name, res.Events)
+		}
+	}
+}
+
+// TestOriginShiftsTheResultsTimes: Options.Origin is added to every time the
+// result gives, and to nothing else.
+func TestOriginShiftsTheResultsTimes(t *testing.T) {
+	m := demoModel(t)
+	const origin = 1_773_446_400 // 2026-03-14T00:00:00Z
+	plain := analyse(t, m, runs.Options{Trace: 8}, scriptedShift())
+	shifted := analyse(t, m, runs.Options{Trace: 8, Origin: origin}, scriptedShift())
+	checkNear(t, "start", shifted.Summary.Start, plain.Summary.Start+origin, 1e-15)
+	checkNear(t, "end", shifted.Summary.End, plain.Summary.End+origin, 1e-15)
+	for i, e := range shifted.Events {
+		p := plain.Events[i]
+		checkNear(t, "event start", e.Start, p.Start+origin, 1e-15)
+		checkNear(t, "event end", e.End, p.End+origin, 1e-15)
+		checkNear(t, "event duration", e.Duration, p.Duration, 1e-15)
+		checkNear(t, "event residence", e.MinResidence, p.MinResidence, 1e-15)
+	}
+	for i, d := range shifted.Drops {
+		checkNear(t, "drop start", d.Start, plain.Drops[i].Start+origin, 1e-15)
+		if (d.DivertAfter == nil) != (plain.Drops[i].DivertAfter == nil) || d.DivertAfter != nil && *d.DivertAfter != *plain.Drops[i].DivertAfter {
+			t.Errorf("drop %d: divert after %v, want %v", i, d.DivertAfter, plain.Drops[i].DivertAfter)
+		}
+	}
+	for i, b := range shifted.Trace {
+		checkNear(t, "bucket start", b.Start, plain.Trace[i].Start+origin, 1e-15)
+		checkNear(t, "bucket end", b.End, plain.Trace[i].End+origin, 1e-15)
+	}
+	if len(shifted.Events) != len(plain.Events) || len(shifted.Drops) == 0 || len(shifted.Trace) == 0 {
+		t.Errorf("%d events, %d drops, %d buckets", len(shifted.Events), len(shifted.Drops), len(shifted.Trace))
+	}
+}
+
+// TestViscosityAtTheColderOfReadingAndSetpoint: the Reynolds number of an
+// interval takes the viscosity at its recorded temperature when that is
+// below the setpoint (colder product is more viscous), and at the setpoint
+// when the reading is above it (hotter product is not credited beyond the
+// design model, which takes the setpoint; docs/METHOD.md §13.4). A product
+// laminar below the 72.5 °C setpoint, turbulent above it and thinner still
+// from 75 °C (viscosity steps invented for the test) shows both sides: at
+// 80 °C the parcels are held as at 72.5 °C, at 71 °C as laminar product.
+func TestViscosityAtTheColderOfReadingAndSetpoint(t *testing.T) {
+	m := demoModel(t)
+	var asked []float64
+	m.RheologyAt = func(temp float64) lethality.Rheology {
+		asked = append(asked, temp)
+		switch {
+		case temp < 72.5:
+			return lethality.Newtonian{Viscosity: 0.05} // Re ≈ 1540 at 10 000 L/h: laminar
+		case temp < 75:
+			return lethality.Newtonian{Viscosity: 2e-3} // Re ≈ 38 400: turbulent
+		}
+		return lethality.Newtonian{Viscosity: 0.72e-3} // Re ≈ 106 600: turbulent, a smaller ratio
+	}
+	q := 10000 * lh
+	flow := lethality.Flow{Volumetric: q, Density: m.Density}
+	steady := func(temp float64) runs.Result {
+		var s []runs.Sample
+		for i := range 100 {
+			s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: q, Forward: true})
+		}
+		return analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	}
+	for _, c := range []struct {
+		name        string
+		temp, muAt  float64 // the reading; where the viscosity must be taken
+		wantLaminar bool
+	}{
+		{"above the setpoint: at the setpoint", 80, 72.5, false},
+		{"below the setpoint: at the reading", 71, 71, true},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			asked = asked[:0]
+			res := steady(c.temp)
+			for _, a := range asked {
+				if a != c.muAt { // exact: the engine passes one of the two values through
+					t.Fatalf("viscosity asked at %g °C, want %g °C", a, c.muAt)
+				}
+			}
+			h := m.Tube.Hydraulics(flow, m.RheologyAt(c.muAt), 0)
+			at := m.Tube.Hydraulics(flow, m.RheologyAt(c.temp), 0) // at the reading: what must not be used above the setpoint
+			if (h.Regime != lethality.Turbulent) != c.wantLaminar || c.temp > m.Setpoint && near(at.MinResidence, h.MinResidence, 1e-6) {
+				t.Fatalf("regime %s; residences %g s and %g s at the reading: the case shows nothing", h.Regime, h.MinResidence, at.MinResidence)
+			}
+			checkNear(t, "min residence", res.Summary.MinForwardResidence, h.MinResidence, 1e-12)
+		})
+	}
+}
+
+// TestSensorLowReading: with a sensor accuracy, every forward parcel is
+// judged once more with its reading lowered by it, beside the verdicts on
+// the readings as recorded (docs/METHOD.md §13.4). Setpoint and row at
+// 72 °C, accuracy 0.25 K, 10 000 L/h throughout (one residence, L/u):
+// 50 samples at 72.10 °C meet the row as recorded and miss it at 71.85 °C;
+// 50 at 72.30 °C meet it either way (72.05 °C); then 5 at 71.95 °C, below
+// the setpoint and the row, an event whose parcels fail either way.
+func TestSensorLowReading(t *testing.T) {
+	m := demoModel(t)
+	m.Setpoint, m.SensorAccuracy = 72, 0.25
+	m.Legal = []lethality.LegalRow{{Temperature: 72, Time: 15}}
+	q := 10000 * lh
+	var s []runs.Sample
+	for i := range 105 {
+		temp := 72.10
+		switch {
+		case i >= 100:
+			temp = 71.95
+		case i >= 50:
+			temp = 72.30
+		}
+		s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: q, Forward: true})
+	}
+	res := analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	resid := m.Tube.Length / uMax(m, 10000) // 17.94 s: meets 15 s wherever a row applies
+	// Listeria, D = 0.9 s · 10^((71.7 − T)/6.3) (the plant file's kinetics,
+	// docs/METHOD.md §9.1): its LR is far above 5 at every temperature here.
+	dL := func(temp float64) float64 { return 0.9 * math.Pow(10, (71.7-temp)/6.3) }
+	sum := res.Summary
+	if sum.SamplesShort != 5 || sum.SamplesShortAtSensorLow != 55 {
+		t.Errorf("samples short %d as recorded, %d at the low reading; want 5 and 55", sum.SamplesShort, sum.SamplesShortAtSensorLow)
+	}
+	checkNear(t, "min LR at the low reading", sum.MinForwardLogReductionAtSensorLow[1], resid/dL(71.95-0.25), 1e-12)
+	checkNear(t, "min LR as recorded", sum.MinForwardLogReduction[1], resid/dL(71.95), 1e-12)
+	if len(res.Events) != 1 || res.Events[0].Kind != runs.KindTemperature || res.Events[0].Verdict != runs.ProductAtRisk {
+		t.Fatalf("events %+v; want the dip, product at risk", res.Events)
+	}
+	e := res.Events[0]
+	if e.SamplesShortAtSensorLow != 5 {
+		t.Errorf("event: %d samples short at the low reading, want 5", e.SamplesShortAtSensorLow)
+	}
+	checkNear(t, "event min LR at the low reading", e.MinLogReductionAtSensorLow[1], resid/dL(71.7), 1e-12)
+
+	// Without an accuracy, nothing at the low reading.
+	m.SensorAccuracy = 0
+	plain := analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	if plain.Summary.SamplesShortAtSensorLow != 0 || plain.Summary.MinForwardLogReductionAtSensorLow != nil || plain.Events[0].MinLogReductionAtSensorLow != nil {
+		t.Errorf("without an accuracy: %+v", plain.Summary)
+	}
+}
+
+// TestForwardMedians: the medians of the first MedianWindow forward samples'
+// temperatures and flows, diverted samples left out (computed here from the
+// definition: the middle of the sorted values, the mean of the middle two
+// for an even count).
+func TestForwardMedians(t *testing.T) {
+	m := demoModel(t)
+	var s []runs.Sample
+	temps := []float64{60, 73.1, 72.9, 73.0, 73.4, 90} // the first and last diverted
+	for i, temp := range temps {
+		s = append(s, runs.Sample{Time: float64(i), Temperature: temp, Flow: float64(9000+500*i) * lh, Forward: i > 0 && i < len(temps)-1})
+	}
+	res := analyse(t, m, runs.Options{GapThreshold: 5}, s)
+	// Forward: 73.1, 72.9, 73.0, 73.4 → (73.0 + 73.1)/2; flows 9500…11000 L/h → 10 250 L/h.
+	checkNear(t, "median forward temperature", res.Summary.MedianForwardTemperature, 73.05, 1e-12)
+	checkNear(t, "median forward flow", res.Summary.MedianForwardFlow, 10250*lh, 1e-12)
+	none := analyse(t, m, runs.Options{GapThreshold: 5}, s[:1])
+	if !math.IsNaN(none.Summary.MedianForwardTemperature) || !math.IsNaN(none.Summary.MedianForwardFlow) {
+		t.Errorf("no forward sample: medians %g, %g; want NaN", none.Summary.MedianForwardTemperature, none.Summary.MedianForwardFlow)
+	}
+	merged := runs.MergeSummaries([]runs.Summary{res.Summary, res.Summary})
+	if !math.IsNaN(merged.MedianForwardTemperature) {
+		t.Errorf("merged medians %g, want NaN (medians do not merge)", merged.MedianForwardTemperature)
+	}
+}

@@ -98,8 +98,9 @@ func TestTrackerWindowBounded(t *testing.T) {
 // TestSpeedsKeyedByRheology: with a viscosity for every recorded
 // temperature, more of them than the engine numbers at once, every parcel's
 // residence still equals the definition walked back with speeds computed
-// afresh from package lethality (the caches start over without changing a
-// result).
+// afresh from package lethality, the viscosity taken at the colder of the
+// reading and the setpoint (docs/METHOD.md §13.4; the caches start over
+// without changing a result).
 func TestSpeedsKeyedByRheology(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
 	m := Model{
@@ -119,13 +120,13 @@ func TestSpeedsKeyedByRheology(t *testing.T) {
 	const n = 3 * maxRheologies
 	ts, us := make([]float64, n), make([]float64, n)
 	for i := range n {
-		temp := 60 + float64(rng.IntN(2000))/100 // 2000 temperatures, revisited
+		temp := 60 + float64(rng.IntN(2000))/100 // 2000 temperatures, revisited, 750 of them above the setpoint
 		if i > 2*maxRheologies {
-			temp = 40 + float64(i)/100 // then new ones, past the bound
+			temp = 72.4 - float64(i-2*maxRheologies)/1000 // then new ones below it, past the bound
 		}
 		q := (9500 + float64(rng.IntN(1000))) / 3.6e6
 		ts[i] = float64(i)
-		h := m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: m.Density}, m.RheologyAt(temp), 0)
+		h := m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: m.Density}, m.RheologyAt(math.Min(temp, m.Setpoint)), 0)
 		us[i] = h.FastestToMean * h.MeanVelocity
 		if err := e.Add(Sample{Time: ts[i], Temperature: temp, Flow: q, Forward: true}); err != nil {
 			t.Fatal(err)

@@ -23,14 +23,20 @@ import (
 var demoRun = filepath.Join("..", "testdata", "demo", "runs", "htst-milk-si-shift.csv")
 
 // review reads one file and analyses it, as the command layer does: a mass
-// flow is turned into a volumetric one with the model's density.
+// flow is turned into a volumetric one with the model's density; the engine
+// starts at the first record, when the reader's origin of clock times is
+// known, so that results are in Unix seconds.
 func review(r *runlog.Reader, m runs.Model, opt runs.Options) (runs.Result, error) {
-	e, err := runs.NewEngine(m, opt)
-	if err != nil {
-		return runs.Result{}, err
-	}
+	var e *runs.Engine
 	mass := r.FlowIsMass()
 	for r.Next() {
+		if e == nil {
+			var err error
+			opt.Origin = float64(r.Origin())
+			if e, err = runs.NewEngine(m, opt); err != nil {
+				return runs.Result{}, err
+			}
+		}
 		rec := r.Record()
 		q := rec.Flow
 		if mass {
@@ -42,6 +48,9 @@ func review(r *runlog.Reader, m runs.Model, opt runs.Options) (runs.Result, erro
 	}
 	if err := r.Err(); err != nil {
 		return runs.Result{}, err
+	}
+	if e == nil { // not reached: a file without rows is an error
+		return runs.Result{}, fmt.Errorf("%s: no records", r.Name())
 	}
 	return e.Finish(), nil
 }
@@ -205,6 +214,7 @@ func sameResult(t *testing.T, got, want runs.Result, tol float64) {
 // TestMergeSummaries merges two runs' summaries.
 func TestMergeSummaries(t *testing.T) {
 	m := demoModel(t)
+	m.SensorAccuracy = 0.25 // the demo plant's
 	shift := scriptedShift()
 	a := analyse(t, m, runs.Options{}, shift[:3000]).Summary
 	b := analyse(t, m, runs.Options{}, shift[3000:]).Summary
@@ -215,8 +225,13 @@ func TestMergeSummaries(t *testing.T) {
 	checkNear(t, "end", all.End, b.End, 0)
 	checkNear(t, "min forward temperature", all.MinForwardTemperature, math.Min(a.MinForwardTemperature, b.MinForwardTemperature), 0)
 	checkNear(t, "max forward flow", all.MaxForwardFlow, math.Max(a.MaxForwardFlow, b.MaxForwardFlow), 0)
-	if all.Rows != a.Rows+b.Rows || all.Gaps != a.Gaps+b.Gaps {
-		t.Errorf("rows %d gaps %d", all.Rows, all.Gaps)
+	if all.Rows != a.Rows+b.Rows || all.Gaps != a.Gaps+b.Gaps || all.SamplesShort != a.SamplesShort+b.SamplesShort ||
+		all.SamplesShortAtSensorLow != a.SamplesShortAtSensorLow+b.SamplesShortAtSensorLow || all.SamplesShortAtSensorLow == 0 {
+		t.Errorf("rows %d gaps %d short %d, at the low reading %d", all.Rows, all.Gaps, all.SamplesShort, all.SamplesShortAtSensorLow)
+	}
+	for k := range all.MinForwardLogReductionAtSensorLow {
+		checkNear(t, "min LR at the low reading", all.MinForwardLogReductionAtSensorLow[k],
+			math.Min(a.MinForwardLogReductionAtSensorLow[k], b.MinForwardLogReductionAtSensorLow[k]), 0)
 	}
 	none := analyse(t, m, runs.Options{}, []runs.Sample{{Time: 0, Temperature: 60, Flow: 0.002}}).Summary
 	if !math.IsNaN(none.MinForwardTemperature) {

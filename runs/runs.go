@@ -46,6 +46,11 @@
 //	summary.min_forward_log_reduction_by_organism
 //	                                    Summary.MinForwardLogReduction[i] keyed by Model.Organisms[i].Name
 //	summary.min_forward_residence_s     Summary.MinForwardResidence
+//	summary.samples_short               Summary.SamplesShort
+//	summary.sensor_low_K                Model.SensorAccuracy (the keys "at sensor low" only when > 0)
+//	summary.samples_short_at_sensor_low Summary.SamplesShortAtSensorLow
+//	summary.min_forward_log_reduction_at_sensor_low(_by_organism)
+//	                                    Summary.MinForwardLogReductionAtSensorLow
 //	summary.gaps                        Summary.Gaps
 //	summary.bad_rows                    (the reader's count of skipped rows)
 //	summary.median_interval_s           Summary.MedianInterval (the resolution of every time)
@@ -59,6 +64,8 @@
 //	events[].min_residence_s            Event.MinResidence
 //	events[].min_sample_residence_s     Event.MinSampleResidence (the per-sample estimate beside it)
 //	events[].legal_row_met              Event.LegalRowMet
+//	events[].samples_short_at_sensor_low, min_log_reduction_at_sensor_low(_by_organism)
+//	                                    Event.SamplesShortAtSensorLow, MinLogReductionAtSensorLow
 //	events[].divert_after_s             Event.DivertAfter (null when nil)
 //	drops[]                             Result.Drops (every drop below the setpoint, diverted ones too)
 //
@@ -89,11 +96,14 @@ type Model struct {
 	// Rheology is the product's flow behaviour; used for every interval
 	// when RheologyAt is nil.
 	Rheology lethality.Rheology
-	// RheologyAt, when set, gives the rheology at a recorded temperature
-	// (°C), so that each interval's Reynolds number is taken at its own
-	// temperature (a Newtonian viscosity curve, for instance). Its values
-	// must be comparable (lethality.Newtonian and PowerLaw are): equal ones
-	// share cached speeds.
+	// RheologyAt, when set, gives the rheology at a temperature (°C) (a
+	// Newtonian viscosity curve, for instance). The engine takes each
+	// interval's Reynolds number with it at the colder of the recorded
+	// temperature and Setpoint: product recorded below the setpoint is
+	// more viscous, and product recorded above it is never credited beyond
+	// the design model, which takes the viscosity at the setpoint
+	// (docs/METHOD.md §13.4). Its values must be comparable
+	// (lethality.Newtonian and PowerLaw are): equal ones share cached speeds.
 	RheologyAt func(temperature float64) lethality.Rheology
 	Density    float64 // kg/m³ at the holding temperature, > 0
 	// FastestToMean overrides u_max/u_mean for every flow when > 0; 0 takes
@@ -103,6 +113,12 @@ type Model struct {
 	Legal         []lethality.LegalRow
 	Setpoint      float64 // °C, the diversion setpoint (cut-out)
 	MaxFlow       float64 // m³/s, the sealed maximum flow, > 0
+	// SensorAccuracy is the outlet sensor's stated accuracy, K, ≥ 0; 0 for
+	// none. Readings are judged as recorded; beside them each forward
+	// sample's parcel is judged once more with its reading lowered by this
+	// much (the legal table and the kinetics read there; the residence is
+	// the recorded one), for Summary's and Event's figures "at sensor low".
+	SensorAccuracy float64
 }
 
 // ErrNoCriteria is returned for a model with neither legal rows nor an
@@ -112,9 +128,10 @@ var ErrNoCriteria = errors.New("neither a legal time–temperature row nor a req
 // check panics on a model no plant file can produce.
 func (m *Model) check() error {
 	if !(m.Tube.InnerDiameter > 0) || !(m.Tube.Length > 0) || !(m.Density > 0) || !(m.MaxFlow > 0) ||
-		math.IsNaN(m.Setpoint) || math.IsInf(m.Setpoint, 0) || m.FastestToMean < 0 || (m.Rheology == nil && m.RheologyAt == nil) {
-		panic(fmt.Sprintf("%sNewEngine: invalid model: tube %+v, density %g, max flow %g, setpoint %g, fastest-to-mean %g, rheology %v",
-			panicPrefix, m.Tube, m.Density, m.MaxFlow, m.Setpoint, m.FastestToMean, m.Rheology != nil || m.RheologyAt != nil))
+		math.IsNaN(m.Setpoint) || math.IsInf(m.Setpoint, 0) || m.FastestToMean < 0 || (m.Rheology == nil && m.RheologyAt == nil) ||
+		!(m.SensorAccuracy >= 0) || math.IsInf(m.SensorAccuracy, 0) {
+		panic(fmt.Sprintf("%sNewEngine: invalid model: tube %+v, density %g, max flow %g, setpoint %g, fastest-to-mean %g, rheology %v, sensor accuracy %g",
+			panicPrefix, m.Tube, m.Density, m.MaxFlow, m.Setpoint, m.FastestToMean, m.Rheology != nil || m.RheologyAt != nil, m.SensorAccuracy))
 	}
 	required := false
 	for _, o := range m.Organisms {
@@ -131,7 +148,12 @@ func (m *Model) check() error {
 
 // Sample is one recorded sample, in SI.
 type Sample struct {
-	Time        float64 // s, on any fixed origin (Unix seconds for clock times)
+	// Time is in s from Options.Origin. The engine works in time from the
+	// first sample, so any origin gives the same residences; but a float64
+	// far from its origin has coarse steps (Unix seconds in 2026: 0.24 µs,
+	// more than the tolerance of a legal row's time), so give times from a
+	// nearby origin when they carry fractions of a second.
+	Time        float64
 	Temperature float64 // °C at the holding-tube outlet (the diversion sensor)
 	Flow        float64 // m³/s; zero or negative is read as no flow
 	Forward     bool    // the flow-diversion device in forward flow
@@ -145,6 +167,11 @@ type Options struct {
 	// Trace is the number of buckets of Result.Trace, even; 0 keeps none.
 	// Between Trace/2 and Trace of them cover the run.
 	Trace int
+	// Origin is added to every time the result gives (Summary, Events,
+	// Drops, Trace), s: the Unix second a reader's clock times count from,
+	// say, so that results are in Unix seconds. 0 gives them as the
+	// samples' own times.
+	Origin float64
 }
 
 // GapFactor times the median interval is the default gap threshold.
@@ -214,6 +241,12 @@ type Event struct {
 	LegalRowMet        bool // every parcel met a legal row; false for a gap (no proof)
 	Verdict            Verdict
 	AtRiskVolume       float64 // m³: the samples whose parcels failed; all of a gap
+	// With Model.SensorAccuracy > 0, the parcels judged with the reading
+	// lowered by it: how many of the event's samples' parcels then fail a
+	// legal row or a required log reduction, and the least log reduction
+	// per organism. Zero and nil without a sensor accuracy.
+	SamplesShortAtSensorLow    int
+	MinLogReductionAtSensorLow []float64
 	// Drop is the index in Result.Drops of the temperature drop the event
 	// belongs to; −1 for a flow event or a gap.
 	Drop int
@@ -253,7 +286,22 @@ type Summary struct {
 	MaxForwardFlow         float64   // m³/s
 	MinForwardLogReduction []float64 // per organism, Model order
 	MinForwardResidence    float64   // s
-	Gaps                   int       // gap events
+	// SamplesShort counts the forward samples whose parcels failed a legal
+	// row or a required log reduction (a gap's included, judged on its
+	// parcel figures).
+	SamplesShort int
+	// With Model.SensorAccuracy > 0, the same with every reading lowered by
+	// it (Event's fields of the name); MinForwardLogReductionAtSensorLow is
+	// NaN without forward samples, nil without a sensor accuracy.
+	SamplesShortAtSensorLow           int
+	MinForwardLogReductionAtSensorLow []float64
+	Gaps                              int // gap events
+	// MedianForwardTemperature and MedianForwardFlow are the medians over
+	// the first MedianWindow forward samples (°C, m³/s; NaN with none): what
+	// the run mostly recorded, to tell a column read in the wrong unit. A
+	// merged summary has them only when it merges one run (NaN otherwise).
+	MedianForwardTemperature float64
+	MedianForwardFlow        float64
 	// MedianInterval is the median of the first MedianWindow positive
 	// intervals (NaN with none): the resolution of every time here.
 	MedianInterval float64
@@ -286,9 +334,10 @@ func (e *SampleError) Error() string {
 	return fmt.Sprintf("sample %d: %s is %g, not a finite number", e.Index, e.Field, e.Value)
 }
 
-// UnixSeconds is a clock time as a Sample.Time: seconds since 1970-01-01
-// UTC. float64 keeps such times to about 0.2 µs, far finer than any
-// recorder's sampling.
+// UnixSeconds is a clock time as seconds since 1970-01-01 UTC, the form of
+// a result's times with a reader's Origin. float64 keeps such times to about
+// 0.2 µs: fine for showing a time, too coarse to compute a residence with
+// (see Sample.Time).
 func UnixSeconds(t time.Time) float64 {
 	return float64(t.Unix()) + float64(t.Nanosecond())*1e-9
 }

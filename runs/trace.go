@@ -23,10 +23,11 @@ const traceWidth0 = 1e-3
 // merge in pairs and the width doubles, so memory stays fixed and every
 // bucket covers the same span of time (docs/METHOD.md §13.7).
 type trace struct {
-	cap   int
-	t0    float64
-	width float64
-	b     []TraceBucket // index k covers [t0 + k·width, t0 + (k+1)·width); empty ones have Start > End
+	cap    int
+	origin float64 // added to the buckets' times (Options.Origin)
+	t0     float64
+	width  float64
+	b      []TraceBucket // index k covers [t0 + k·width, t0 + (k+1)·width); empty ones have Start > End
 }
 
 func newTrace(buckets int) *trace {
@@ -89,6 +90,8 @@ func (tr *trace) buckets() []TraceBucket {
 	out := make([]TraceBucket, 0, len(tr.b))
 	for _, b := range tr.b {
 		if b.Forward+b.Diverted > 0 {
+			b.Start += tr.origin
+			b.End += tr.origin
 			out = append(out, b)
 		}
 	}

@@ -82,6 +82,7 @@ func runLogs(opts logsOptions, out, diag io.Writer) error {
 	}
 	if opts.json {
 		j := rev.JSON()
+		j.Warnings = present.RunWarningsJSON(rev)
 		j.SamplingNote = present.SamplingNote(rev)
 		if j.Heating != nil {
 			j.Heating.ForecastBasis = present.ForecastBasis(rev)
@@ -130,6 +131,10 @@ func writeRunReview(w io.Writer, rev *assess.RunReview, d present.Display) {
 			fmt.Fprintf(w, "    … and %d more\n", more)
 		}
 	}
+	if text := present.SensorLow(rev, d); text != "" {
+		fmt.Fprint(w, "\n"+wrap(text, "  ", 88))
+	}
+	writeWarnings(w, present.RunWarnings(rev, d))
 
 	if rev.Events() > 0 {
 		fmt.Fprintf(w, "\nEvents (%s)\n", present.TimeBasis(rev))

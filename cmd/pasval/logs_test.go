@@ -60,22 +60,23 @@ func scriptedShiftCSV(t *testing.T) string {
 // TestLogsScriptedShift runs the noise-free demo shift through the command
 // and checks each event against values worked by hand from the plant file
 // (docs/METHOD.md §7, §13): the demo tube (2 in sanitary, ID 47.498 mm,
-// A = 1.77190e-3 m², L = 34 m), milk of 1031 kg/m³ whose viscosity is
-// ln-interpolated between the plant's points (docs/METHOD.md §4): 0.71437
-// mPa·s at 73 °C (between 0.72 at 72.5 °C and 0.64 at 80 °C), 0.72279 at
-// 72.30 °C, 0.72840 at 71.9 °C, 0.72112 at 72.42 °C. Fastest-particle times
-// L/(r·Q/A) with Petukhov's ratio (computed with python3 from the formulas of
-// docs/METHOD.md §7.4): at 73 °C, 10 000 L/h → Re 107 465, r 1.208538,
-// 17.945745 s; 12 500 L/h → 14.415999 s; 12 800 L/h → 14.084155 s; 10 000 L/h
-// at 72.30 °C → 17.941761 s, at 71.9 °C → 17.939128 s; 11 500 L/h at 72.42 °C
-// → 15.643030 s.
+// A = 1.77190e-3 m², L = 34 m), milk of 1031 kg/m³ whose viscosity is taken
+// at the colder of the reading and the 72.5 °C setpoint (docs/METHOD.md
+// §13.4), ln-interpolated between the plant's points (docs/METHOD.md §4):
+// 0.72 mPa·s at 73 °C (the setpoint's point), 0.72279 at 72.30 °C, 0.72840
+// at 71.9 °C, 0.72111 at 72.42 °C. Fastest-particle times L/(r·Q/A) with
+// Petukhov's ratio (computed with python3 from the formulas of
+// docs/METHOD.md §7.4): at 73 °C, 10 000 L/h → Re 106 625, r 1.208718,
+// 17.943077 s; 12 500 L/h → 14.413949 s; 12 800 L/h → 14.082161 s;
+// 10 000 L/h at 72.30 °C → 17.941761 s, at 71.9 °C → 17.939128 s; 11 500
+// L/h at 72.42 °C → 15.643030 s.
 func TestLogsScriptedShift(t *testing.T) {
 	v, code := logsJSON(t, demoPlant, scriptedShiftCSV(t))
 	if code != exitFail {
 		t.Errorf("exit %d, want 1 (events found)", code)
 	}
-	un := 34 / 17.945745 // m/s at 10 000 L/h, 73 °C
-	us := 34 / 14.415999 // at 12 500 L/h, 73 °C
+	un := 34 / 17.943077 // m/s at 10 000 L/h, 73 °C
+	us := 34 / 14.413949 // at 12 500 L/h, 73 °C
 	uc := 34 / 15.643030 // at 11 500 L/h, 72.42 °C
 	lh := func(q float64) float64 { return q / 3600 }
 	// Listeria: D(T) = 0.9 s · 10^((71.7 − T)/6.3).
@@ -87,9 +88,9 @@ func TestLogsScriptedShift(t *testing.T) {
 		atRisk                  float64
 		divert                  any // nil or seconds
 	}
-	steady := 17.945745
-	shortMin := 7 + (34-7*us)/un    // 16.2318 s: 7 s of surge, the rest at the normal rate
-	combinedMin := 7 + (34-7*uc)/un // 16.9153 s
+	steady := 17.943077
+	shortMin := 7 + (34-7*us)/un    // 16.2292 s: 7 s of surge, the rest at the normal rate
+	combinedMin := 7 + (34-7*uc)/un // 16.9138 s
 	wants := []want{
 		// A 20 s dip to 72.30 °C, above the 72 °C row: limits met, not diverted.
 		// Longer than the residence: its last parcels crossed the tube at 72.30 °C.
@@ -97,13 +98,13 @@ func TestLogsScriptedShift(t *testing.T) {
 		// 72.4 then 71.9 °C (below every row: at risk), diverted at the third sample below.
 		{"temperature", "2026-03-14T06:50:01Z", "product at risk", 2, 2 * lh(10000), 71.9, 10000, steady, 17.939128, lh(10000), 2.0},
 		// 8 s at 12 500 L/h: per parcel 16.23 s meets 15 s; per sample 14.41 s would not.
-		{"flow", "2026-03-14T07:15:00Z", "limits met", 8, 8 * lh(12500), 73, 12500, shortMin, 14.415999, 0, nil},
+		{"flow", "2026-03-14T07:15:00Z", "limits met", 8, 8 * lh(12500), 73, 12500, shortMin, 14.413949, 0, nil},
 		// 45 s at 12 800 L/h: the tube fills with surge product, 14.08 s.
 		// At risk: the parcels leaving from +k s with k + (34 − k·u_l)/u_n < 15
 		// (k ≥ 11, worked with python3): 34 samples × 12 800 L/h × 1 s.
-		{"flow", "2026-03-14T07:35:00Z", "product at risk", 45, 45 * lh(12800), 73, 12800, 14.084155, 14.084155, 34 * lh(12800), nil},
+		{"flow", "2026-03-14T07:35:00Z", "product at risk", 45, 45 * lh(12800), 73, 12800, 14.082161, 14.082161, 34 * lh(12800), nil},
 		// Then 5 parcels leave within both limits but under-held: j + (34 − j·u_n)/u_l < 15 for j = 0…4.
-		{"lethality", "2026-03-14T07:35:45Z", "product at risk", 5, 5 * lh(10000), 73, 10000, 14.084155, steady, 5 * lh(10000), nil},
+		{"lethality", "2026-03-14T07:35:45Z", "product at risk", 5, 5 * lh(10000), 73, 10000, 14.082161, steady, 5 * lh(10000), nil},
 		// The recorder's 40 s hole in forward flow.
 		{"gap", "2026-03-14T07:50:00Z", "no record", 40, 40 * lh(10000), 73, 10000, steady, steady, 40 * lh(10000), nil},
 		{"temperature+flow", "2026-03-14T07:55:00Z", "limits met", 8, 8 * lh(11500), 72.42, 11500, combinedMin, 15.643030, 0, nil},

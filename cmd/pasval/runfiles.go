@@ -76,16 +76,18 @@ const heatingTemperatures = 4
 
 func (f *runFlags) register(cmd *cobra.Command) {
 	fl := cmd.Flags()
-	fl.StringToStringVar(&f.columns, "columns", nil, "the file's header names for the columns, key=Header,… (keys: time, hold_outlet_temperature, flow_rate, forward; "+
+	// The names are runlog's, which its messages use.
+	name := func(flag string) string { return strings.TrimPrefix(flag, "--") }
+	fl.StringToStringVar(&f.columns, name(runlog.FlagColumns), nil, "the file's header names for the columns, key=Header,… (keys: time, hold_outlet_temperature, flow_rate, forward; "+
 		"optional: heating_product_in, heating_product_out, heating_medium_in, heating_medium_out, heating_medium_flow)")
-	fl.StringVar(&f.separator, "separator", "", "the separator between columns: ',', ';' or tab (default: the one the header uses)")
-	fl.BoolVar(&f.decimalComma, "decimal-comma", false, "numbers are written with a decimal comma (72,5); not with the ',' separator")
-	fl.StringVar(&f.temperatureUnit, "temperature-unit", "", "unit of a temperature column whose header gives none (°C, °F, K)")
-	fl.StringVar(&f.flowUnit, "flow-unit", "", "unit of a flow column whose header gives none (L/h, gpm, m3/h, kg/h, lb/h, …)")
-	fl.StringVar(&f.timezone, "timezone", "", "time zone of clock times written without an offset, and of the times shown (IANA name such as Europe/Berlin; default UTC)")
-	fl.IntVar(&f.skipBadRows, "skip-bad-rows", 0, "skip up to N malformed rows (counted, the first listed) instead of stopping at the first")
-	fl.Float64Var(&f.gap, "gap", 0, "longest interval between samples, s, that is not a recording gap (default: 5 × the median interval)")
-	fl.Float64Var(&f.window, "window", defaultWindow, "width of the clock-aligned windows over which the heating section's U is computed, s (with the heating columns)")
+	fl.StringVar(&f.separator, name(runlog.FlagSeparator), "", "the separator between columns: ',', ';' or tab (default: the one the header uses)")
+	fl.BoolVar(&f.decimalComma, name(runlog.FlagDecimalComma), false, "numbers are written with a decimal comma (72,5); not with the ',' separator")
+	fl.StringVar(&f.temperatureUnit, name(runlog.FlagTemperatureUnit), "", "unit of a temperature column whose header gives none (°C, °F, K)")
+	fl.StringVar(&f.flowUnit, name(runlog.FlagFlowUnit), "", "unit of a flow column whose header gives none (L/h, gpm, m3/h, kg/h, lb/h, …)")
+	fl.StringVar(&f.timezone, name(runlog.FlagTimezone), "", "time zone of clock times written without an offset, and of the times shown (IANA name such as Europe/Berlin; default UTC)")
+	fl.IntVar(&f.skipBadRows, name(runlog.FlagSkipBadRows), 0, "skip up to N malformed rows (counted, the first listed) instead of stopping at the first")
+	fl.Float64Var(&f.gap, name(runlog.FlagGap), 0, "longest interval between samples, s, that is not a recording gap (default: 5 × the median interval)")
+	fl.Float64Var(&f.window, name(runlog.FlagWindow), defaultWindow, "width of the clock-aligned windows over which the heating section's U is computed, s (with the heating columns)")
 	fl.BoolVar(&f.quiet, "quiet", false, "no progress bar")
 }
 
@@ -211,16 +213,6 @@ func (f runFlags) reading() [][2]string {
 	return kv
 }
 
-// optionFlags names the command-line flag of each runlog option.
-var optionFlags = map[string]string{
-	"Separator":       "--separator",
-	"DecimalComma":    "--decimal-comma",
-	"Columns":         "--columns",
-	"TemperatureUnit": "--temperature-unit",
-	"FlowUnit":        "--flow-unit",
-	"SkipBadRows":     "--skip-bad-rows",
-}
-
 // readerOptions checks the flags and turns them into the reader's options
 // and the time zone; every refusal names its flag (exit 2).
 func (f runFlags) readerOptions() (runlog.Options, *time.Location, error) {
@@ -233,19 +225,19 @@ func (f runFlags) readerOptions() (runlog.Options, *time.Location, error) {
 	case "tab", "\t", `\t`:
 		opt.Separator = '\t'
 	default:
-		return opt, nil, usagef("--separator must be ',', ';' or tab, not %q", f.separator)
+		return opt, nil, usagef("%s must be ',', ';' or tab, not %q", runlog.FlagSeparator, f.separator)
 	}
 	if !(f.gap >= 0) || f.gap > 1e9 {
-		return opt, nil, usagef("--gap must be a number of seconds above 0 (0 or absent: 5 × the median interval), not %g", f.gap)
+		return opt, nil, usagef("%s must be a number of seconds above 0 (0 or absent: 5 × the median interval), not %g", runlog.FlagGap, f.gap)
 	}
 	if !(f.window >= 0) || f.window > 86400 {
-		return opt, nil, usagef("--window must be a number of seconds above 0 and at most 86400 (a day), not %g", f.window)
+		return opt, nil, usagef("%s must be a number of seconds above 0 and at most 86400 (a day), not %g", runlog.FlagWindow, f.window)
 	}
 	loc := time.UTC
 	if f.timezone != "" {
 		l, err := time.LoadLocation(f.timezone)
 		if err != nil || strings.EqualFold(f.timezone, "local") {
-			return opt, nil, usagef("--timezone %q is not a time zone name: give an IANA name such as Europe/Berlin or America/Chicago, or UTC", f.timezone)
+			return opt, nil, usagef("%s %q is not a time zone name: give an IANA name such as Europe/Berlin or America/Chicago, or UTC", runlog.FlagTimezone, f.timezone)
 		}
 		loc = l
 	}
@@ -262,7 +254,7 @@ func flagError(err error) error {
 	if !errors.As(err, &oe) {
 		return err
 	}
-	if name, ok := optionFlags[oe.Option]; ok {
+	if name := runlog.OptionFlag(oe.Option); name != "" {
 		return usagef("%s: %s", name, oe.Msg)
 	}
 	return usagef("%s", oe.Msg)
@@ -373,21 +365,30 @@ func reviewError(err error) error {
 
 // judgeRun feeds one file's samples to the engine, and with the heating
 // section's columns gathers them into windows of width s.
+//
+// The engine starts at the first record, when the reader knows the origin
+// its clock times count from: the engine computes in those times (exact to
+// the nanosecond) and gives its results in Unix seconds.
 func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options, width float64) (assess.RunFile, error) {
-	e, err := runs.NewEngine(rm.Model, opt)
-	if err != nil {
-		return assess.RunFile{}, err // NewRunModel has checked the criteria
-	}
 	heat, err := heatingWindower(r, width)
 	if err != nil {
 		return assess.RunFile{}, err
 	}
+	var e *runs.Engine
+	origin := 0.0
 	mass := r.FlowIsMass()
 	for r.Next() {
+		if e == nil {
+			origin = float64(r.Origin())
+			opt.Origin = origin
+			if e, err = runs.NewEngine(rm.Model, opt); err != nil {
+				return assess.RunFile{}, err // NewRunModel has checked the criteria
+			}
+		}
 		rec := r.Record()
 		if heat != nil {
 			o := rec.Optional
-			heat.Add(fouling.Sample{Time: rec.Time, ProductMassFlow: rm.ProductMassFlow(rec.Flow, mass), Forward: rec.Forward,
+			heat.Add(fouling.Sample{Time: origin + rec.Time, ProductMassFlow: rm.ProductMassFlow(rec.Flow, mass), Forward: rec.Forward,
 				ProductIn: o[0], ProductOut: o[1], MediumIn: o[2], MediumOut: o[3], MediumFlow: o[4]})
 		}
 		s := runs.Sample{Time: rec.Time, Temperature: rec.Temperature, Flow: rm.TubeFlow(rec.Flow, mass), Forward: rec.Forward}
@@ -402,6 +403,9 @@ func judgeRun(r *runlog.Reader, rm assess.RunModel, opt runs.Options, width floa
 	}
 	if err := r.Err(); err != nil {
 		return assess.RunFile{}, err
+	}
+	if e == nil { // not reached: the reader refuses a file without rows
+		return assess.RunFile{}, inputerr.List{inputerr.At(inputerr.Pos{File: r.Name(), Line: r.HeaderLine() + 1, Column: 1}, "", "no data rows after the header")}
 	}
 	bad, listed := r.Skipped()
 	f := assess.RunFile{Path: r.Name(), SHA256: hex.EncodeToString(r.SHA256()), Rows: r.Rows(), BadRows: bad, Listed: listed,
@@ -431,8 +435,8 @@ func heatingWindower(r *runlog.Reader, width float64) (*fouling.Windower, error)
 	case len(missing) > 0:
 		return nil, inputerr.List{inputerr.At(inputerr.Pos{File: r.Name(), Line: r.HeaderLine(), Column: 1}, missing[0],
 			"the header has %s but no %s: the heating section's U needs all four of its temperatures "+
-				"(name the file's columns for them with the columns option, or leave the heating columns out)",
-			strings.Join(have, ", "), strings.Join(missing, ", "))}
+				"(name the file's columns for them with %s %s=NAME, or leave the heating columns out)",
+			strings.Join(have, ", "), strings.Join(missing, ", "), runlog.FlagColumns, missing[0])}
 	}
 	flow := r.Columns()[len(runlog.Standard)+heatingTemperatures]
 	return fouling.NewWindower(width, flow.Index >= 0 && flow.Kind == units.MassFlow), nil

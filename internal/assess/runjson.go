@@ -28,6 +28,8 @@ type ReviewJSON struct {
 	// (docs/METHOD.md §17); absent when none has.
 	Heating *HeatingJSON  `json:"heating,omitempty"`
 	Files   []RunFileJSON `json:"files"`
+	// Warnings are the review's warnings (the caller words them, in SI).
+	Warnings []Warning `json:"warnings"`
 	// SamplingNote states the sampling interval's limit on every time of
 	// the review, in words (internal/present fills it, in SI).
 	SamplingNote string `json:"sampling_note"`
@@ -48,11 +50,20 @@ type SummaryJSON struct {
 	MinForwardLogReduction           *float64            `json:"min_forward_log_reduction"`
 	MinForwardLogReductionByOrganism map[string]*float64 `json:"min_forward_log_reduction_by_organism"`
 	MinForwardResidenceS             *float64            `json:"min_forward_residence_s"`
-	Gaps                             int                 `json:"gaps"`
-	BadRows                          int                 `json:"bad_rows"`
-	Events                           int                 `json:"events"`
-	MedianIntervalS                  *float64            `json:"median_interval_s"`
-	GapThresholdS                    *float64            `json:"gap_threshold_s"`
+	// SamplesShort counts the forward samples whose parcels failed a legal
+	// row or a required log reduction, as recorded.
+	SamplesShort int `json:"samples_short"`
+	// With process.sensor_accuracy, the same judged with every reading
+	// lowered by it (SensorLowK); null without (docs/METHOD.md §13.4).
+	SensorLowK                                  *float64            `json:"sensor_low_K"`
+	SamplesShortAtSensorLow                     *int                `json:"samples_short_at_sensor_low"`
+	MinForwardLogReductionAtSensorLow           *float64            `json:"min_forward_log_reduction_at_sensor_low"`
+	MinForwardLogReductionAtSensorLowByOrganism map[string]*float64 `json:"min_forward_log_reduction_at_sensor_low_by_organism"`
+	Gaps                                        int                 `json:"gaps"`
+	BadRows                                     int                 `json:"bad_rows"`
+	Events                                      int                 `json:"events"`
+	MedianIntervalS                             *float64            `json:"median_interval_s"`
+	GapThresholdS                               *float64            `json:"gap_threshold_s"`
 }
 
 // EventJSON is one event; File is its file's path as given.
@@ -73,6 +84,11 @@ type EventJSON struct {
 	Verdict                   runs.Verdict        `json:"verdict"`
 	AtRiskVolumeL             float64             `json:"at_risk_volume_L"`
 	DivertAfterS              *float64            `json:"divert_after_s"`
+	// With process.sensor_accuracy: the event's parcels judged with the
+	// reading lowered by it; null without.
+	SamplesShortAtSensorLow              *int                `json:"samples_short_at_sensor_low"`
+	MinLogReductionAtSensorLow           *float64            `json:"min_log_reduction_at_sensor_low"`
+	MinLogReductionAtSensorLowByOrganism map[string]*float64 `json:"min_log_reduction_at_sensor_low_by_organism"`
 }
 
 // DropJSON is one drop of the outlet temperature below the setpoint, forward
@@ -104,7 +120,7 @@ func (r *RunReview) JSON() ReviewJSON {
 	s := r.Summary
 	orgs := r.Model.Model.Organisms
 	out := ReviewJSON{Tool: "pasval", Version: version.Version, Plant: r.Plant.File, PlantSHA256: r.Plant.SHA256,
-		Events: []EventJSON{}, Drops: []DropJSON{}, Files: []RunFileJSON{}, Caution: r.Caution}
+		Events: []EventJSON{}, Drops: []DropJSON{}, Files: []RunFileJSON{}, Warnings: append([]Warning{}, r.Warnings...), Caution: r.Caution}
 	out.Summary = SummaryJSON{Rows: s.Rows, Start: r.timeJSON(s.Start), End: r.timeJSON(s.End), ForwardS: s.Forward, DivertedS: s.Diverted,
 		ForwardVolumeL: r.Model.Recorded(s.ForwardVolume) * 1e3, DivertedVolumeL: r.Model.Recorded(s.DivertedVolume) * 1e3,
 		MinForwardTemperatureC: number(s.MinForwardTemperature), MaxForwardFlowLh: number(r.Model.Recorded(s.MaxForwardFlow) * m3sToLh),
@@ -112,6 +128,15 @@ func (r *RunReview) JSON() ReviewJSON {
 		Gaps: s.Gaps, BadRows: r.BadRows(), Events: r.Events(), MedianIntervalS: number(s.MedianInterval), GapThresholdS: number(s.GapThreshold)}
 	if len(s.MinForwardLogReduction) > 0 {
 		out.Summary.MinForwardLogReduction = number(s.MinForwardLogReduction[0])
+	}
+	out.Summary.SamplesShort = s.SamplesShort
+	if a := r.Model.Model.SensorAccuracy; a > 0 {
+		n := s.SamplesShortAtSensorLow
+		out.Summary.SensorLowK, out.Summary.SamplesShortAtSensorLow = &a, &n
+		out.Summary.MinForwardLogReductionAtSensorLowByOrganism = byOrganism(orgs, s.MinForwardLogReductionAtSensorLow)
+		if len(s.MinForwardLogReductionAtSensorLow) > 0 {
+			out.Summary.MinForwardLogReductionAtSensorLow = number(s.MinForwardLogReductionAtSensorLow[0])
+		}
 	}
 	if s.Rows == 0 {
 		out.Summary.Start, out.Summary.End = nil, nil
@@ -149,6 +174,14 @@ func (r *RunReview) eventJSON(path string, e runs.Event) EventJSON {
 	if len(r.Model.Model.Legal) > 0 {
 		met := e.LegalRowMet
 		ej.LegalRowMet = &met
+	}
+	if r.Model.Model.SensorAccuracy > 0 {
+		n := e.SamplesShortAtSensorLow
+		ej.SamplesShortAtSensorLow = &n
+		ej.MinLogReductionAtSensorLowByOrganism = byOrganism(orgs, e.MinLogReductionAtSensorLow)
+		if len(e.MinLogReductionAtSensorLow) > 0 {
+			ej.MinLogReductionAtSensorLow = number(e.MinLogReductionAtSensorLow[0])
+		}
 	}
 	return ej
 }

@@ -8,6 +8,7 @@ import (
 	"pasval/internal/inputerr"
 	"pasval/internal/plantfile"
 	"pasval/internal/props"
+	"pasval/internal/runlog"
 	"pasval/lethality"
 	"pasval/runs"
 )
@@ -23,6 +24,8 @@ type RunModel struct {
 	ProductDensity float64
 	// HoldDensity is the density in the tube, kg/m³ (at the setpoint).
 	HoldDensity float64
+	// NormalFlow is flow.rate in the tube's terms, m³/s (the engine's flows).
+	NormalFlow float64
 }
 
 // NewRunModel builds the run model of a validated plant file. A plant
@@ -40,7 +43,8 @@ func NewRunModel(p *plantfile.Plant) (RunModel, error) {
 		return RunModel{}, holdingInputError(p, err)
 	}
 	m := runs.Model{Tube: ev.Tube, Rheology: ev.Rheology, Density: in.Density, FastestToMean: in.FastestToMean,
-		Organisms: in.Organisms, Legal: in.Legal, Setpoint: in.Setpoint, MaxFlow: in.MaxMassFlow / in.Density}
+		Organisms: in.Organisms, Legal: in.Legal, Setpoint: in.Setpoint, MaxFlow: in.MaxMassFlow / in.Density,
+		SensorAccuracy: in.SensorAccuracy}
 	if in.FlowIndex == 0 && len(in.Viscosity) > 1 {
 		// Each interval's Reynolds number at its own recorded temperature,
 		// on the product's viscosity curve (docs/METHOD.md §4 (viscosity)).
@@ -65,7 +69,7 @@ func NewRunModel(p *plantfile.Plant) (RunModel, error) {
 	} else if err != nil {
 		return RunModel{}, err
 	}
-	return RunModel{Model: m, ProductDensity: pp.Density, HoldDensity: in.Density}, nil
+	return RunModel{Model: m, ProductDensity: pp.Density, HoldDensity: in.Density, NormalFlow: in.MassFlow / in.Density}, nil
 }
 
 // TubeFlow is the tube's volumetric flow, m³/s, for a recorded flow q: a
@@ -129,7 +133,9 @@ type RunReview struct {
 	// Heating is the heating section over the runs that have its columns
 	// (docs/METHOD.md §17); nil when none has.
 	Heating *HeatingReview
-	Caution string
+	// Warnings are the files' implausible columns (unitWarnings).
+	Warnings []Warning
+	Caution  string
 }
 
 // ErrMixedTimes is a review whose files do not all write time the same way.
@@ -153,12 +159,46 @@ func NewRunReview(p *plantfile.Plant, rm RunModel, files []RunFile, loc *time.Lo
 		r.Clock = r.Clock && f.Clock
 	}
 	r.Summary = runs.MergeSummaries(sums)
+	for _, f := range files {
+		r.Warnings = append(r.Warnings, rm.unitWarnings(f)...)
+	}
 	h, err := newHeatingReview(p, files, r.Clock)
 	if err != nil {
 		return nil, err
 	}
 	r.Heating = h
 	return r, nil
+}
+
+// The plausibility of a recorded run's units (docs/METHOD.md §13.1): the
+// median forward temperature within RunTemperatureSpread of the setpoint,
+// the median forward flow within RunFlowRatioLow to RunFlowRatioHigh times
+// the normal rate. A column in °F read as °C lies 40 K or more off at
+// pasteurizing temperatures, gpm read as L/h is 227 times too little: far
+// outside both, while a line's normal running (a setpoint a few kelvin
+// below the product's temperature, a rate turned down or up) stays inside.
+const (
+	RunTemperatureSpread = 15.0 // K
+	RunFlowRatioLow      = 0.2
+	RunFlowRatioHigh     = 5.0
+)
+
+// unitWarnings are a file's warnings on columns whose forward values lie
+// far from what the plant file says (RunTemperatureSpread, RunFlowRatio…).
+func (rm RunModel) unitWarnings(f RunFile) []Warning {
+	var out []Warning
+	s, m := f.Result.Summary, rm.Model
+	if t := s.MedianForwardTemperature; !math.IsNaN(t) && math.Abs(t-m.Setpoint) > RunTemperatureSpread {
+		out = append(out, Warning{Code: WarnRunTemperatureUnit, File: f.Path, Field: runlog.KeyTemperature,
+			Values: map[string]float64{"median_C": t, "setpoint_C": m.Setpoint, "limit_K": RunTemperatureSpread}})
+	}
+	if q := s.MedianForwardFlow; !math.IsNaN(q) && rm.NormalFlow > 0 &&
+		(q < RunFlowRatioLow*rm.NormalFlow || q > RunFlowRatioHigh*rm.NormalFlow) {
+		out = append(out, Warning{Code: WarnRunFlowUnit, File: f.Path, Field: runlog.KeyFlow,
+			Values: map[string]float64{"median_m3_s": rm.Recorded(q), "normal_m3_s": rm.Recorded(rm.NormalFlow),
+				"low_ratio": RunFlowRatioLow, "high_ratio": RunFlowRatioHigh}})
+	}
+	return out
 }
 
 // Events counts the events of every file.

@@ -87,6 +87,12 @@ const (
 	// (LineWarnings). Values: inheriting (how many of the products judged
 	// take one).
 	WarnLineProductBlock WarningCode = "line-file-gives-product-block"
+	// Recorded runs (docs/METHOD.md §13.1); File names the run, Field its
+	// column's key. The median of the first forward samples lies far from
+	// what the plant file says the line runs at: a column read in the wrong
+	// unit (°F read as °C, gpm as L/h) passes otherwise unnoticed.
+	WarnRunTemperatureUnit WarningCode = "run-temperature-implausible" // median_C, setpoint_C, limit_K
+	WarnRunFlowUnit        WarningCode = "run-flow-implausible"        // median_m3_s, normal_m3_s, low_ratio, high_ratio
 )
 
 // WarningCodes lists every code (tests walk each through the wording).
@@ -96,14 +102,17 @@ var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, War
 	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated,
 	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm,
 	WarnAcceptanceNotJudged, WarnHoldingTimeNotJudged, NoteSealFromRate, NoteRateFromSeal,
-	WarnLegalRowCool, WarnScalesMixed, WarnTimingTestDiffers, WarnViscosityRises, NoteExactSensor, WarnLineProductBlock}
+	WarnLegalRowCool, WarnScalesMixed, WarnTimingTestDiffers, WarnViscosityRises, NoteExactSensor, WarnLineProductBlock,
+	WarnRunTemperatureUnit, WarnRunFlowUnit}
 
 // Warning is something the user should look at that is not a failed check.
 // assess fills Code, Field and Values (SI, each key naming its unit);
 // Message is made by internal/present (in SI for JSON).
 type Warning struct {
-	Code  WarningCode `json:"code"`
-	Field string      `json:"field,omitempty"` // the plant-file path concerned, when there is one
+	Code WarningCode `json:"code"`
+	// File is the recorded run concerned, for a run review's warnings.
+	File  string `json:"file,omitempty"`
+	Field string `json:"field,omitempty"` // the plant-file path concerned, or a recorded run's column key
 	// Section names the heat-exchange section concerned, as regen labels it
 	// ("regeneration", "cooling stage \"chilled water\""), when there is one.
 	Section string             `json:"section,omitempty"`

@@ -173,6 +173,78 @@ func RunOverall(r *assess.RunReview) string {
 	return fmt.Sprintf("%d event%s (%s)", r.Events(), plural(r.Events()), strings.SplitN(eventCounts(r), ": ", 2)[1])
 }
 
+// SensorLow says, when the plant gives the sensor's accuracy, what the
+// review's parcels would have been with every reading lowered by it
+// (docs/METHOD.md §13.4): how many forward samples' parcels would fall
+// short, and the least log reduction per organism, each beside its value as
+// recorded. "" without an accuracy or without forward samples.
+func SensorLow(r *assess.RunReview, d Display) string {
+	a, s := r.Model.Model.SensorAccuracy, r.Summary
+	if !(a > 0) || s.ForwardSamples == 0 {
+		return ""
+	}
+	var b strings.Builder
+	whose := "samples'"
+	if s.SamplesShortAtSensorLow == 1 {
+		whose = "sample's"
+	}
+	fmt.Fprintf(&b, "with the sensor reading %s low (its stated accuracy), %d forward %s parcels would fall short of a legal row or a "+
+		"required log reduction, against %d as recorded", d.With(a, units.TemperatureDifference, 2), s.SamplesShortAtSensorLow, whose, s.SamplesShort)
+	orgs := r.Model.Model.Organisms
+	for i, o := range orgs {
+		switch i {
+		case 0:
+			b.WriteString("; the least log reduction would be ")
+		case len(orgs) - 1:
+			b.WriteString(" and ")
+		default:
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(&b, "%s for %s (%s as recorded)", logReduction(s.MinForwardLogReductionAtSensorLow[i]), o.Name, logReduction(s.MinForwardLogReduction[i]))
+	}
+	b.WriteString(". The verdicts take the readings as recorded.")
+	text := b.String()
+	return strings.ToUpper(text[:1]) + text[1:]
+}
+
+// runUnitText words a recorded run's implausible column (docs/METHOD.md
+// §13.1), with the numbers: what the column mostly holds against what the
+// plant file says the line runs at.
+func runUnitText(w assess.Warning, d Display) string {
+	v := w.Values
+	file := oneline.Escape(w.File)
+	if w.Code == assess.WarnRunTemperatureUnit {
+		return fmt.Sprintf("%s: the median forward %s is %s, %s from the setpoint %s (more than %s): check the units of the column "+
+			"(the unit in its header, or --temperature-unit)", file, w.Field, d.With(v["median_C"], units.Temperature, 2),
+			d.With(math.Abs(v["median_C"]-v["setpoint_C"]), units.TemperatureDifference, 1), d.With(v["setpoint_C"], units.Temperature, 2),
+			d.With(v["limit_K"], units.TemperatureDifference, 0))
+	}
+	return fmt.Sprintf("%s: the median forward %s is %s, %s × the plant's normal rate %s (outside %s to %s ×): check the units of the column "+
+		"(the unit in its header, or --flow-unit)", file, w.Field, d.With(v["median_m3_s"], units.VolumeFlow, d.flowPrec()),
+		strconv.FormatFloat(v["median_m3_s"]/v["normal_m3_s"], 'g', 3, 64), d.With(v["normal_m3_s"], units.VolumeFlow, d.flowPrec()),
+		strconv.FormatFloat(v["low_ratio"], 'g', -1, 64), strconv.FormatFloat(v["high_ratio"], 'g', -1, 64))
+}
+
+// RunWarnings are a review's warnings in words.
+func RunWarnings(r *assess.RunReview, d Display) []string {
+	out := make([]string, len(r.Warnings))
+	for i, w := range r.Warnings {
+		out[i] = WarningText(w, r.Plant, d)
+	}
+	return out
+}
+
+// RunWarningsJSON are a review's warnings with their messages, in SI.
+func RunWarningsJSON(r *assess.RunReview) []assess.Warning {
+	si := Display{Sys: units.SI}
+	out := make([]assess.Warning, len(r.Warnings))
+	for i, w := range r.Warnings {
+		w.Message = WarningText(w, r.Plant, si)
+		out[i] = w
+	}
+	return out
+}
+
 // residence prints a fastest-particle residence; +Inf is product that has
 // not moved since the run began.
 func residence(s float64) string {

@@ -207,6 +207,8 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 		return fmt.Sprintf("flow.max_rate is not entered: the normal rate %s is taken as the sealed maximum, at which the holding tube is judged", d.flow(v["rate_m3_s"]))
 	case assess.NoteRateFromSeal:
 		return fmt.Sprintf("flow.rate is not entered: the sealed maximum %s is taken as the normal rate, at which the sections are computed", d.flow(v["rate_m3_s"]))
+	case assess.WarnRunTemperatureUnit, assess.WarnRunFlowUnit:
+		return runUnitText(w, d)
 	}
 	if text, ok := packWarningText(w, p, d); ok {
 		return text

@@ -207,6 +207,12 @@ func runSummarySection(rev *assess.RunReview, d present.Display) report.Section 
 		}
 		blocks = append(blocks, report.Paragraph{Text: "Malformed rows skipped (the first of each file):"}, report.Bullets{Items: lines})
 	}
+	if text := present.SensorLow(rev, d); text != "" {
+		blocks = append(blocks, report.Paragraph{Text: text})
+	}
+	if warnings := present.RunWarnings(rev, d); len(warnings) > 0 {
+		blocks = append(blocks, report.Paragraph{Text: "Warnings:"}, report.Bullets{Items: warnings})
+	}
 	return report.Section{Heading: "Summary", Blocks: blocks}
 }
 

@@ -94,6 +94,29 @@ func splitHeader(field string) (name, unit string, hasUnit bool) {
 	return f, "", false
 }
 
+// The command-line flags that set the reader's options (and the review's
+// gap limit, time zone and heating windows). Messages name them, so that an
+// error says what to change; the command line registers its flags by these
+// names (a test there holds each to a registered flag).
+const (
+	FlagSeparator       = "--separator"
+	FlagDecimalComma    = "--decimal-comma"
+	FlagColumns         = "--columns"
+	FlagTemperatureUnit = "--temperature-unit"
+	FlagFlowUnit        = "--flow-unit"
+	FlagTimezone        = "--timezone"
+	FlagSkipBadRows     = "--skip-bad-rows"
+	FlagGap             = "--gap"
+	FlagWindow          = "--window"
+)
+
+// OptionFlag is the flag that sets an Options field (OptionError.Option);
+// "" for one the command line does not set (Optional).
+func OptionFlag(option string) string {
+	return map[string]string{"Separator": FlagSeparator, "DecimalComma": FlagDecimalComma, "Columns": FlagColumns,
+		"TemperatureUnit": FlagTemperatureUnit, "FlowUnit": FlagFlowUnit, "SkipBadRows": FlagSkipBadRows, "Location": FlagTimezone}[option]
+}
+
 // OptionError is a problem in the reader's options themselves (a mapping to
 // an unknown column, a decimal comma with the comma separator); the command
 // line names the option.
@@ -116,7 +139,7 @@ func (o *Options) check() error {
 		return &OptionError{"Separator", fmt.Sprintf("the separator must be ',', ';' or a tab, not %q", o.Separator)}
 	}
 	if o.DecimalComma && o.Separator == ',' {
-		return &OptionError{"DecimalComma", "a decimal comma cannot be read with ',' as the separator: use ';' or a tab"}
+		return &OptionError{"DecimalComma", "a decimal comma cannot be read with ',' as the separator: give " + FlagSeparator + " ';' or tab"}
 	}
 	if o.SkipBadRows < 0 {
 		return &OptionError{"SkipBadRows", fmt.Sprintf("the number of bad rows to skip must be 0 or more, not %d", o.SkipBadRows)}

@@ -39,6 +39,11 @@ func FuzzRunReader(f *testing.F) {
 	// zone-less times read there), fractions and offsets at their limits.
 	f.Add([]byte(hdr+"2024-02-29T23:59:59.999999999Z,72.8,10000,1\n2026-04-30T00:00:00+24:00,72.8,10000,1\n2026-12-31 23:59:59,5-00:30,72.8,10000,1\n"), uint8(0))
 	f.Add([]byte(hdr+"2026-03-29 01:59:59,72.8,10000,1\n2026-03-29 02:30:00,72.8,10000,1\n2026-10-25 02:30:00,72.8,10000,1\n2026-10-25 03:00:00,72.8,10000,1\n"), uint8(16))
+	// Rows in one minute written in every way (the parser's same-minute path).
+	f.Add([]byte(hdr+"2026-03-14T06:00:00Z,72.8,10000,1\n2026-03-14T06:00:01Z,72.8,10000,1\n2026-03-14T06:00:02,72.8,10000,1\n"+
+		"2026-03-14T06:00:03.5Z,72.8,10000,1\n2026-03-14T06:00:04+00:00,72.8,10000,1\n2026-03-14T06:00:65Z,72.8,10000,1\n"+
+		"2026-03-14T06:00:05Zx,72.8,10000,1\n2026-03-14T06:00:06,5,72.8,10000,1\n2026-03-14T06:00:07,72.8,10000,1\n2026-03-14T06:01:00Z,72.8,10000,1\n"), uint8(0))
+	f.Add([]byte(hdr+"2026-03-14 06:00:00,72.8,10000,1\n2026-03-14 06:00:01,72.8,10000,1\n2026-03-14 06:00:02Z,72.8,10000,1\n"), uint8(8))
 	berlin, _ := time.LoadLocation("Europe/Berlin")
 	f.Fuzz(func(t *testing.T, data []byte, sel uint8) {
 		opt := Options{Separator: []byte{0, ',', ';', '\t'}[sel&3], DecimalComma: sel&4 != 0}
@@ -183,7 +188,7 @@ func referenceRead(t *testing.T, data []byte, r *Reader, opt Options) ([]Record,
 			if err != nil {
 				return recs, line
 			}
-			rec.Time = float64(tm.Unix()) + float64(tm.Nanosecond())*1e-9
+			rec.Time = float64(tm.Unix()-r.Origin()) + float64(tm.Nanosecond())*1e-9
 		} else {
 			v, ok := refNumber(tf, opt.DecimalComma)
 			if !ok {

@@ -3,6 +3,7 @@ package runlog
 import (
 	"bytes"
 	"fmt"
+	"math"
 	"strings"
 
 	"pasval/internal/inputerr"
@@ -24,13 +25,13 @@ func (r *Reader) readHeader() error {
 	if sp.sep == 0 {
 		sep, ok := detectSeparator(line)
 		if !ok {
-			return r.listAt(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, "", "cannot tell the separator from the header %q: expected columns (%s) separated by ',', ';' or tabs; give the separator if the header uses several", clip(line), standardNames())
+			return r.listAt(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, "", "cannot tell the separator from the header %q: expected columns (%s) separated by ',', ';' or tabs; give %s if the header uses several", clip(line), standardNames(), FlagSeparator)
 		}
 		sp.sep = sep
 	}
 	r.cfg.sep = sp.sep
 	if sp.sep == ',' && r.opt.DecimalComma {
-		return r.listAt(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, "", "the header is separated by ',', which cannot go with decimal commas: export with ';' or tabs between columns, or without the decimal-comma option")
+		return r.listAt(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, "", "the header is separated by ',', which cannot go with decimal commas: export with ';' or tabs between columns, or read without %s", FlagDecimalComma)
 	}
 	if serr := sp.split(line, true); serr != nil {
 		return r.listAt(r.cfg.pos(r.line, serr.at), "", "in the header: %s", serr.msg)
@@ -62,7 +63,7 @@ func (r *Reader) readHeader() error {
 		}
 		if r.found[c].Index < 0 && col.Required {
 			errs = append(errs, inputerr.At(inputerr.Pos{File: r.name, Line: r.line, Column: 1}, col.Key,
-				"the header has no column %q (it has %s); name the file's column for it with the columns option", want, quoteList(names)))
+				"the header has no column %q (it has %s); name the file's column for it with %s %s=NAME", want, quoteList(names), FlagColumns, col.Key))
 		}
 	}
 	if len(errs) > 0 {
@@ -92,6 +93,18 @@ func (r *Reader) readHeader() error {
 		r.cfg.numeric = append(r.cfg.numeric, n)
 	}
 	r.cfg.setRoles()
+	if r.cfg.nOptional > 0 {
+		r.cfg.noOptional = make([]float64, r.cfg.nOptional)
+		for c := range r.opt.Optional {
+			if r.found[len(Standard)+c].Index >= 0 {
+				r.cfg.noOptional = nil // some are read: each record has its own
+				break
+			}
+		}
+		for i := range r.cfg.noOptional {
+			r.cfg.noOptional[i] = math.NaN()
+		}
+	}
 	return nil
 }
 
@@ -121,8 +134,8 @@ func (r *Reader) setUnit(f *Found, col Column, unit string, hasUnit bool, at int
 		hasUnit = false
 	}
 	if !hasUnit && opt == "" {
-		return inputerr.At(pos, col.Key, "no unit for %s: write it in the header, as %q, or give the %s unit option",
-			col.Kinds[0].Name, col.Key+" ["+exampleUnit(col.Kinds[0])+"]", col.Kinds[0].Name)
+		return inputerr.At(pos, col.Key, "no unit for %s: write it in the header, as %q, or give %s",
+			col.Kinds[0].Name, col.Key+" ["+exampleUnit(col.Kinds[0])+"]", unitFlag(col))
 	}
 	use := unit
 	if !hasUnit {
@@ -139,11 +152,25 @@ func (r *Reader) setUnit(f *Found, col Column, unit string, hasUnit bool, at int
 	if hasUnit && opt != "" {
 		k2, s2, o2, err := converter(opt, col.Kinds)
 		if err != nil || k2 != kind || !sameConversion(scale, offset, s2, o2) {
-			return inputerr.At(pos, col.Key, "the header says [%s] but the unit option says %q: remove one", unit, opt)
+			return inputerr.At(pos, col.Key, "the header says [%s] but %s says %q: remove one", unit, unitFlag(col), opt)
 		}
 	}
 	f.Unit, f.Kind, f.Scale, f.Offset = use, kind, scale, offset
 	return nil
+}
+
+// unitFlag is the flag that gives a column's unit when its header has none
+// (Options.fallbackUnit).
+func unitFlag(c Column) string {
+	for _, k := range c.Kinds {
+		switch k {
+		case units.Temperature:
+			return FlagTemperatureUnit
+		case units.VolumeFlow, units.MassFlow:
+			return FlagFlowUnit
+		}
+	}
+	panic(panicPrefix + "no unit flag for the column " + c.Key)
 }
 
 func exampleUnit(k units.Kind) string {

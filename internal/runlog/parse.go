@@ -273,19 +273,16 @@ func daysFromCivil(y, m, d int) int64 {
 	return int64(era)*146097 + int64(doe) - 719468
 }
 
-// seconds gives the clock's instant as seconds since 1970-01-01 UTC. A time
-// without an offset is read in loc, exactly as time.Date reads it (in a
-// repeated hour at the end of daylight saving time time.Date picks one of the
-// two instants; a recorder writing local times without offset cannot say
-// which).
-func (c clock) seconds(loc *time.Location) float64 {
-	var unix int64
+// unix gives the clock's instant as whole seconds since 1970-01-01 UTC (the
+// fraction is c.nsec). A time without an offset is read in loc, exactly as
+// time.Date reads it (in a repeated hour at the end of daylight saving time
+// time.Date picks one of the two instants; a recorder writing local times
+// without offset cannot say which).
+func (c clock) unix(loc *time.Location) int64 {
 	if c.zoned || loc == time.UTC {
-		unix = daysFromCivil(c.year, c.month, c.day)*86400 + int64(c.hour*3600+c.min*60+c.sec) - int64(c.offset)
-	} else {
-		unix = time.Date(c.year, time.Month(c.month), c.day, c.hour, c.min, c.sec, 0, loc).Unix()
+		return daysFromCivil(c.year, c.month, c.day)*86400 + int64(c.hour*3600+c.min*60+c.sec) - int64(c.offset)
 	}
-	return float64(unix) + float64(c.nsec)*1e-9
+	return time.Date(c.year, time.Month(c.month), c.day, c.hour, c.min, c.sec, 0, loc).Unix()
 }
 
 // parseFlag reads the flow-diversion position: 1, true or forward for
@@ -305,6 +302,14 @@ var flagWords = [...]struct {
 // bytes it took. No word is the start of another, so the first that fits is
 // the only one.
 func scanFlag(b []byte) (forward bool, n int, ok bool) {
+	if len(b) > 0 { // the common case first: "1" and "0" begin no other word
+		switch b[0] {
+		case '1':
+			return true, 1, true
+		case '0':
+			return false, 1, true
+		}
+	}
 	for _, w := range flagWords {
 		if len(b) >= len(w.word) && equalFold(b[:len(w.word)], w.word) {
 			return w.forward, len(w.word), true

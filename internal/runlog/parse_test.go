@@ -76,9 +76,8 @@ func TestParseClock(t *testing.T) {
 		if !ok {
 			continue
 		}
-		want := float64(c.want.Unix()) + float64(c.want.Nanosecond())*1e-9
-		if got := cl.seconds(time.UTC); math.Abs(got-want) > 1e-6 {
-			t.Errorf("parseClock(%q) = %.9f, want %.9f", c.in, got, want)
+		if got := cl.unix(time.UTC); got != c.want.Unix() || cl.nsec != c.want.Nanosecond() {
+			t.Errorf("parseClock(%q) = %d s %d ns, want %d s %d ns", c.in, got, cl.nsec, c.want.Unix(), c.want.Nanosecond())
 		}
 	}
 }

@@ -78,8 +78,12 @@ func (r *Reader) start() {
 	}
 }
 
-// stop ends the goroutines and waits for them.
+// stop ends the goroutines and waits for them (the hashing one too: after
+// the producer's finish it has nothing left to do).
 func (r *Reader) stop() {
+	if r.hash != nil {
+		defer r.hash.abort()
+	}
 	if r.quit == nil {
 		return
 	}
@@ -137,7 +141,9 @@ func (r *Reader) produce(jobs chan<- job) {
 				// Hash the whole file as stored, trailing bytes included.
 				if _, err := io.Copy(io.Discard, r.raw); err != nil {
 					r.sendFatal(inputerr.At(inputerr.Pos{File: r.cfg.name}, "", "cannot read to the end: %v", err))
+					return
 				}
+				r.hash.finish()
 			}
 			return
 		}
@@ -158,7 +164,9 @@ func fill(rd io.Reader, buf []byte) ([]byte, error) {
 }
 
 // decide fixes the time format from the first row with the header's
-// number of fields, before any block is parsed.
+// number of fields, before any block is parsed, and with clock times the
+// origin they count from (the start of that row's date: any whole second
+// near the run keeps a time's fraction exact enough).
 func (r *Reader) decide(blk block) {
 	sp := splitter{sep: r.cfg.sep}
 	data := blk.data
@@ -173,7 +181,12 @@ func (r *Reader) decide(blk block) {
 		if len(l) == 0 || sp.split(l, blk.quotes) != nil || sp.n != r.cfg.nfields {
 			continue
 		}
-		r.cfg.clock = looksLikeClock(trim(sp.field(r.cfg.timeField), r.cfg.sep))
+		tb := trim(sp.field(r.cfg.timeField), r.cfg.sep)
+		r.cfg.clock = looksLikeClock(tb)
+		var cl clock
+		if _, ok := scanClock(tb, &cl); r.cfg.clock && ok {
+			r.cfg.origin = daysFromCivil(cl.year, cl.month, cl.day) * 86400
+		}
 		r.decided = true
 		return
 	}
@@ -208,7 +221,7 @@ func (p *parser) parseBlock(blk block, b *batch) {
 	// growing by appending would copy the records over and over.
 	if n := len(data)/p.lineLen + 64; cap(b.recs) < n {
 		b.recs = make([]Record, 0, n)
-		if k := p.cfg.nOptional; k > 0 {
+		if k := p.cfg.nOptional; k > 0 && p.cfg.noOptional == nil {
 			b.opt = make([]float64, 0, n*k)
 		}
 	}
@@ -229,7 +242,13 @@ func (p *parser) parseBlock(blk block, b *batch) {
 		if len(l) == 0 {
 			continue
 		}
-		rec := b.grow(p.cfg.nOptional)
+		var rec *Record
+		if p.cfg.noOptional != nil {
+			rec = b.grow(0)
+			rec.Optional = p.cfg.noOptional
+		} else {
+			rec = b.grow(p.cfg.nOptional)
+		}
 		if blk.quotes || blk.general || !p.fastRow(l, lineNo, rec, &res) {
 			p.parseRow(l, lineNo, rec, blk.quotes, &res)
 		}
@@ -351,7 +370,7 @@ func (r *Reader) Next() bool {
 			r.ei++
 			if e.fatal || r.bad >= r.opt.SkipBadRows {
 				if r.bad > 0 && !e.fatal {
-					e.err.Msg += fmt.Sprintf(" (one more than the %d bad rows allowed)", r.opt.SkipBadRows)
+					e.err.Msg += fmt.Sprintf(" (one more than %s %d allows)", FlagSkipBadRows, r.opt.SkipBadRows)
 				}
 				r.fail(e.err)
 				return false

@@ -13,17 +13,24 @@ import (
 // and the first row has settled the time format, then shared read-only by
 // the parsing goroutines.
 type rowConfig struct {
-	name         string
-	nfields      int
-	sep          byte
-	timeField    int
-	flagField    int
-	timeUnit     string  // a unit of time from the header, "" for none
-	timeScale    float64 // seconds per unit of a numeric time
-	clock        bool    // times are RFC 3339 clock times
-	numeric      []numField
-	roles        []fieldRole // per field of a line, for the fast path
-	nOptional    int
+	name      string
+	nfields   int
+	sep       byte
+	timeField int
+	flagField int
+	timeUnit  string  // a unit of time from the header, "" for none
+	timeScale float64 // seconds per unit of a numeric time
+	clock     bool    // times are RFC 3339 clock times
+	// origin is the Unix second clock times count from (Record.Time): the
+	// start of the first row's date, so that a time keeps its nanoseconds
+	// in a float64 (Unix seconds in a float64 are rounded to 0.24 µs).
+	origin    int64
+	numeric   []numField
+	roles     []fieldRole // per field of a line, for the fast path
+	nOptional int
+	// noOptional holds nOptional NaNs, shared by every record when the
+	// header has none of the optional columns (nothing to store per row).
+	noOptional   []float64
 	decimalComma bool
 	loc          *time.Location
 }
@@ -82,6 +89,11 @@ type parser struct {
 	dateY, dateM, dateD int
 	dateDays            int64
 	dateOK              bool
+	// The minute of the last clock time read in UTC (sameMinute).
+	minText [17]byte
+	minBase int64 // Unix seconds at the minute's start
+	minZ    bool  // written with Z
+	minOK   bool
 }
 
 func newParser(cfg *rowConfig) *parser {
@@ -211,14 +223,22 @@ func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) b
 		case fieldTime:
 			tb := line[pos:]
 			if c.clock {
-				var cl clock
-				k, ok := scanClock(tb, &cl)
-				// A fraction written "06:00:00,5" would take the
-				// separator ',' into the time.
-				if !ok || c.timeUnit != "" || k > 19 && tb[19] == c.sep {
+				if c.timeUnit != "" {
 					return false
 				}
-				rec.Time, res.zoneLess = p.seconds(&cl), !cl.zoned
+				t, k, zoneLess, ok := p.sameMinute(tb)
+				if !ok {
+					var cl clock
+					k, ok = scanClock(tb, &cl)
+					// A fraction written "06:00:00,5" would take the
+					// separator ',' into the time.
+					if !ok || k > 19 && tb[19] == c.sep {
+						return false
+					}
+					t, zoneLess = p.seconds(&cl), !cl.zoned
+					p.rememberMinute(tb, k, &cl)
+				}
+				rec.Time, res.zoneLess = t, zoneLess
 				tb = tb[:k]
 			} else {
 				v, k, ok := scanNumber(tb, c.decimalComma)
@@ -264,18 +284,67 @@ func fieldEnd(line []byte, pos int, sep byte) int {
 	return len(line)
 }
 
-// seconds is a clock's instant in seconds since 1970-01-01 UTC (see
-// clock.seconds), remembering the last date's day number.
+// seconds is a clock's instant in seconds since the file's origin
+// (rowConfig.origin; see clock.unix), remembering the last date's day number.
 func (p *parser) seconds(cl *clock) float64 {
+	var unix int64
 	if !cl.zoned && p.cfg.loc != time.UTC {
-		return cl.seconds(p.cfg.loc)
+		unix = cl.unix(p.cfg.loc)
+	} else {
+		if !p.dateOK || cl.year != p.dateY || cl.month != p.dateM || cl.day != p.dateD {
+			p.dateY, p.dateM, p.dateD, p.dateOK = cl.year, cl.month, cl.day, true
+			p.dateDays = daysFromCivil(cl.year, cl.month, cl.day)
+		}
+		unix = p.dateDays*86400 + int64(cl.hour*3600+cl.min*60+cl.sec) - int64(cl.offset)
 	}
-	if !p.dateOK || cl.year != p.dateY || cl.month != p.dateM || cl.day != p.dateD {
-		p.dateY, p.dateM, p.dateD, p.dateOK = cl.year, cl.month, cl.day, true
-		p.dateDays = daysFromCivil(cl.year, cl.month, cl.day)
+	return float64(unix-p.cfg.origin) + float64(cl.nsec)*1e-9
+}
+
+// sameMinute reads a clock time in the minute of the last one
+// rememberMinute kept, when it is written as that one was (the same first
+// 17 bytes, "2026-03-14T06:00:", and then two digits of seconds and the
+// same ending, Z or none): then only the seconds differ, and the time is
+// the minute's start plus them, as scanClock and seconds would give it.
+// ok is false for anything else, which the full parser then reads.
+func (p *parser) sameMinute(tb []byte) (t float64, k int, zoneLess, ok bool) {
+	if !p.minOK || len(tb) < 19 || string(tb[:17]) != string(p.minText[:]) {
+		return 0, 0, false, false
 	}
-	unix := p.dateDays*86400 + int64(cl.hour*3600+cl.min*60+cl.sec) - int64(cl.offset)
-	return float64(unix) + float64(cl.nsec)*1e-9
+	s0, s1 := tb[17]-'0', tb[18]-'0'
+	if s0 > 5 || s1 > 9 {
+		return 0, 0, false, false
+	}
+	if p.minZ {
+		if len(tb) < 20 || tb[19] != 'Z' {
+			return 0, 0, false, false
+		}
+		k = 20
+	} else {
+		// Zone-less, read in UTC: the time ends at the separator (a ','
+		// followed by a digit is a fraction, which scanClock reads).
+		sep := p.cfg.sep
+		if len(tb) > 19 && (tb[19] != sep || sep == ',' && len(tb) > 20 && tb[20]-'0' <= 9) {
+			return 0, 0, false, false
+		}
+		k = 19
+	}
+	unix := p.minBase + int64(s0)*10 + int64(s1)
+	return float64(unix - p.cfg.origin), k, !p.minZ, true
+}
+
+// rememberMinute keeps the minute of a clock time that scanClock read as
+// tb[:k] (cl), for sameMinute: one in UTC ('Z') or zone-less read in UTC,
+// without a fraction. Others are not kept (a zone's change of offset need
+// not fall on a minute).
+func (p *parser) rememberMinute(tb []byte, k int, cl *clock) {
+	z := k == 20 && tb[19] == 'Z'
+	if cl.nsec != 0 || !(z || k == 19 && !cl.zoned && p.cfg.loc == time.UTC) {
+		p.minOK = false
+		return
+	}
+	copy(p.minText[:], tb[:17])
+	p.minBase = cl.unix(time.UTC) - int64(cl.sec)
+	p.minZ, p.minOK = z, true
 }
 
 func (p *parser) numberError(n *numField, b []byte, lineNo int) *inputerr.Error {
@@ -286,7 +355,11 @@ func (p *parser) numberError(n *numField, b []byte, lineNo int) *inputerr.Error 
 		return inputerr.At(pos, n.key, "empty: expected a number")
 	case !c.decimalComma && bytes.IndexByte(b, ',') >= 0:
 		if _, ok := parseNumber(b, true); ok {
-			return inputerr.At(pos, n.key, "expected a number with '.' as the decimal mark, found %q: is the file written with decimal commas?", clip(b))
+			how := "read it with " + FlagDecimalComma
+			if c.sep == ',' {
+				how = "export it with ';' or tabs between columns and read it with " + FlagDecimalComma
+			}
+			return inputerr.At(pos, n.key, "expected a number with '.' as the decimal mark, found %q: if the file is written with decimal commas, %s", clip(b), how)
 		}
 	case c.decimalComma && bytes.IndexByte(b, '.') >= 0:
 		return inputerr.At(pos, n.key, "expected a number with ',' as the decimal mark, found %q ('.' could be a thousands separator)", clip(b))

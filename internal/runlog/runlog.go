@@ -57,9 +57,7 @@ package runlog
 import (
 	"bufio"
 	"compress/gzip"
-	"crypto/sha256"
 	"errors"
-	"hash"
 	"io"
 	"os"
 	"sync"
@@ -109,13 +107,17 @@ const headerBuffer = 64 << 10
 
 // Record is one sample, in SI. The Reader reuses it: copy what you keep.
 type Record struct {
-	Line        int     // the file's line
-	Time        float64 // s: since 1970-01-01 UTC for clock times, else as written
+	Line int // the file's line
+	// Time is in s: for clock times since the Reader's Origin (a whole
+	// second near the run, so that the fraction of a time keeps its
+	// nanoseconds), else as written.
+	Time        float64
 	Temperature float64 // °C, hold_outlet_temperature
 	Flow        float64 // m³/s, or kg/s when the Reader's FlowIsMass
 	Forward     bool
 	// Optional holds Options.Optional's columns in SI, in that order; NaN
-	// where the column is absent or the cell empty.
+	// where the column is absent or the cell empty. Read it only: a file
+	// with none of the columns shares one slice of NaNs between records.
 	Optional []float64
 }
 
@@ -128,7 +130,7 @@ type Reader struct {
 	closer io.Closer
 	raw    *bufio.Reader // the bytes as stored
 	src    *bufio.Reader // the text (raw itself, or decompressed)
-	hash   hash.Hash
+	hash   *asyncHash
 	count  *countingReader
 
 	line   int // the last line of the header phase
@@ -189,7 +191,7 @@ func NewReader(rd io.Reader, name string, opt Options) (*Reader, error) {
 	return newReader(rd, name, opt)
 }
 
-func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
+func newReader(rd io.Reader, name string, opt Options) (_ *Reader, err error) {
 	r := &Reader{name: name, opt: opt}
 	r.cfg.name, r.cfg.decimalComma, r.cfg.loc, r.cfg.nOptional = name, opt.DecimalComma, opt.Location, len(opt.Optional)
 	if r.cfg.loc == nil {
@@ -198,12 +200,17 @@ func newReader(rd io.Reader, name string, opt Options) (*Reader, error) {
 	r.count = &countingReader{r: rd}
 	var in io.Reader = r.count
 	if opt.Hash {
-		r.hash = sha256.New()
-		in = io.TeeReader(in, r.hash)
+		r.hash = newAsyncHash(in)
+		in = r.hash
 	}
 	// Small buffers: the blocks (pipeline.go) are larger, so once the
 	// header is read bufio hands their reads straight to the file or the
 	// decompressor instead of copying.
+	defer func() {
+		if err != nil && r.hash != nil {
+			r.hash.abort()
+		}
+	}()
 	r.raw = bufio.NewReaderSize(in, headerBuffer)
 	r.src = r.raw
 	// A file shorter than two bytes cannot be gzip; Peek's error then only says so.
@@ -314,10 +321,16 @@ func (r *Reader) HasOptional(i int) bool { return r.found[len(Standard)+i].Index
 // volumetric one (m³/s).
 func (r *Reader) FlowIsMass() bool { return r.found[2].Kind == units.MassFlow }
 
-// ClockTimes says whether times are clock times (seconds since 1970-01-01
-// UTC) rather than seconds from an origin of the file's own; known after the
+// ClockTimes says whether times are clock times (seconds since Origin)
+// rather than seconds from an origin of the file's own; known after the
 // first row.
 func (r *Reader) ClockTimes() bool { return r.cfg.clock }
+
+// Origin is the Unix second (since 1970-01-01 UTC) that clock times count
+// from: a clock time is Origin + Record.Time. It is the start of the first
+// row's date as written; 0 for seconds from a start. Known after the first
+// row, like ClockTimes.
+func (r *Reader) Origin() int64 { return r.cfg.origin }
 
 // ZoneLess says whether some clock time was written without an offset (and
 // so read in Options.Location).
@@ -329,7 +342,7 @@ func (r *Reader) SHA256() []byte {
 	if r.hash == nil || !r.done || r.err != nil {
 		return nil
 	}
-	return r.hash.Sum(nil)
+	return r.hash.Sum()
 }
 
 // Progress is how many bytes of the file as stored have been read, and its

@@ -19,7 +19,8 @@ import (
 	"pasval/internal/units"
 )
 
-// readAll reads a whole file from text; it fails the test on error.
+// readAll reads a whole file from text, clock times as Unix seconds (Origin
+// added); it fails the test on error.
 func readAll(t *testing.T, text string, opt Options) ([]Record, *Reader) {
 	t.Helper()
 	r, err := NewReader(strings.NewReader(text), "run.csv", opt)
@@ -30,6 +31,7 @@ func readAll(t *testing.T, text string, opt Options) ([]Record, *Reader) {
 	for r.Next() {
 		rec := *r.Record()
 		rec.Optional = append([]float64(nil), rec.Optional...)
+		rec.Time += float64(r.Origin())
 		recs = append(recs, rec)
 	}
 	if err := r.Err(); err != nil {
@@ -136,7 +138,9 @@ func TestGzipByContent(t *testing.T) {
 		}
 		var got []Record
 		for r.Next() {
-			got = append(got, *r.Record())
+			rec := *r.Record()
+			rec.Time += float64(r.Origin())
+			got = append(got, rec)
 		}
 		if err := r.Err(); err != nil {
 			t.Fatal(err)
@@ -197,6 +201,49 @@ func TestTimes(t *testing.T) {
 	})
 }
 
+// TestClockTimesKeepTheirFraction: clock times count from the start of the
+// first row's date (Origin), so a fraction of a second is kept to the
+// nanosecond; as Unix seconds in a float64 (2^31 s < 1.77e9 s < 2^31, a
+// step of 2^-22 s = 0.24 µs) it would be rounded. The values are exact
+// decimal arithmetic on the text.
+func TestClockTimesKeepTheirFraction(t *testing.T) {
+	text := "time,hold_outlet_temperature [°C],flow_rate [L/h],forward\n" +
+		"2026-03-14T06:00:00.000000001Z,72.8,10000,1\n" +
+		"2026-03-14T06:00:15.000000002Z,72.8,10000,1\n" +
+		"2026-03-15T00:00:00.25+00:00,72.8,10000,1\n"
+	r, err := NewReader(strings.NewReader(text), "run.csv", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []float64
+	for r.Next() {
+		got = append(got, r.Record().Time)
+	}
+	if err := r.Err(); err != nil {
+		t.Fatal(err)
+	}
+	// 2026-03-14T00:00:00Z, by the standard library.
+	if want := time.Date(2026, 3, 14, 0, 0, 0, 0, time.UTC).Unix(); r.Origin() != want {
+		t.Errorf("origin %d, want %d", r.Origin(), want)
+	}
+	// 6 h = 21 600 s; the next day's midnight is 86 400 s.
+	want := []float64{21600.000000001, 21615.000000002, 86400.25}
+	for i, w := range want {
+		if i >= len(got) || math.Abs(got[i]-w) > 1e-12*w {
+			t.Fatalf("times %v, want %v", got, want)
+		}
+	}
+	// The interval of 15.000000001 s survives; in Unix seconds it would not.
+	if d := got[1] - got[0]; math.Abs(d-15.000000001) > 1e-11 {
+		t.Errorf("interval %.12f s, want 15.000000001 s", d)
+	}
+	// Seconds from a start count from 0.
+	_, sr := readAll(t, "time [s],hold_outlet_temperature [°C],flow_rate [L/h],forward\n5,72.8,10000,1\n", Options{})
+	if sr.Origin() != 0 {
+		t.Errorf("seconds from a start: origin %d, want 0", sr.Origin())
+	}
+}
+
 // TestOptionalColumns reads a further numeric column by a Column entry.
 func TestOptionalColumns(t *testing.T) {
 	opt := Options{Optional: []Column{
@@ -239,14 +286,19 @@ func TestBadFiles(t *testing.T) {
 		{"header only", hdr, Options{}, 2, 1, "", "no data rows"},
 		{"unknown unit", "time,hold_outlet_temperature [°X],flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "not a unit of temperature"},
 		{"flow unit of the wrong kind", "time,hold_outlet_temperature [°C],flow_rate [kPa],forward\n" + row, Options{}, 1, 36, KeyFlow, "not a unit of volumetric flow or mass flow"},
-		{"no unit", "time,hold_outlet_temperature,flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "no unit"},
-		{"unit conflict", hdr + row, Options{TemperatureUnit: "°F"}, 1, 6, KeyTemperature, "the header says [°C] but the unit option says"},
-		{"missing column", "time,hold_outlet_temperature [°C],flow_rate [L/h]\n2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 1, 1, KeyForward, `no column "forward"`},
+		// Messages that say what to change name the command line's flags.
+		{"no unit", "time,hold_outlet_temperature,flow_rate [L/h],forward\n" + row, Options{}, 1, 6, KeyTemperature, "no unit for temperature: write it in the header, as \"hold_outlet_temperature [°C]\", or give --temperature-unit"},
+		{"no flow unit", "time,hold_outlet_temperature [°C],flow_rate,forward\n" + row, Options{}, 1, 36, KeyFlow, "or give --flow-unit"},
+		{"unit conflict", hdr + row, Options{TemperatureUnit: "°F"}, 1, 6, KeyTemperature, `the header says [°C] but --temperature-unit says "°F"`},
+		{"missing column", "time,hold_outlet_temperature [°C],flow_rate [L/h]\n2026-03-14T06:00:00Z,72.8,10000\n", Options{}, 1, 1, KeyForward, `no column "forward" (it has "time", "hold_outlet_temperature [°C]", "flow_rate [L/h]"); name the file's column for it with --columns forward=NAME`},
 		{"two columns for one key", "time,hold_outlet_temperature [°C],flow_rate [L/h],forward,Forward\n", Options{}, 1, 60, KeyForward, "a second column"},
-		{"decimal comma with a ',' header", hdr + row, Options{DecimalComma: true}, 1, 1, "", "cannot go with decimal commas"},
-		{"separator unknown", "time hold_outlet_temperature flow_rate forward\n", Options{}, 1, 1, "", "cannot tell the separator"},
+		{"decimal comma with a ',' header", hdr + row, Options{DecimalComma: true}, 1, 1, "", "cannot go with decimal commas: export with ';' or tabs between columns, or read without --decimal-comma"},
+		{"separator unknown", "time hold_outlet_temperature flow_rate forward\n", Options{}, 1, 1, "", "give --separator if the header uses several"},
 		{"text in a number", hdr + row + "2026-03-14T06:00:01Z,72.8,ten,1\n", Options{}, 3, 27, KeyFlow, `expected a number, found "ten"`},
-		{"decimal comma unannounced", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10000;1\n", Options{}, 2, 22, KeyTemperature, "decimal commas"},
+		{"decimal comma unannounced", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10000;1\n", Options{}, 2, 22, KeyTemperature,
+			`found "72,8": if the file is written with decimal commas, read it with --decimal-comma`},
+		{"decimal comma in quotes, ',' separator", hdr + "2026-03-14T06:00:00Z,\"72,8\",10000,1\n", Options{}, 2, 22, KeyTemperature,
+			"export it with ';' or tabs between columns and read it with --decimal-comma"},
 		{"point with decimal comma", "time;hold_outlet_temperature [°C];flow_rate [L/h];forward\n2026-03-14T06:00:00Z;72,8;10.000;1\n", Options{DecimalComma: true}, 2, 27, KeyFlow, "thousands separator"},
 		{"time backwards", hdr + row + "2026-03-14T06:00:02Z,72.8,10000,1\n2026-03-14T06:00:01Z,72.8,10000,1\n", Options{}, 4, 1, KeyTime, "time goes backwards"},
 		{"bad time", hdr + row + "2026-03-14T06:00:61Z,72.8,10000,1\n", Options{}, 3, 1, KeyTime, "expected an RFC 3339 date and time"},
@@ -320,7 +372,7 @@ func TestSkipBadRows(t *testing.T) {
 		for r.Next() {
 		}
 		var l inputerr.List
-		if !errors.As(r.Err(), &l) || len(l) != 4 || l[3].Pos.Line != 9 || !strings.Contains(l[3].Msg, "one more than the 3 bad rows allowed") {
+		if !errors.As(r.Err(), &l) || len(l) != 4 || l[3].Pos.Line != 9 || !strings.Contains(l[3].Msg, "one more than --skip-bad-rows 3 allows") {
 			t.Errorf("error %v", r.Err())
 		}
 	})

@@ -24,6 +24,7 @@ LENGTH = 34.0  # m
 RHO = 1031.0  # kg/m3, density as entered: the same at the raw inlet and in the tube
 VISCOSITY = [(4.0, 3.1e-3), (40.0, 1.35e-3), (72.5, 0.72e-3), (80.0, 0.64e-3)]  # degC, Pa s
 SETPOINT = 72.5
+SENSOR_ACCURACY = 0.25  # K, process.sensor_accuracy: each parcel judged again with the reading this much lower (§13.4)
 MAX_FLOW = 11000.0 / 3.6e6  # m3/s
 ORGANISMS = [  # name, D (s), D temperature (degC), z (K), required log reduction (0: none)
     ("M. paratuberculosis", 11.67, 71.0, 7.11, 0.0),
@@ -55,11 +56,11 @@ def viscosity(t):
 
 
 def fastest_speed(q, t):
-    """u_max = r v (§7.2-7.4): laminar below Re 4000 (r = 2), else Petukhov's n_p."""
+    """u_max = r v (§7.2-7.4): laminar below Re 4000 (r = 2), else Petukhov's n_p; mu at min(t, setpoint) (§13.4)."""
     if q <= 0:
         return 0.0
     v = q / AREA
-    re = RHO * v * D / viscosity(t)
+    re = RHO * v * D / viscosity(min(t, SETPOINT))  # the colder of reading and setpoint (§13.4)
     if re < 4000:
         r = 2.0
     else:
@@ -90,7 +91,11 @@ def read(path):
 
 
 def clock(s):
-    return datetime.datetime.fromtimestamp(s, datetime.timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ")
+    """A time from the first sample as RFC 3339 (ORIGIN: the first sample's Unix time)."""
+    return datetime.datetime.fromtimestamp(ORIGIN + s, datetime.timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ")
+
+
+ORIGIN = 0.0
 
 
 def number(v):
@@ -100,7 +105,13 @@ def number(v):
 def main(path):
     s = read(path)
     n = len(s)
-    times = [x[0] for x in s]
+    # Times from the first sample: a residence is a difference of times, and
+    # Unix seconds in a float (steps of 0.24 us in 2026) would lose its last
+    # digits (docs/METHOD.md §13.4).
+    global ORIGIN
+    ORIGIN = origin = s[0][0]
+    times = [x[0] - origin for x in s]
+    s = [(t,) + x[1:] for t, x in zip(times, s)]
     speeds = [fastest_speed(x[2], x[1]) for x in s]
     positive = [b - a for a, b in zip(times, times[1:]) if b > a][:MEDIAN_WINDOW]
     positive.sort()
@@ -119,7 +130,8 @@ def main(path):
         return times[i] - times[0] + rest / speeds[0] if speeds[0] > 0 else math.inf
 
     summ = dict(forward=0.0, diverted=0.0, fwd_vol=0.0, div_vol=0.0, min_t=math.inf, max_q=-math.inf,
-                min_res=math.inf, min_lr=[math.inf] * len(ORGANISMS), gaps=0)
+                min_res=math.inf, min_lr=[math.inf] * len(ORGANISMS), gaps=0,
+                short=0, short_low=0, min_lr_low=[math.inf] * len(ORGANISMS))
     events, drops = [], []
     ev, drop = None, None
 
@@ -179,6 +191,13 @@ def main(path):
         over = q > MAX_FLOW * (1 + FLOW_TOL)
         legal = legal_met(temp, res)
         req = all(not (o[4] > 0) or lr >= o[4] for o, lr in zip(ORGANISMS, lrs))
+        # The same parcel with the reading lowered by the sensor accuracy (the residence as recorded).
+        low = temp - SENSOR_ACCURACY
+        lrs_low = [res / d_value(o, low) for o in ORGANISMS]
+        short_low = not legal_met(low, res) or not all(not (o[4] > 0) or lr >= o[4] for o, lr in zip(ORGANISMS, lrs_low))
+        summ["short"] += (not legal or not req)
+        summ["short_low"] += short_low
+        summ["min_lr_low"] = [min(a, b) for a, b in zip(summ["min_lr_low"], lrs_low)]
         if gap:
             cls = "gap"
         elif below or over:
@@ -193,7 +212,8 @@ def main(path):
         if ev is None:
             ev = {"class": cls, "start": t, "duration": 0.0, "volume": 0.0, "min_t": math.inf, "max_q": -math.inf,
                   "min_lr": [math.inf] * len(ORGANISMS), "min_res": math.inf, "min_sample_res": math.inf,
-                  "legal": not gap, "at_risk": 0.0, "temp": False, "flow": False, "all_met": True, "drop": None}
+                  "legal": not gap, "at_risk": 0.0, "temp": False, "flow": False, "all_met": True, "drop": None,
+                  "short_low": 0, "min_lr_low": [math.inf] * len(ORGANISMS)}
         ev["end"] = t + d
         ev["duration"] += d
         ev["volume"] += vol
@@ -203,6 +223,8 @@ def main(path):
         if speeds[i] > 0:
             ev["min_sample_res"] = min(ev["min_sample_res"], LENGTH / speeds[i])
         ev["min_lr"] = [min(a, b) for a, b in zip(ev["min_lr"], lrs)]
+        ev["min_lr_low"] = [min(a, b) for a, b in zip(ev["min_lr_low"], lrs_low)]
+        ev["short_low"] += short_low
         if gap:
             ev["at_risk"] += vol
             continue
@@ -228,6 +250,9 @@ def main(path):
             "min_forward_log_reduction": number(summ["min_lr"][0]),
             "min_forward_log_reduction_by_organism": dict(zip(names, map(number, summ["min_lr"]))),
             "min_forward_residence_s": number(summ["min_res"]), "gaps": summ["gaps"],
+            "samples_short": summ["short"], "sensor_low_K": SENSOR_ACCURACY, "samples_short_at_sensor_low": summ["short_low"],
+            "min_forward_log_reduction_at_sensor_low": number(summ["min_lr_low"][0]),
+            "min_forward_log_reduction_at_sensor_low_by_organism": dict(zip(names, map(number, summ["min_lr_low"]))),
             "median_interval_s": median, "gap_threshold_s": threshold,
         },
         "events": [{
@@ -238,6 +263,8 @@ def main(path):
             "min_residence_s": number(e["min_res"]), "min_sample_residence_s": number(e["min_sample_res"]),
             "legal_row_met": e["legal"], "verdict": e["verdict"], "at_risk_volume_L": e["at_risk"] * 1e3,
             "divert_after_s": e["drop"]["divert_after"] if e["drop"] is not None else None,
+            "samples_short_at_sensor_low": e["short_low"], "min_log_reduction_at_sensor_low": number(e["min_lr_low"][0]),
+            "min_log_reduction_at_sensor_low_by_organism": dict(zip(names, map(number, e["min_lr_low"]))),
         } for e in events],
         "drops": [{
             "start": clock(d["start"]), "end": clock(d["end"]), "recovered": d["recovered"],
