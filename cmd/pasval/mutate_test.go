@@ -390,6 +390,9 @@ var mutReproducers = []mutSeed{
 	// A regenerator at the plate limit: plates --add 10 goes over it, and
 	// the refusal must point at the installed plates in the file.
 	{"testdata/demo/cider-us.yaml", "regeneration.plates", opSet, 0, "10000"},
+	// A line separator inside a quantity passed the unit reader (it is
+	// Unicode white space) and reached the output raw.
+	{"testdata/demo/frozen-dessert-si.yaml", "holding_tube.sanitary_tube", opSet, 0, "2 \u2028in"},
 }
 
 // seedArgs turns a named mutation into the fuzz target's arguments.

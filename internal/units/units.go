@@ -21,7 +21,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"unicode"
+
+	"pasval/internal/oneline"
 )
 
 // Dim holds the exponents of mass, length, time and temperature.
@@ -230,10 +231,13 @@ func Symbols() []string {
 // Parse reads "number unit" and returns the value in SI for the given kind.
 // A bare number is refused for any dimensional kind.
 func Parse(s string, k Kind) (Value, error) {
-	in := strings.TrimSpace(s)
-	if strings.IndexFunc(in, unicode.IsControl) >= 0 {
-		return Value{}, errorf(s, "%q contains a control character (a line break or tab inside the value); write the value on one line", s)
+	// The entered text is echoed in outputs and records, so it is held to
+	// the free-text rule (internal/oneline): no control character, line or
+	// paragraph separator or bidirectional formatting, even at either end.
+	if i, r, bad := oneline.Find(s); bad {
+		return Value{}, errorf(s, "%q contains %s at character %d; write the value on one line, with plain spaces", s, oneline.Describe(r), i)
 	}
+	in := strings.TrimSpace(s)
 	if in == "" {
 		return Value{}, errorf(s, "empty value: expected %s such as %s", Article(k.Name), k.Example)
 	}

@@ -130,6 +130,13 @@ func TestParseErrors(t *testing.T) {
 		{"3300 W/(m2*°)", "unknown unit", HeatTransferCoefficient},
 		{"60 deg", "unknown unit", Dimensionless},
 		{"1 rad", "unknown unit", Dimensionless},
+		// Entered text is echoed in outputs: the free-text rule holds for
+		// quantities too, Unicode white space or not (internal/oneline).
+		{"2 \u2028in", "line or paragraph separator", Length},
+		{"72\u2029 °C", "line or paragraph separator", Temperature},
+		{"72 °C\n", "a line break", Temperature},
+		{"\u202e72 °C", "bidirectional", Temperature},
+		{"10000 L/h\u0085", "line or paragraph separator", VolumeFlow},
 	}
 	for _, tc := range tests {
 		t.Run(tc.in, func(t *testing.T) {
