@@ -46,6 +46,9 @@ const MaxIntervalCount = 36500
 // ParseInterval reads a calendar interval: a positive whole number and one
 // of the units d (day, days), week(s), month(s), year(s).
 func ParseInterval(s string) (Interval, error) {
+	if err := oneLine(s); err != nil {
+		return Interval{}, err
+	}
 	in := strings.TrimSpace(s)
 	fields := strings.Fields(in)
 	if len(fields) == 0 {
@@ -139,6 +142,9 @@ const DateLayout = "2006-01-02"
 
 // ParseDate reads an ISO 8601 calendar date (YYYY-MM-DD) as midnight UTC.
 func ParseDate(s string) (time.Time, error) {
+	if err := oneLine(s); err != nil {
+		return time.Time{}, err
+	}
 	in := strings.TrimSpace(s)
 	d, err := time.Parse(DateLayout, in)
 	if err != nil || len(in) != len(DateLayout) {

@@ -88,6 +88,8 @@ func TestParseInterval(t *testing.T) {
 		{"3 min", "not a calendar unit"},
 		{"1 fortnight", "not a calendar unit"},
 		{"100000 d", "from 1 to"},
+		{"2 \u2028years", "line or paragraph separator"},
+		{"2 years\u200f", "bidirectional"},
 	} {
 		_, err := ParseInterval(c.in)
 		if err == nil || !strings.Contains(err.Error(), c.want) {
@@ -110,7 +112,7 @@ func TestParseDate(t *testing.T) {
 	if d, err := ParseDate("2028-02-29"); err != nil || d.Format(DateLayout) != "2028-02-29" {
 		t.Errorf("leap day: %v %v", d, err)
 	}
-	for _, s := range []string{"2027-02-29", "2026-13-01", "12/05/2026", "2026-5-12", "20260512", "2026-05-12T10:00:00Z", ""} {
+	for _, s := range []string{"2027-02-29", "2026-13-01", "12/05/2026", "2026-5-12", "20260512", "2026-05-12T10:00:00Z", "", "2026-05-12\u2028", "\u202a2026-05-12"} {
 		if _, err := ParseDate(s); err == nil {
 			t.Errorf("ParseDate(%q) accepted", s)
 		}

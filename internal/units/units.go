@@ -228,14 +228,23 @@ func Symbols() []string {
 	return out
 }
 
+// oneLine refuses entered text that internal/oneline refuses as free text:
+// it is echoed in outputs and records.
+func oneLine(s string) error {
+	if i, r, bad := oneline.Find(s); bad {
+		return errorf(s, "%q contains %s at character %d; write the value on one line, with plain spaces", s, oneline.Describe(r), i)
+	}
+	return nil
+}
+
 // Parse reads "number unit" and returns the value in SI for the given kind.
 // A bare number is refused for any dimensional kind.
 func Parse(s string, k Kind) (Value, error) {
 	// The entered text is echoed in outputs and records, so it is held to
 	// the free-text rule (internal/oneline): no control character, line or
 	// paragraph separator or bidirectional formatting, even at either end.
-	if i, r, bad := oneline.Find(s); bad {
-		return Value{}, errorf(s, "%q contains %s at character %d; write the value on one line, with plain spaces", s, oneline.Describe(r), i)
+	if err := oneLine(s); err != nil {
+		return Value{}, err
 	}
 	in := strings.TrimSpace(s)
 	if in == "" {
