@@ -67,11 +67,20 @@ func newTempCache(organisms int, low bool) *tempCache {
 	return c
 }
 
+// tempSlot is the entry for temperature bits key: the bits from the 38th
+// on (two or three entries to a hundredth of a degree between 64 and 128
+// °C, wrapping round every 16 °C), the sign and exponent hashed to move the
+// block. A recorded temperature moves a little from one sample to the next,
+// so the entries in use lie together.
+func tempSlot(key uint64) uint64 {
+	return (key>>38 + slot(key>>52, tempCacheBits)) & (1<<tempCacheBits - 1)
+}
+
 // at returns the entry for temperature temp (°C), filled for the engine's
 // model.
 func (c *tempCache) at(temp float64, eng *Engine) *tempEntry {
 	key := math.Float64bits(temp)
-	e := &c.entries[slot(key, tempCacheBits)]
+	e := &c.entries[tempSlot(key)]
 	if e.used && e.key == key {
 		return e
 	}
@@ -141,7 +150,12 @@ type speedEntry struct {
 	u    float64
 }
 
-// speedSlot is the entry for flow bits kq and temperature bits kt.
+// speedSlot is the entry for flow bits kq and temperature bits kt. The
+// flow's bits from the 35th on pick the entry (flows a few millionths
+// apart are neighbours, 1/8 apart wrap round), and the temperature's hash
+// moves the whole block: a run's flows, which wander a little about the
+// set rate, then fill a few contiguous kilobytes of the table instead of
+// scattering over it.
 func (c *speedCache) speedSlot(kq, kt uint64) *speedEntry {
-	return &c.entries[slot(kq^(kt*0xBF58476D1CE4E5B9), speedCacheBits)]
+	return &c.entries[(kq>>35+slot(kt, speedCacheBits))&(1<<speedCacheBits-1)]
 }
