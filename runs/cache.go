@@ -22,16 +22,19 @@ func slot(key uint64, bits uint) uint64 { return (key * 0x9E3779B97F4A7C15) >> (
 
 // tempEntry is what depends on a recorded outlet temperature alone: each
 // organism's D value and what is known of the legal table there, as read and
-// with the reading lowered by the sensor accuracy.
+// with the reading lowered by the sensor accuracy, and the product's
+// rheology there.
 type tempEntry struct {
 	key      uint64 // math.Float64bits of the temperature
 	used     bool
-	gen      uint32    // the cache's generation when filled
 	d        []float64 // D per organism, s
 	legal    legalBounds
 	dLow     []float64 // D per organism at the reading less Model.SensorAccuracy, s (nil without one)
 	legalLow legalBounds
-	rh       uint32 // the number of the rheology at this temperature (Engine.rheologyID); 0 when it does not depend on it
+	// rh is Model.RheologyAt at the colder of the reading and the setpoint
+	// (nil without RheologyAt), for the speeds of flows at this
+	// temperature.
+	rh lethality.Rheology
 }
 
 // legalBounds are, for one temperature, the least residence known to meet
@@ -46,7 +49,6 @@ type legalBounds struct {
 
 type tempCache struct {
 	entries [1 << tempCacheBits]tempEntry
-	gen     uint32 // raised when the rheology numbers start afresh
 }
 
 func newTempCache(organisms int, low bool) *tempCache {
@@ -65,15 +67,24 @@ func newTempCache(organisms int, low bool) *tempCache {
 	return c
 }
 
+// tempSlot is the entry for temperature bits key: the bits from the 38th
+// on (two or three entries to a hundredth of a degree between 64 and 128
+// °C, wrapping round every 16 °C), the sign and exponent hashed to move the
+// block. A recorded temperature moves a little from one sample to the next,
+// so the entries in use lie together.
+func tempSlot(key uint64) uint64 {
+	return (key>>38 + slot(key>>52, tempCacheBits)) & (1<<tempCacheBits - 1)
+}
+
 // at returns the entry for temperature temp (°C), filled for the engine's
 // model.
 func (c *tempCache) at(temp float64, eng *Engine) *tempEntry {
 	key := math.Float64bits(temp)
-	e := &c.entries[slot(key, tempCacheBits)]
-	if e.used && e.key == key && e.gen == c.gen {
+	e := &c.entries[tempSlot(key)]
+	if e.used && e.key == key {
 		return e
 	}
-	e.key, e.used, e.legal, e.legalLow, e.rh = key, true, legalBounds{}, legalBounds{}, 0
+	e.key, e.used, e.legal, e.legalLow, e.rh = key, true, legalBounds{}, legalBounds{}, nil
 	for i, o := range eng.m.Organisms {
 		e.d[i] = o.DAt(temp)
 	}
@@ -84,10 +95,8 @@ func (c *tempCache) at(temp float64, eng *Engine) *tempEntry {
 		}
 	}
 	if eng.m.RheologyAt != nil {
-		// The colder of the reading and the setpoint (Model.RheologyAt).
-		e.rh = eng.rheologyID(math.Min(temp, eng.m.Setpoint)) // may start a new generation
+		e.rh = eng.m.RheologyAt(eng.rheologyTemp(temp))
 	}
-	e.gen = c.gen
 	return e
 }
 
@@ -125,35 +134,28 @@ func judgeLegal(b *legalBounds, temp, res float64, m *Model) bool {
 	return met
 }
 
-// speedCache remembers the fastest particle's speed per flow and rheology
-// number (Engine.rheologyID).
+// speedCache remembers the fastest particle's speed per flow and the
+// temperature the rheology is taken at (Engine.rheologyTemp), both keyed by
+// their exact bits: RheologyAt gives one rheology for one temperature, so
+// the speed is the one a fresh computation gives. The key does not need the
+// temperature's cache entry, so both are looked up at once.
 type speedCache struct {
-	entries [1 << speedCacheBits]struct {
-		q    uint64
-		rh   uint32
-		used bool
-		u    float64
-	}
+	entries [1 << speedCacheBits]speedEntry
 }
 
-func (c *speedCache) get(q float64, rh uint32) (float64, bool) {
-	kq := math.Float64bits(q)
-	e := &c.entries[slot(kq^(uint64(rh)*0xBF58476D1CE4E5B9), speedCacheBits)]
-	return e.u, e.used && e.q == kq && e.rh == rh
+// speedEntry is one remembered speed; q is 0 in an unused entry (no flow
+// needs a speed: Engine.speed answers 0 for q ≤ 0).
+type speedEntry struct {
+	q, t uint64 // math.Float64bits of the flow and of the rheology's temperature
+	u    float64
 }
 
-func (c *speedCache) put(q float64, rh uint32, u float64) {
-	kq := math.Float64bits(q)
-	e := &c.entries[slot(kq^(uint64(rh)*0xBF58476D1CE4E5B9), speedCacheBits)]
-	e.q, e.rh, e.u, e.used = kq, rh, u, true
-}
-
-// maxRheologies bounds the rheologies an Engine numbers at once.
-const maxRheologies = 4096
-
-// rheologies numbers the distinct rheologies met so far. lethality's
-// rheologies are comparable values, so equal ones share a number.
-type rheologies struct {
-	ids  map[lethality.Rheology]uint32
-	list []lethality.Rheology
+// speedSlot is the entry for flow bits kq and temperature bits kt. The
+// flow's bits from the 35th on pick the entry (flows a few millionths
+// apart are neighbours, 1/8 apart wrap round), and the temperature's hash
+// moves the whole block: a run's flows, which wander a little about the
+// set rate, then fill a few contiguous kilobytes of the table instead of
+// scattering over it.
+func (c *speedCache) speedSlot(kq, kt uint64) *speedEntry {
+	return &c.entries[(kq>>35+slot(kt, speedCacheBits))&(1<<speedCacheBits-1)]
 }

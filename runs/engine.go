@@ -37,7 +37,6 @@ type Engine struct {
 
 	temps    *tempCache
 	speeds   speedCache
-	rheos    rheologies
 	lastTemp *tempEntry // the cache entry of the last sample's temperature
 
 	trace  *trace // nil unless Options.Trace
@@ -90,8 +89,7 @@ func NewEngine(m Model, opt Options) (*Engine, error) {
 	}
 	no := len(m.Organisms)
 	low := m.SensorAccuracy > 0
-	e := &Engine{m: m, threshold: opt.GapThreshold, origin: opt.Origin, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no, low), low: low,
-		rheos: rheologies{ids: map[lethality.Rheology]uint32{}}}
+	e := &Engine{m: m, threshold: opt.GapThreshold, origin: opt.Origin, drop: -1, lastLR: make([]float64, no), temps: newTempCache(no, low), low: low}
 	e.tr.length = m.Tube.Length
 	if opt.Trace != 0 {
 		e.trace = newTrace(opt.Trace)
@@ -182,7 +180,7 @@ func (e *Engine) take(s Sample) {
 		e.tr.advance(e.lastU, s.Time-e.t0)
 	}
 	e.lastTemp = e.temps.at(s.Temperature, e)
-	u := e.speed(s.Flow, e.lastTemp)
+	u := e.speed(s.Flow, s.Temperature, e.lastTemp)
 	if e.n == 0 {
 		e.t0 = s.Time
 		e.sum.Start = s.Time
@@ -198,48 +196,39 @@ func (e *Engine) take(s Sample) {
 }
 
 // speed is the fastest particle's speed r·v for flow q (m³/s) in product
-// at the temperature of entry t, by the same tube model as the design check
-// (docs/METHOD.md §7 (holding tube)): v = Q/A, r from the interval's
-// Reynolds number (or the model's override). Zero for no flow.
-func (e *Engine) speed(q float64, t *tempEntry) float64 {
+// at temperature temp (°C) with cache entry t, by the same tube model as
+// the design check (docs/METHOD.md §7 (holding tube)): v = Q/A, r from the
+// interval's Reynolds number (or the model's override). Zero for no flow.
+func (e *Engine) speed(q, temp float64, t *tempEntry) float64 {
 	if !(q > 0) {
 		return 0
 	}
-	if u, ok := e.speeds.get(q, t.rh); ok {
-		return u
-	}
-	rh := e.m.Rheology
+	kq, kt := math.Float64bits(q), uint64(0)
 	if e.m.RheologyAt != nil {
-		rh = e.rheos.list[t.rh]
+		kt = math.Float64bits(e.rheologyTemp(temp))
 	}
-	h := e.m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: e.m.Density}, rh, e.m.FastestToMean)
-	u := h.FastestToMean * h.MeanVelocity
-	e.speeds.put(q, t.rh, u)
+	c := e.speeds.speedSlot(kq, kt)
+	if c.q == kq && c.t == kt {
+		return c.u
+	}
+	u := e.freshSpeed(q, t)
+	*c = speedEntry{q: kq, t: kt, u: u}
 	return u
 }
 
-// rheologyID is the number of the product's rheology at temperature temp
-// (°C) when it depends on temperature: the speeds are cached by flow and
-// this number, so that every temperature with the same rheology (all those
-// beyond the last viscosity point, say) shares them. At most maxRheologies
-// are numbered; beyond, the numbers and every cache keyed by them start
-// afresh, so memory stays bounded.
-func (e *Engine) rheologyID(temp float64) uint32 {
-	rh := e.m.RheologyAt(temp)
-	if id, ok := e.rheos.ids[rh]; ok {
-		return id
+// freshSpeed is speed computed afresh, without the speed cache.
+func (e *Engine) freshSpeed(q float64, t *tempEntry) float64 {
+	rh := e.m.Rheology
+	if e.m.RheologyAt != nil {
+		rh = t.rh
 	}
-	if len(e.rheos.list) >= maxRheologies {
-		clear(e.rheos.ids)
-		e.rheos.list = e.rheos.list[:0]
-		e.speeds = speedCache{}
-		e.temps.gen++
-	}
-	id := uint32(len(e.rheos.list))
-	e.rheos.ids[rh] = id
-	e.rheos.list = append(e.rheos.list, rh)
-	return id
+	h := e.m.Tube.Hydraulics(lethality.Flow{Volumetric: q, Density: e.m.Density}, rh, e.m.FastestToMean)
+	return h.FastestToMean * h.MeanVelocity
 }
+
+// rheologyTemp is the temperature Model.RheologyAt is taken at for a
+// reading temp (°C): the colder of the reading and the setpoint.
+func (e *Engine) rheologyTemp(temp float64) float64 { return math.Min(temp, e.m.Setpoint) }
 
 // close books sample s (index i) with its held interval d, s.
 func (e *Engine) close(s Sample, i int, d float64) {

@@ -96,11 +96,11 @@ func TestTrackerWindowBounded(t *testing.T) {
 }
 
 // TestSpeedsKeyedByRheology: with a viscosity for every recorded
-// temperature, more of them than the engine numbers at once, every parcel's
-// residence still equals the definition walked back with speeds computed
-// afresh from package lethality, the viscosity taken at the colder of the
-// reading and the setpoint (docs/METHOD.md §13.4; the caches start over
-// without changing a result).
+// temperature, more of them than the temperature cache holds, every
+// parcel's residence still equals the definition walked back with speeds
+// computed afresh from package lethality, the viscosity taken at the colder
+// of the reading and the setpoint (docs/METHOD.md §13.4), and every cached
+// speed is the fresh one to the bit.
 func TestSpeedsKeyedByRheology(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
 	m := Model{
@@ -117,12 +117,13 @@ func TestSpeedsKeyedByRheology(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	const n = 3 * maxRheologies
+	const many = 4096 // more temperatures than the temperature cache has entries
+	const n = 3 * many
 	ts, us := make([]float64, n), make([]float64, n)
 	for i := range n {
 		temp := 60 + float64(rng.IntN(2000))/100 // 2000 temperatures, revisited, 750 of them above the setpoint
-		if i > 2*maxRheologies {
-			temp = 72.4 - float64(i-2*maxRheologies)/1000 // then new ones below it, past the bound
+		if i > 2*many {
+			temp = 72.4 - float64(i-2*many)/1000 // then new ones below it, evicting one another
 		}
 		q := (9500 + float64(rng.IntN(1000))) / 3.6e6
 		ts[i] = float64(i)
@@ -134,8 +135,9 @@ func TestSpeedsKeyedByRheology(t *testing.T) {
 		if want := bruteResidence(ts, us, i, m.Tube.Length); math.Abs(e.lastRes-want) > 1e-9*want {
 			t.Fatalf("sample %d: residence %.15g, want %.15g", i, e.lastRes, want)
 		}
-	}
-	if len(e.rheos.list) > maxRheologies || e.temps.gen == 0 {
-		t.Errorf("%d rheologies numbered (bound %d), %d fresh starts (want some)", len(e.rheos.list), maxRheologies, e.temps.gen)
+		// The cached speed is the fresh one to the bit.
+		if math.Float64bits(e.lastU) != math.Float64bits(us[i]) {
+			t.Fatalf("sample %d (%.2f °C, %g m³/s): speed %.17g m/s, computed afresh %.17g", i, temp, q, e.lastU, us[i])
+		}
 	}
 }

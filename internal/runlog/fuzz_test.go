@@ -44,6 +44,15 @@ func FuzzRunReader(f *testing.F) {
 		"2026-03-14T06:00:03.5Z,72.8,10000,1\n2026-03-14T06:00:04+00:00,72.8,10000,1\n2026-03-14T06:00:65Z,72.8,10000,1\n"+
 		"2026-03-14T06:00:05Zx,72.8,10000,1\n2026-03-14T06:00:06,5,72.8,10000,1\n2026-03-14T06:00:07,72.8,10000,1\n2026-03-14T06:01:00Z,72.8,10000,1\n"), uint8(0))
 	f.Add([]byte(hdr+"2026-03-14 06:00:00,72.8,10000,1\n2026-03-14 06:00:01,72.8,10000,1\n2026-03-14 06:00:02Z,72.8,10000,1\n"), uint8(8))
+	// Line ends the fast path reads itself: CRLF without quotes, mixed with
+	// LF, a lone CR, blank lines and lines of a CR, the last line ending in
+	// a CR or nothing; columns the reader does not use, first, between and
+	// last; the time as the last column.
+	f.Add([]byte(hdr+"2026-03-14T06:00:00Z,72.8,10000,1\r\n2026-03-14T06:00:01Z,72.9,10001.5,0\n\r\n\n2026-03-14T06:00:02Z,72.8\r,10000,1\r\r\n2026-03-14T06:00:03Z,72.8,10000,1\r"), uint8(0))
+	f.Add([]byte(hdr+"2026-03-14T06:00:00Z,72.8,10000,1\n2026-03-14T06:00:01Z,72.9,10001.5,forward"), uint8(0))
+	f.Add([]byte("note,time,hold_outlet_temperature [°C],x,flow_rate [L/h],forward,y\r\na,2026-03-14T06:00:00Z,72.8,b\r,10000,1,c\r\n,2026-03-14T06:00:01Z,72.8,,10000,1,\r\nz,2026-03-14T06:00:02Z,72.8,,10000,1,\n"), uint8(0))
+	f.Add([]byte("forward;flow_rate [L/h];hold_outlet_temperature [°C];time\n1;10000;72,8;2026-03-14 06:00:00\r\n1;10000;72,8;2026-03-14 06:00:01\n0;10000;72,8;2026-03-14 06:00:02Z\r\n1;10000;72,8;2026-03-14 06:00:03\r"), uint8(5))
+	f.Add([]byte("forward,flow_rate [L/h],hold_outlet_temperature [°C],time [s]\r\n1,10000,72.8,0\r\n1,10000,72.8,1.5e0\r\n1,10000,72.8,2e\r\n"), uint8(0))
 	berlin, _ := time.LoadLocation("Europe/Berlin")
 	f.Fuzz(func(t *testing.T, data []byte, sel uint8) {
 		opt := Options{Separator: []byte{0, ',', ';', '\t'}[sel&3], DecimalComma: sel&4 != 0}

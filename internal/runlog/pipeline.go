@@ -228,28 +228,38 @@ func (p *parser) parseBlock(blk block, b *batch) {
 	lineNo := blk.line - 1
 	have, prevTime, prevLine := false, 0.0, 0
 	var res rowResult
+	fast := !blk.quotes && !blk.general
 	for len(data) > 0 {
-		l := data
-		if i := bytes.IndexByte(data, '\n'); i >= 0 {
-			l, data = data[:i], data[i+1:]
-		} else {
-			data = nil
-		}
 		lineNo++
-		if n := len(l); n > 0 && l[n-1] == '\r' {
-			l = l[:n-1]
-		}
-		if len(l) == 0 {
-			continue
-		}
 		var rec *Record
 		if p.cfg.noOptional != nil {
 			rec = b.grow(0)
-			rec.Optional = p.cfg.noOptional
+			if rec.Optional == nil { // a reused record has it already
+				rec.Optional = p.cfg.noOptional
+			}
 		} else {
 			rec = b.grow(p.cfg.nOptional)
 		}
-		if blk.quotes || blk.general || !p.fastRow(l, lineNo, rec, &res) {
+		n, ok := 0, false
+		if fast {
+			n, ok = p.fastRow(data, lineNo, rec, &res)
+		}
+		if ok {
+			data = data[n:]
+		} else {
+			l := data
+			if i := bytes.IndexByte(data, '\n'); i >= 0 {
+				l, data = data[:i], data[i+1:]
+			} else {
+				data = nil
+			}
+			if n := len(l); n > 0 && l[n-1] == '\r' {
+				l = l[:n-1]
+			}
+			if len(l) == 0 {
+				b.recs = b.recs[:len(b.recs)-1]
+				continue
+			}
 			p.parseRow(l, lineNo, rec, blk.quotes, &res)
 		}
 		if res.err == nil && have && rec.Time < prevTime {

@@ -2,6 +2,7 @@ package runlog
 
 import (
 	"bytes"
+	"encoding/binary"
 	"fmt"
 	"math"
 	"time"
@@ -89,11 +90,13 @@ type parser struct {
 	dateY, dateM, dateD int
 	dateDays            int64
 	dateOK              bool
-	// The minute of the last clock time read in UTC (sameMinute).
-	minText [17]byte
-	minBase int64 // Unix seconds at the minute's start
-	minZ    bool  // written with Z
-	minOK   bool
+	// The minute of the last clock time read in UTC (sameMinute): its
+	// first 17 bytes, as two little-endian words and a byte.
+	minText0, minText8 uint64
+	minText16          byte
+	minBase            int64 // Unix seconds at the minute's start
+	minZ               bool  // written with Z
+	minOK              bool
 }
 
 func newParser(cfg *rowConfig) *parser {
@@ -189,13 +192,17 @@ func (p *parser) parseRow(line []byte, lineNo int, rec *Record, quotes bool, res
 	}
 }
 
-// fastRow parses a line of the common shape — no quotes (the caller knows),
-// no spaces around fields, every field well-formed — straight into rec,
-// reading each field where it starts instead of splitting the line first.
-// It says false whenever it is not sure, and then parseRow reads the line
-// and gives any error; where it says true the values are those parseRow
-// would give (the same field parsers; FuzzRunReader checks both paths).
-func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) bool {
+// fastRow parses the line at the start of data (the rest of a block) when
+// it has the common shape — no quotes (the caller knows), no spaces around
+// fields, every field well-formed — straight into rec, reading each field
+// where it starts instead of finding the line's end and splitting it first.
+// It says how many bytes the line took with its line break ("\n" or
+// "\r\n"; none for a last line without one). It says false whenever it is
+// not sure, and then parseRow reads the line and gives any error; where it
+// says true the values are those parseRow would give (the same field
+// parsers, none of which reads a line break into a field; FuzzRunReader
+// checks both paths).
+func (p *parser) fastRow(data []byte, lineNo int, rec *Record, res *rowResult) (int, bool) {
 	c := p.cfg
 	*res = rowResult{}
 	pos, last := 0, len(c.roles)-1
@@ -203,13 +210,13 @@ func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) b
 		switch role.kind {
 		case fieldNumber:
 			n := &c.numeric[role.num]
-			v, k, ok := scanNumber(line[pos:], c.decimalComma)
+			v, k, ok := scanNumber(data[pos:], c.decimalComma)
 			if !ok {
-				return false
+				return 0, false
 			}
 			si := v*n.scale + n.offset
 			if n.temp && si < -273.15 {
-				return false
+				return 0, false
 			}
 			switch n.target {
 			case targetTemperature:
@@ -221,10 +228,10 @@ func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) b
 			}
 			pos += k
 		case fieldTime:
-			tb := line[pos:]
+			tb := data[pos:]
 			if c.clock {
 				if c.timeUnit != "" {
-					return false
+					return 0, false
 				}
 				t, k, zoneLess, ok := p.sameMinute(tb)
 				if !ok {
@@ -233,7 +240,7 @@ func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) b
 					// A fraction written "06:00:00,5" would take the
 					// separator ',' into the time.
 					if !ok || k > 19 && tb[19] == c.sep {
-						return false
+						return 0, false
 					}
 					t, zoneLess = p.seconds(&cl), !cl.zoned
 					p.rememberMinute(tb, k, &cl)
@@ -243,7 +250,7 @@ func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) b
 			} else {
 				v, k, ok := scanNumber(tb, c.decimalComma)
 				if !ok {
-					return false
+					return 0, false
 				}
 				rec.Time = v * c.timeScale
 				tb = tb[:k]
@@ -251,37 +258,56 @@ func (p *parser) fastRow(line []byte, lineNo int, rec *Record, res *rowResult) b
 			res.timeCol, res.timeText = pos, tb
 			pos += len(tb)
 		case fieldFlag:
-			fwd, k, ok := scanFlag(line[pos:])
+			fwd, k, ok := scanFlag(data[pos:])
 			if !ok {
-				return false
+				return 0, false
 			}
 			rec.Forward = fwd
 			pos += k
 		default:
-			pos = fieldEnd(line, pos, c.sep)
+			pos = fieldEnd(data, pos, c.sep)
 		}
 		if i == last {
-			if pos != len(line) {
-				return false
-			}
-		} else {
-			if pos >= len(line) || line[pos] != c.sep {
-				return false
-			}
-			pos++
+			break
 		}
+		if pos >= len(data) || data[pos] != c.sep {
+			return 0, false
+		}
+		pos++
 	}
 	rec.Line = lineNo
-	return true
+	// The line ends here: at a line break, or at the end of the data (the
+	// file's last line), a "\r" before either not being the line's.
+	switch {
+	case pos == len(data):
+		return pos, true
+	case data[pos] == '\n':
+		return pos + 1, true
+	case data[pos] == '\r' && (pos+1 == len(data) || data[pos+1] == '\n'):
+		return min(pos+2, len(data)), true
+	}
+	return 0, false
 }
 
 // fieldEnd is the offset of the separator ending the field that starts at
-// pos, or the line's length.
-func fieldEnd(line []byte, pos int, sep byte) int {
-	if i := bytes.IndexByte(line[pos:], sep); i >= 0 {
-		return pos + i
+// pos in data, or of the end of its line (the line break, less a "\r"
+// before it; the end of data).
+func fieldEnd(data []byte, pos int, sep byte) int {
+	for i := pos; i < len(data); i++ {
+		switch data[i] {
+		case sep:
+			return i
+		case '\n':
+			if i > pos && data[i-1] == '\r' {
+				return i - 1
+			}
+			return i
+		}
 	}
-	return len(line)
+	if n := len(data); n > pos && data[n-1] == '\r' {
+		return n - 1
+	}
+	return len(data)
 }
 
 // seconds is a clock's instant in seconds since the file's origin
@@ -307,7 +333,8 @@ func (p *parser) seconds(cl *clock) float64 {
 // the minute's start plus them, as scanClock and seconds would give it.
 // ok is false for anything else, which the full parser then reads.
 func (p *parser) sameMinute(tb []byte) (t float64, k int, zoneLess, ok bool) {
-	if !p.minOK || len(tb) < 19 || string(tb[:17]) != string(p.minText[:]) {
+	if !p.minOK || len(tb) < 19 || binary.LittleEndian.Uint64(tb) != p.minText0 ||
+		binary.LittleEndian.Uint64(tb[8:]) != p.minText8 || tb[16] != p.minText16 {
 		return 0, 0, false, false
 	}
 	s0, s1 := tb[17]-'0', tb[18]-'0'
@@ -342,7 +369,7 @@ func (p *parser) rememberMinute(tb []byte, k int, cl *clock) {
 		p.minOK = false
 		return
 	}
-	copy(p.minText[:], tb[:17])
+	p.minText0, p.minText8, p.minText16 = binary.LittleEndian.Uint64(tb), binary.LittleEndian.Uint64(tb[8:]), tb[16]
 	p.minBase = cl.unix(time.UTC) - int64(cl.sec)
 	p.minZ, p.minOK = z, true
 }
