@@ -15,7 +15,8 @@ import (
 // fresh computation through package lethality gives, to the bit: each
 // organism's D as read and at the lowered reading, the rheology at the
 // colder of the reading and the setpoint, and the fastest particle's speed.
-// The caches only remember; they must never change a result.
+// The caches only remember; they must never change a result. Expected
+// values: package lethality's uncached functions, the engine's source.
 func TestCachesBitIdentical(t *testing.T) {
 	m := Model{
 		Tube:     lethality.Tube{InnerDiameter: 0.0475, Length: 34},
