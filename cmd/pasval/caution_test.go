@@ -2,7 +2,7 @@ package main
 
 // Every printed verdict carries the caution (SAFETY.md "What every output
 // says"): report's "wrote … PASS" line and verify's result among them.
-// Expected text: assess.Caution itself, the wording SAFETY.md sets out.
+// Source of the expected text: assess.Caution, the wording SAFETY.md sets out.
 
 import (
 	"bytes"

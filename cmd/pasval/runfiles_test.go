@@ -7,8 +7,8 @@ import (
 
 // TestRunFlagsRoundTrip: the reading options a run-review record keeps
 // (encode) read back (decodeRunFlags) as given, --window among them, and
-// defaults are left out of the text. Expected values: the options given
-// (a round trip) and the text written by hand from the flags' syntax.
+// defaults are left out of the text. Source of the expected values: the
+// options given (a round trip), the text written by hand from the flags.
 func TestRunFlagsRoundTrip(t *testing.T) {
 	cases := []struct {
 		name string

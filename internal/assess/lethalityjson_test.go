@@ -9,8 +9,8 @@ import (
 func TestUnrequiredLogReductionIsNullInJSON(t *testing.T) {
 	// The SI demo enters M. paratuberculosis without a required log
 	// reduction (reported, not judged: docs/METHOD.md §9.5) and Listeria with
-	// 5. JSON must not say "required 0" or "pass" for the first. Expected
-	// values: the demo file's own entries.
+	// 5. JSON must not say "required 0" or "pass" for the first. Source of
+	// the expected values: the demo file's own entries.
 	p := load(t, string(mustRead(t, "../../testdata/demo/htst-milk-si.yaml")))
 	res, err := Run(p)
 	if err != nil {

@@ -9,7 +9,8 @@ import (
 func TestToleranceBeyondTheRangeNamesItsUnit(t *testing.T) {
 	// The SI demo's 34 m tube with a tolerance of ±500 ft (152.4 m, NIST
 	// SP 811: 1 ft = 0.3048 m) reaches 34 − 152.4 = −118.4 m: the error gives
-	// the ends and the range with their SI unit, not bare numbers.
+	// the ends and the range with their SI unit, not bare numbers. Source:
+	// the demo file's length and NIST SP 811's foot.
 	src, err := os.ReadFile("../../testdata/demo/htst-milk-si.yaml")
 	if err != nil {
 		t.Fatal(err)
