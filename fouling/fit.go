@@ -178,6 +178,15 @@ func TauRange(t []float64) (lo, hi float64) {
 // golden-section refinement.
 const tauGrid = 64
 
+// asymptoticDesign fills x with the columns of a + R_f∞·(1 − e^(−t/τ)):
+// 1 and 1 − e^(−t/τ), written −expm1(−t/τ) to keep small t exact.
+func asymptoticDesign(x *mat.Dense, t []float64, tau float64) {
+	for i, ti := range t {
+		x.Set(i, 0, 1)
+		x.Set(i, 1, -math.Expm1(-ti/tau))
+	}
+}
+
 // FitAsymptotic fits y = a + R∞ (1 − e^(−t/τ)) by separable least squares:
 // for a fixed τ the model is linear in (a, R∞) and solved as FitLinear
 // solves its own; τ minimises that residual sum of squares over [lo, hi]:
@@ -206,10 +215,7 @@ func FitAsymptotic(t, y []float64, lo, hi float64) (Fit, error) {
 	x := mat.NewDense(len(t), 2, nil)
 	rss := func(lnTau float64) float64 {
 		tau := math.Exp(lnTau)
-		for i, ti := range t {
-			x.Set(i, 0, 1)
-			x.Set(i, 1, -math.Expm1(-ti/tau))
-		}
+		asymptoticDesign(x, t, tau)
 		beta, err := solve(x, y)
 		if err != nil {
 			return math.Inf(1)
@@ -235,10 +241,7 @@ func FitAsymptotic(t, y []float64, lo, hi float64) (Fit, error) {
 		lnTau = a + float64(best)*step
 	}
 	tau := math.Exp(lnTau)
-	for i, ti := range t {
-		x.Set(i, 0, 1)
-		x.Set(i, 1, -math.Expm1(-ti/tau))
-	}
+	asymptoticDesign(x, t, tau)
 	beta, err := solve(x, y)
 	if err != nil {
 		return Fit{}, err

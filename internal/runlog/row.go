@@ -52,6 +52,18 @@ const (
 	targetFlow        = -2
 )
 
+// store puts a column's SI value where its target says in rec.
+func (n *numField) store(rec *Record, si float64) {
+	switch n.target {
+	case targetTemperature:
+		rec.Temperature = si
+	case targetFlow:
+		rec.Flow = si
+	default:
+		rec.Optional[n.target] = si
+	}
+}
+
 // fieldRole is what a field of a line holds.
 type fieldRole struct {
 	kind fieldKind
@@ -181,14 +193,7 @@ func (p *parser) parseRow(line []byte, lineNo int, rec *Record, quotes bool, res
 				return
 			}
 		}
-		switch n.target {
-		case targetTemperature:
-			rec.Temperature = si
-		case targetFlow:
-			rec.Flow = si
-		default:
-			rec.Optional[n.target] = si
-		}
+		n.store(rec, si)
 	}
 }
 
@@ -218,14 +223,7 @@ func (p *parser) fastRow(data []byte, lineNo int, rec *Record, res *rowResult) (
 			if n.temp && si < -273.15 {
 				return 0, false
 			}
-			switch n.target {
-			case targetTemperature:
-				rec.Temperature = si
-			case targetFlow:
-				rec.Flow = si
-			default:
-				rec.Optional[n.target] = si
-			}
+			n.store(rec, si)
 			pos += k
 		case fieldTime:
 			tb := data[pos:]
