@@ -404,3 +404,35 @@ func TestEveryTestKindIsJudged(t *testing.T) {
 	}()
 	Applies(p, "no-such-kind")
 }
+
+func TestTestBelowTheSealWarns(t *testing.T) {
+	// The regulator times the tube at the sealed maximum (docs/METHOD.md
+	// §15.2): a test at 2990 L/h under a 3000 L/h seal (0.33 % below, more
+	// than the 0.1 % allowed) is converted to the seal by the model and
+	// warns; the same test at 2998 L/h (0.067 % below) and at the seal does
+	// not. The flows are the test's entries, 3000 L/h the basePlant's seal.
+	for _, c := range []struct {
+		flow string
+		warn bool
+	}{{"2990 L/h", true}, {"2998 L/h", false}, {"3000 L/h", false}, {"3100 L/h", false}} {
+		res := runPlant(t, basePlant+`acceptance:
+  - {test: holding-time, date: 2026-06-01, by: QA, fluid: product, flow: `+c.flow+`, time: 25 s}
+`, date("2026-12-01"))
+		var got *Warning
+		for i, w := range res.Warnings {
+			if w.Code == WarnTimingTestBelowSeal {
+				got = &res.Warnings[i]
+			}
+		}
+		if (got != nil) != c.warn {
+			t.Errorf("%s: warning %v, want %v", c.flow, got, c.warn)
+			continue
+		}
+		if got == nil {
+			continue
+		}
+		if got.Field != "acceptance[0].flow" || math.Abs(got.Values["seal_m3_s"]*3.6e6-3000) > 1e-9 || math.Abs(got.Values["test_flow_m3_s"]*3.6e6-2990) > 1e-9 {
+			t.Errorf("%s: %+v", c.flow, *got)
+		}
+	}
+}

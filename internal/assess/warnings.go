@@ -72,6 +72,12 @@ const (
 	// TimingTestTolerance either way. Field: acceptance[i].time. Values:
 	// test_index, measured_s, model_s, difference (measured/model − 1).
 	WarnTimingTestDiffers WarningCode = "holding-time-test-differs"
+	// WarnTimingTestBelowSeal is a latest holding-time test timed at a
+	// flow more than TestFlowBelowSeal below the sealed maximum as entered
+	// (a seal raised since the test): its time at the seal is the model's
+	// scaling, not a measurement. Field: acceptance[i].flow. Values:
+	// test_index, test_flow_m3_s, seal_m3_s (volumetric as entered).
+	WarnTimingTestBelowSeal WarningCode = "holding-time-test-below-seal"
 	// WarnViscosityRises is a Newtonian viscosity point above the point
 	// next below it in temperature: liquid foods thin as they warm. Field:
 	// the warmer point's value. Values: at_C, value_Pa_s, below_at_C,
@@ -102,7 +108,7 @@ var WarningCodes = []WarningCode{WarnLaminarFlow, WarnViscosityExtrapolated, War
 	WarnPackReynolds, WarnPackBranch, WarnPackAngle, WarnPackApparentViscosity, WarnPackUDiffers, WarnPackViscosityExtrapolated,
 	WarnKineticsExtrapolated, WarnProductFrozen, WarnMediumPressurised, WarnOutletWarm, NoteOutletWarm,
 	WarnAcceptanceNotJudged, WarnHoldingTimeNotJudged, NoteSealFromRate, NoteRateFromSeal,
-	WarnLegalRowCool, WarnScalesMixed, WarnTimingTestDiffers, WarnViscosityRises, NoteExactSensor, WarnLineProductBlock,
+	WarnLegalRowCool, WarnScalesMixed, WarnTimingTestDiffers, WarnTimingTestBelowSeal, WarnViscosityRises, NoteExactSensor, WarnLineProductBlock,
 	WarnRunTemperatureUnit, WarnRunFlowUnit}
 
 // Warning is something the user should look at that is not a failed check.

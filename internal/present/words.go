@@ -185,6 +185,14 @@ func WarningText(w assess.Warning, p *plantfile.Plant, d Display) string {
 			"a value typed in the wrong scale; check each", fieldList(celsius), fieldList(fahrenheit))
 	case assess.WarnTimingTestDiffers:
 		return timingDiffersText(w, p, d)
+	case assess.WarnTimingTestBelowSeal:
+		what := "a holding-time test"
+		if i := int(v["test_index"]); i >= 0 && i < len(p.Acceptance) {
+			what = fmt.Sprintf("the holding-time test of %s (acceptance[%d])", p.Acceptance[i].Date.Format(units.DateLayout), i)
+		}
+		return fmt.Sprintf("%s was timed at %s, below the sealed maximum %s: its time at the seal is the model's scaling of it, "+
+			"not a measurement; the regulator's holding-time test is timed at the sealed maximum, so repeat it at the seal now in force",
+			what, d.With(v["test_flow_m3_s"], units.VolumeFlow, d.flowPrec()), d.With(v["seal_m3_s"], units.VolumeFlow, d.flowPrec()))
 	case assess.WarnViscosityRises:
 		point := strings.TrimSuffix(w.Field, ".value")
 		return fmt.Sprintf("%s: %s at %s is above %s at %s: liquid foods thin as they warm (unless starch or egg proteins set), "+
