@@ -198,7 +198,7 @@ func writePlates(w io.Writer, p *plantfile.Plant, wi *assess.WhatIf, d present.D
 			d.Num(o.PasteurizedOutC, units.Temperature, 1), d.Power(o.HeatingDutyKW*1e3), d.Power(o.CoolingDutyKW*1e3), med, cool, present.ChecksText(o), kneeMark(o))
 	}
 	t.write(w)
-	if notes := present.LayoutNotes(wi); len(notes) > 0 {
+	if notes := append(present.LayoutNotes(wi), present.NotRejudgedNotes(wi)...); len(notes) > 0 {
 		fmt.Fprintln(w)
 		for _, note := range notes {
 			fmt.Fprint(w, wrap(note, "  ", 88))

@@ -96,8 +96,23 @@ type WhatIf struct {
 	// Rounded lists each request that whole steps changed, in the order
 	// asked; several may round to one option, which is shown once.
 	Rounded []RoundedRequest `json:"rounded,omitempty"`
-	Caution string           `json:"caution"`
+	// NotRejudged names what the options take from the plant file as it
+	// stands rather than judge anew (docs/METHOD.md §11): "acceptance-tests",
+	// always (the tests on record were measured on the installed equipment;
+	// `check` and `due` judge them, and a change of plates makes them due
+	// again), and "regenerator-pressure" when the plant enters the
+	// regenerator's pressures (measured or set for the installed plates; more
+	// plates change the pressure drops). The words are made in
+	// internal/present.
+	NotRejudged []string `json:"not_rejudged"`
+	Caution     string   `json:"caution"`
 }
+
+// What the plates options do not judge anew (WhatIf.NotRejudged).
+const (
+	NotRejudgedAcceptance          = "acceptance-tests"
+	NotRejudgedRegeneratorPressure = "regenerator-pressure"
+)
 
 // RoundedRequest is a number of added plates asked for and what whole
 // steps of the layout made of it.
@@ -205,7 +220,11 @@ func addPlates(p *plantfile.Plant, added []int, kneeFraction float64, layout Lay
 	if err := CheckLayout(p, layout); err != nil {
 		return nil, err
 	}
-	w := &WhatIf{Baseline: base, Options: []PlatesOption{}, KneeFraction: kneeFraction, Layout: layout, Caution: Caution}
+	w := &WhatIf{Baseline: base, Options: []PlatesOption{}, KneeFraction: kneeFraction, Layout: layout, Caution: Caution,
+		NotRejudged: []string{NotRejudgedAcceptance}}
+	if p.Regeneration.Pressure != nil {
+		w.NotRejudged = append(w.NotRejudged, NotRejudgedRegeneratorPressure)
+	}
 	if p.Economics != nil {
 		w.Currency = p.Economics.Currency
 	}

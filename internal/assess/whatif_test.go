@@ -193,3 +193,33 @@ func TestWhatIfDutiesAreTheSections(t *testing.T) {
 		t.Errorf("cooling %g kW is not more than the count to the target %g kW", cooling, toTarget)
 	}
 }
+
+func TestWhatIfSaysWhatItDoesNotRejudge(t *testing.T) {
+	// docs/METHOD.md §18: the acceptance tests always, the entered
+	// regenerator pressures when there are some (the SI demo enters them;
+	// whatIfPlant does not).
+	demo, err := plantfile.Load("../../testdata/demo/htst-milk-si.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name string
+		p    *plantfile.Plant
+		want []string
+	}{
+		{"without pressures", load(t, whatIfPlant), []string{NotRejudgedAcceptance}},
+		{"SI demo", demo, []string{NotRejudgedAcceptance, NotRejudgedRegeneratorPressure}},
+	} {
+		layout := LayoutNone
+		if c.p.Regeneration.Pack != nil {
+			layout = LayoutPasses
+		}
+		w, err := AddPlates(c.p, []int{14}, DefaultKneeFraction, layout)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if strings.Join(w.NotRejudged, ",") != strings.Join(c.want, ",") {
+			t.Errorf("%s: not rejudged %q, want %q", c.name, w.NotRejudged, c.want)
+		}
+	}
+}

@@ -425,6 +425,24 @@ func PlatesLayout(w *assess.WhatIf, d Display) Grid {
 	return g
 }
 
+// NotRejudgedNotes say what the options take as the plant file states it
+// rather than judge anew (assess.WhatIf.NotRejudged).
+func NotRejudgedNotes(w *assess.WhatIf) []string {
+	var notes []string
+	for _, what := range w.NotRejudged {
+		switch what {
+		case assess.NotRejudgedAcceptance:
+			notes = append(notes, "The checks column judges the line as computed, not the acceptance tests on record: those were measured "+
+				"on the installed equipment (check and due judge them), and a change of plates makes the tests the regulator requires "+
+				"after a change due again.")
+		case assess.NotRejudgedRegeneratorPressure:
+			notes = append(notes, "regenerator-pressure is judged with the pressures entered for the installed plates; more plates change "+
+				"the pressure drops on both sides, so measure the pressures again after the change.")
+		}
+	}
+	return notes
+}
+
 // LayoutNotes explain how a what-if laid out the added plates: the step of
 // the layout, the options rounded to it, and an entered U that the line kept.
 func LayoutNotes(w *assess.WhatIf) []string {

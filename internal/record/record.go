@@ -559,6 +559,7 @@ func whatIfSection(w *assess.WhatIf, d present.Display) report.Section {
 		blocks = append(blocks, payback)
 	}
 	notes := append([]string{"Saved is heating plus cooling: each equals C · Δratio · (setpoint − raw inlet)."}, present.LayoutNotes(w)...)
+	notes = append(notes, present.NotRejudgedNotes(w)...)
 	if w.KneeAdded != nil {
 		notes = append(notes, fmt.Sprintf("Knee: beyond +%d plates each further 10 plates save less than %.0f %% of what the first 10 saved.", *w.KneeAdded, w.KneeFraction*100))
 	}
