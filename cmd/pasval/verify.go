@@ -21,6 +21,10 @@ import (
 // errMismatch reports a verification that read everything and found a difference.
 var errMismatch = fmt.Errorf("the record does not match: %w", errChecksFailed)
 
+// errUnverified reports a run review given without its runs: what was read
+// agrees, but its verdicts and pages could not be recomputed.
+var errUnverified = fmt.Errorf("the record could not be verified without its recorded runs: %w", errChecksFailed)
+
 func newVerifyCmd(stdout io.Writer) *cobra.Command {
 	var logs []string
 	cmd := &cobra.Command{
@@ -67,22 +71,23 @@ file of at most %d MiB.`, report.MaxRecordSize>>20, report.MaxPlantFileSize>>20)
 A run-review record (report --log) carries its plant file but not its
 recorded runs: verify re-reads the runs given with --log (matched by their
 SHA-256, read with the options the record stores) and re-renders the
-record; without them it checks the plant file and ends PARTIAL MATCH: the
-pages could not be byte-checked.`
+record; without them it checks the plant file only and ends UNVERIFIED
+(exit 1): neither the verdicts nor the pages could be checked, so a script
+that trusts the exit status is never told that an unchecked review holds.`
 	cmd.Long += `
 
 The last line is MATCH only when the record is byte for byte its re-render;
 PARTIAL MATCH when what could be checked agrees but the pages could not be
-compared (a record of another version, or a run review without its runs);
-MISMATCH otherwise.
+compared (a record of another version); UNVERIFIED for a run review given
+without its runs; MISMATCH otherwise.
 
 Exit status:
   0  MATCH: the record is identical to the one its plant file gives; or
      PARTIAL MATCH: made by another version, its plant file and verdicts
-     agree, or a run review given without its runs, its plant file agrees
-     (pages not byte-checked)
+     agree (pages not byte-checked)
   1  anything differs: the attachment, the plant file given, a verdict, a page,
-     or any other byte of the file
+     or any other byte of the file; or UNVERIFIED: a run review given without
+     its runs (its plant file agrees; verdicts and pages not checked)
   2  the record or plant file cannot be read`
 	return cmd
 }
@@ -160,6 +165,9 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 	// partial names what was not checked when the pages could not be
 	// compared byte for byte ("" when they were).
 	partial := ""
+	// unverified names what was not checked of a run review given without
+	// its runs: nothing it prints was recomputed, so it does not exit 0.
+	unverified := ""
 	switch st.Kind {
 	case report.KindRunReview:
 		okRuns, err := verifyRunReview(st, pdf, logs, out, diag)
@@ -169,7 +177,7 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 		ok = okRuns && ok
 		switch {
 		case len(logs) == 0:
-			partial = "the attachments agree; verdicts and pages not checked (give --log with each recorded run to re-render it)"
+			unverified = "the attachments agree; verdicts and pages not checked (give --log with each recorded run to re-render it)"
 		case st.Version != version.Version || st.Date.IsZero():
 			partial = fmt.Sprintf("attachments, runs and verdicts agree; pages not byte-checked (the record was made by %s, this is pasval %s)",
 				madeBy(st), version.Version)
@@ -194,6 +202,10 @@ func runVerify(recordPath string, inputPaths, logs []string, out, diag io.Writer
 		fmt.Fprintf(out, "MISMATCH: a file given is not one the record carries (the record itself is what %s %s)\n", attachedFiles(st), giveVerb(st))
 		writeCaution(out)
 		return errMismatch
+	case unverified != "":
+		fmt.Fprintln(out, "UNVERIFIED: "+unverified)
+		writeCaution(out)
+		return errUnverified
 	case partial != "":
 		fmt.Fprintln(out, "PARTIAL MATCH: "+partial)
 	default:

@@ -242,10 +242,10 @@ func TestVerifyRecordOfAnotherVersion(t *testing.T) {
 	}
 }
 
-func TestVerifyRunReviewWithoutItsRunsIsPartial(t *testing.T) {
-	// A run review carries its plant file, not its runs: without --log the
-	// pages cannot be byte-checked, so verify says PARTIAL MATCH (exit 0),
-	// never a plain MATCH; with the run it is byte for byte, MATCH.
+func TestVerifyRunReviewWithoutItsRunsIsUnverified(t *testing.T) {
+	// A run review carries its plant file, not its runs: without --log its
+	// verdicts and pages cannot be checked, so verify says UNVERIFIED (exit
+	// 1), never MATCH; with the run it is byte for byte, MATCH.
 	dir := t.TempDir()
 	rec := filepath.Join(dir, "review.pdf")
 	plant, shift := filepath.Join(demoDir, "htst-milk-si.yaml"), filepath.Join(demoDir, "runs", "htst-milk-si-shift.csv")
@@ -253,7 +253,7 @@ func TestVerifyRunReviewWithoutItsRunsIsPartial(t *testing.T) {
 		t.Fatalf("report: exit %d %s", code, errs)
 	}
 	out, _, code := runBinary(t, "verify", rec)
-	if code != exitPass || !strings.Contains(out, "\nPARTIAL MATCH: ") || !strings.Contains(out, "give --log") || strings.Contains(out, "\nMATCH") {
+	if code != exitFail || !strings.Contains(out, "\nUNVERIFIED: ") || !strings.Contains(out, "give --log") || strings.Contains(out, "MATCH") {
 		t.Errorf("without the run: exit %d\n%s", code, out)
 	}
 	out, _, code = runBinary(t, "verify", rec, "--log", shift)
