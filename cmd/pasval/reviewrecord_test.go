@@ -12,7 +12,7 @@ import (
 )
 
 // TestRunReviewRecord writes the run-review record of the demo shift and
-// verifies it: without the runs the pages are not byte-checked (said), with
+// verifies it: without the runs nothing is recomputed (UNVERIFIED, exit 1), with
 // them the record is re-rendered byte for byte; another run, an edited
 // record or a validation record given runs are refused.
 func TestRunReviewRecord(t *testing.T) {
@@ -23,7 +23,7 @@ func TestRunReviewRecord(t *testing.T) {
 		t.Fatalf("report --log: exit %d %q %q", code, out, errs)
 	}
 	out, _, code = runBinary(t, "verify", rec)
-	if code != exitPass || !strings.Contains(out, "NOT byte-checked: the recorded runs were not given") || !strings.Contains(out, "recorded run ") {
+	if code != exitFail || !strings.Contains(out, "NOT byte-checked: the recorded runs were not given") || !strings.Contains(out, "recorded run ") {
 		t.Errorf("verify without runs: exit %d\n%s", code, out)
 	}
 	// The run may be given from elsewhere, under another name.
