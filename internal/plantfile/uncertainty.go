@@ -295,6 +295,9 @@ func (v *validator) uncertainty(p *Plant) {
 		}
 		a := t.Half(x)
 		b := t.Field.Vary.Bound
+		if !b.Contains(x) && v.refused(t.Path) {
+			continue // the value itself is refused where it is written: once is enough
+		}
 		if !b.Contains(x-a) || !b.Contains(x+a) {
 			unit := ""
 			switch {

@@ -73,6 +73,16 @@ func (v *validator) add(pos inputerr.Pos, field, format string, args ...any) {
 	v.errs = append(v.errs, &inputerr.Error{Pos: pos, Field: field, Msg: fmt.Sprintf(format, args...)})
 }
 
+// refused says whether an error has been found at a field already.
+func (v *validator) refused(field string) bool {
+	for _, e := range v.errs {
+		if e.Field == field {
+			return true
+		}
+	}
+	return false
+}
+
 // positive checks an entered quantity is above zero.
 func (v *validator) positive(q Quantity, field string) {
 	if q.Set && !(q.SI > 0) {
