@@ -102,7 +102,7 @@ func (d Display) diversionNote(c assess.Check) string {
 	v := c.Detail.Diversion
 	at := "at the sealed maximum"
 	if !v.AtSeal {
-		at = fmt.Sprintf("at %s (just below Re 4000, the worst flow)", d.flow(v.FlowM3s))
+		at = fmt.Sprintf("at %s, just below Re 4000, the worst flow", d.flow(v.FlowM3s))
 	}
 	from := "diversion.response_time as entered"
 	if v.ResponseFromTest != nil {
