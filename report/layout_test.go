@@ -98,3 +98,41 @@ func TestDiagramLabelsStayInTheFrame(t *testing.T) {
 		}
 	}
 }
+
+func TestTheWidestCellOfAColumnStaysOnOneLine(t *testing.T) {
+	// A column is as wide as its widest cell plus the padding; that cell
+	// (a header such as "result" or "P(holds)", a number such as "16.03")
+	// must come back on one line, not broken by a rounding of the width
+	// (seen: "resul t", "16. 03"). And a table too wide for the page shrinks
+	// its text column, not below the widest word of any column.
+	r, err := newRenderer(layoutDoc(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r.f.AddPage()
+	for _, cell := range []string{"result", "P(holds)", "16.03", "2026-11-10", "standard error", "≥ 2.08 cm/m"} {
+		for _, style := range []string{"", "B"} {
+			r.font(style, bodySize)
+			tab := Table{Columns: []Column{{Title: cell}}, Rows: [][]string{{cell}}}
+			_, _, widths := r.tableLayout(tab)
+			r.font(style, bodySize)
+			if got := r.splitText(cell, widths[0]-2*cellPad); len(got) != 1 {
+				t.Errorf("%q (style %q) in a column %.4f mm wide: %q", cell, style, widths[0], got)
+			}
+		}
+	}
+	long := strings.Repeat("a note that goes on and on ", 30)
+	tab := Table{Columns: []Column{{Title: "check"}, {Title: "result"}, {Title: "actual"}, {Title: "note"}},
+		Rows: [][]string{{"holding-time", "PASS", "16.34 s", long}}}
+	r.font("", bodySize)
+	_, _, widths := r.tableLayout(tab)
+	for i, cell := range tab.Rows[0][:3] {
+		r.font("", bodySize)
+		if got := r.splitText(cell, widths[i]-2*cellPad); len(got) != 1 {
+			t.Errorf("column %d, %q broken in %.4f mm: %q", i, cell, widths[i], got)
+		}
+	}
+	if sum := widths[0] + widths[1] + widths[2] + widths[3]; sum > r.w+1e-9 {
+		t.Errorf("table %.3f mm wide on a %.3f mm page", sum, r.w)
+	}
+}

@@ -3,6 +3,7 @@ package report
 import (
 	"math"
 	"strings"
+	"unicode"
 )
 
 // Tables of the record: columns as wide as their content, wrapped to the
@@ -56,18 +57,39 @@ func (r *renderer) tableLayout(t Table) (size, lh float64, widths []float64) {
 	lh = lineH * size / bodySize
 	n := len(t.Columns)
 	widths = make([]float64, n)
+	least := make([]float64, n) // the widest word of the column: no word or number is broken if it can be helped
 	r.font("B", size)
 	for i, c := range t.Columns {
 		widths[i] = f.GetStringWidth(c.Title) + 2*cellPad
+		least[i] = widestWord(c.Title, f.GetStringWidth) + 2*cellPad
 	}
 	r.font("", size)
 	for _, row := range t.Rows {
 		for i := 0; i < n && i < len(row); i++ {
 			widths[i] = math.Max(widths[i], f.GetStringWidth(row[i])+2*cellPad)
+			least[i] = math.Max(least[i], widestWord(row[i], f.GetStringWidth)+2*cellPad)
 		}
 	}
-	fitWidths(widths, r.w)
+	fitWidths(widths, least, r.w)
 	return size, lh, widths
+}
+
+// widestWord is the width of the widest part of a cell that splitText would
+// rather not break: a word, or the part of a name between its separators
+// ('.', '_', '/', '-'), or a whole number or date ("16.03", "2026-11-10",
+// which have no letters, since a break inside them misreads as two values).
+func widestWord(s string, width func(string) float64) float64 {
+	most := 0.0
+	for _, w := range strings.Fields(printable(s)) {
+		parts := []string{w}
+		if strings.IndexFunc(w, unicode.IsLetter) >= 0 {
+			parts = atSeparators(w)
+		}
+		for _, p := range parts {
+			most = math.Max(most, width(p))
+		}
+	}
+	return most
 }
 
 // tableLead is the height a table keeps together: its caption, header and
@@ -95,15 +117,24 @@ func titles(cols []Column) []string {
 	return out
 }
 
-// fitWidths shrinks the widest columns until the total fits.
-func fitWidths(w []float64, total float64) {
-	for range 200 {
-		sum, wi := 0.0, 0
+// fitWidths shrinks the widest columns until the total fits, none below its
+// least width (its widest word) while another can still give; when every
+// column is at its least and the table is still too wide, all shrink in
+// proportion (and long words break).
+func fitWidths(w, least []float64, total float64) {
+	for range 1000 {
+		sum, wi := 0.0, -1
 		for i, v := range w {
 			sum += v
-			if v > w[wi] {
+			if v > least[i] && (wi < 0 || v > w[wi]) {
 				wi = i
 			}
+		}
+		if sum > total && wi < 0 {
+			for i := range w {
+				w[i] *= total / sum
+			}
+			return
 		}
 		if sum <= total {
 			// spread the spare width over the columns
@@ -115,7 +146,7 @@ func fitWidths(w []float64, total float64) {
 			}
 			return
 		}
-		w[wi] -= math.Min(sum-total, w[wi]*0.1+0.5)
+		w[wi] = math.Max(least[wi], w[wi]-math.Min(sum-total, w[wi]*0.1+0.5))
 	}
 }
 
@@ -173,6 +204,10 @@ func (r *renderer) drawRow(cells []string, widths []float64, cols []Column, h, l
 // break that is still too long is cut where it must be.
 func (r *renderer) splitText(s string, w float64) []string {
 	f := r.f
+	// A column is exactly as wide as its widest cell plus the padding, and
+	// (W + 2p) − 2p may come back a rounding below W: without this slack
+	// (a millionth of a millimetre) that cell would break ("resul t").
+	w += 1e-6
 	width := func(t string) float64 { return f.GetStringWidth(t) }
 	var lines []string
 	for _, para := range strings.Split(s, "\n") {
@@ -202,17 +237,8 @@ func pieces(word string, w float64, width func(string) float64) []string {
 	if width(word) <= w {
 		return []string{word}
 	}
-	var out []string
-	start := 0
-	for i, c := range word {
-		if strings.ContainsRune("._/-", c) && i+1 < len(word) {
-			out = append(out, word[start:i+1])
-			start = i + 1
-		}
-	}
-	out = append(out, word[start:])
 	var fit []string
-	for _, p := range out {
+	for _, p := range atSeparators(word) {
 		for width(p) > w {
 			cut := 0
 			for i := range p {
@@ -230,4 +256,18 @@ func pieces(word string, w float64, width func(string) float64) []string {
 		fit = append(fit, p)
 	}
 	return fit
+}
+
+// atSeparators splits a word after each '.', '_', '/' or '-' in it (none
+// at its end), keeping the separators.
+func atSeparators(word string) []string {
+	var out []string
+	start := 0
+	for i, c := range word {
+		if strings.ContainsRune("._/-", c) && i+1 < len(word) {
+			out = append(out, word[start:i+1])
+			start = i + 1
+		}
+	}
+	return append(out, word[start:])
 }
