@@ -10,7 +10,7 @@ import (
 
 // Version is the release number; a release build may set it with
 // -ldflags "-X pasval/internal/version.Version=1.2.3".
-var Version = "0.2.0"
+var Version = "0.2.1"
 
 // Build describes the build: Go version, and the VCS revision when known.
 func Build() string {
