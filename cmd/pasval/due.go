@@ -13,6 +13,7 @@ import (
 type dueOptions struct {
 	file string
 	on   string // YYYY-MM-DD; empty: today
+	date string // --date, the same as --on
 	json bool
 }
 
@@ -38,6 +39,12 @@ review date is refused.`,
 		Args: argsFile,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.file = args[0]
+			if cmd.Flags().Changed("date") {
+				if cmd.Flags().Changed("on") && opts.date != opts.on {
+					return usagef("--on %s and --date %s name two review dates; give one", opts.on, opts.date)
+				}
+				opts.on = opts.date
+			}
 			return runDue(opts, stdout)
 		},
 	}
@@ -48,6 +55,7 @@ Exit status:
   1  some test's latest result failed, is overdue or was never done
   2  bad input or usage (the message names the file, line and field)`
 	cmd.Flags().StringVar(&opts.on, "on", "", "review date YYYY-MM-DD (default: today)")
+	cmd.Flags().StringVar(&opts.date, "date", "", "the same as --on, as check, report and matrix spell it")
 	cmd.Flags().BoolVar(&opts.json, "json", false, "print the list as JSON")
 	return cmd
 }

@@ -25,6 +25,8 @@ func TestDueCommand(t *testing.T) {
 		{"later: overdue", []string{"due", milk, "--on", "2028-11-15"}, exitFail, "1 overdue, 0 never done"},
 		// The frozen-dessert demo enters only its holding-time test.
 		{"never done", []string{"due", filepath.Join(demoDir, "frozen-dessert-si.yaml")}, exitFail, "0 overdue, 5 never done"},
+		{"later, as --date", []string{"due", milk, "--date", "2028-11-15"}, exitFail, "1 overdue, 0 never done"},
+		{"two review dates", []string{"due", milk, "--date", "2028-11-15", "--on", "2027-01-01"}, exitInput, "name two review dates"},
 		{"a date that is not one", []string{"due", milk, "--on", "15/01/2027"}, exitInput, "--on must be a date YYYY-MM-DD"},
 		{"before the tests", []string{"due", milk, "--on", "2026-10-19"}, exitInput, "is after the review date 2026-10-19"},
 	} {
