@@ -16,6 +16,7 @@ import (
 type holdOptions struct {
 	outputFlags
 	file string
+	date string // YYYY-MM-DD, the review date; empty: today
 }
 
 func newHoldCmd(stdout io.Writer) *cobra.Command {
@@ -36,8 +37,9 @@ one (whole °F in US units).
 Only the holding-tube checks (holding-time, log-reduction, tube-slope,
 diversion-timing: the fastest particle from the diversion sensor to the
 valve, and acceptance-holding-time: a measured holding-time test converted
-to the product, judged on today's date) decide the exit status here, and the
-Result line says so; 'pasval check' judges every check of the line.`,
+to the product, judged on the review date, --date or today) decide the exit
+status here, and the Result line says so; 'pasval check' judges every check
+of the line.`,
 		Example: `  pasval hold testdata/demo/frozen-dessert-si.yaml
   pasval hold line2.yaml --units us
   pasval hold line2.yaml --json`,
@@ -49,6 +51,7 @@ Result line says so; 'pasval check' judges every check of the line.`,
 	}
 	cmd.Long += "\n" + exitStatusHelp
 	opts.register(cmd)
+	cmd.Flags().StringVar(&opts.date, "date", "", "review date YYYY-MM-DD: the holding-time test is judged on it (default: today)")
 	return cmd
 }
 
@@ -77,7 +80,7 @@ func runHold(opts holdOptions, out io.Writer) error {
 		return inputerr.List{{Pos: inputerr.Pos{File: p.File, Line: 1, Column: 1}, Field: "holding_tube",
 			Msg: "the plant file describes no holding tube; add holding_tube (see 'pasval init' and the README)"}}
 	}
-	on, err := today()
+	on, err := dateFlag("--date", opts.date)
 	if err != nil {
 		return err
 	}

@@ -239,3 +239,26 @@ func TestHoldJudgesTheHoldingTubeOnly(t *testing.T) {
 		t.Errorf("check of the cream: exit %d, want 1", code)
 	}
 }
+
+func TestHoldJudgesTheHoldingTimeTestOnItsDate(t *testing.T) {
+	// The SI demo's latest holding-time test, 2026-11-10 every 2 years, is
+	// due again 2028-11-10 (the demo file's dates): on 2028-11-01 it holds,
+	// on 2028-12-01 it is stale and hold fails, as check does on that date.
+	milk := filepath.Join(demoDir, "htst-milk-si.yaml")
+	for _, c := range []struct {
+		date string
+		code int
+	}{{"2028-11-01", exitPass}, {"2028-12-01", exitFail}} {
+		out, _, code := runBinary(t, "hold", milk, "--date", c.date)
+		if code != c.code {
+			t.Errorf("hold --date %s: exit %d, want %d\n%s", c.date, code, c.code, out)
+		}
+		_, _, checkCode := runBinary(t, "check", milk, "--date", c.date)
+		if checkCode != c.code {
+			t.Errorf("check --date %s: exit %d, want %d", c.date, checkCode, c.code)
+		}
+	}
+	if _, errs, code := runBinary(t, "hold", milk, "--date", "2028/12/01"); code != exitInput || !strings.Contains(errs, "--date must be a date YYYY-MM-DD") {
+		t.Errorf("a date that is not one: exit %d %q", code, errs)
+	}
+}
