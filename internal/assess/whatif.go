@@ -97,7 +97,7 @@ type WhatIf struct {
 	// asked; several may round to one option, which is shown once.
 	Rounded []RoundedRequest `json:"rounded,omitempty"`
 	// NotRejudged names what the options take from the plant file as it
-	// stands rather than judge anew (docs/METHOD.md §11): "acceptance-tests",
+	// stands rather than judge anew (docs/METHOD.md §18): "acceptance-tests",
 	// always (the tests on record were measured on the installed equipment;
 	// `check` and `due` judge them, and a change of plates makes them due
 	// again), and "regenerator-pressure" when the plant enters the
